@@ -1,0 +1,111 @@
+/**
+ * The plus-minus method (Hagedoorn, "The plus-minus method of interpreting seismic
+ * refraction sections", Geophysical Prospecting 7, 1959, 158–182).
+ *
+ * For a geophone G between two opposing shots A (left, smaller x) and B (right), both
+ * recording head waves from the same refractor at G:
+ *   T+ = tAG + tBG − tAB          (plus time, ms)
+ *   T− = tAG − tBG                (minus time, ms)
+ * where tAB is the reciprocal time (A to B's position, equal to B to A's by reciprocity).
+ * In delay-time form t(S, G) = aS + aG + L(S, G)/V2, with L measured along the refractor
+ * between the feet of the perpendiculars; for G between A and B, L(A,G) + L(G,B) = L(A,B),
+ * so T+ = 2·aG: the delay time at G is T+/2, whatever the shots' own delays and elevations.
+ * T− = 2·L(A,G)/V2 + const, so T− against x has slope 2/V2 (see minus-time-velocity.ts).
+ *
+ * Normal depth (radius of G's depth arc): aG = zG·cos(ic)/V1 with sin(ic) = V1/V2, so
+ *   zG = (T+/2)·V1·V2 / sqrt(V2² − V1²)            (T+ in s, V in m/s, z in m).
+ */
+
+export interface PlusMinusPairInput {
+  /** Shot positions along the line, m; leftShotXM < rightShotXM. */
+  leftShotXM: number;
+  rightShotXM: number;
+  /** Geophone positions along the line, m, in survey order. */
+  geophoneXM: number[];
+  /** Head-wave arrivals from the left shot at each geophone (picked or phantomed), ms; null where none. */
+  leftTimesMs: (number | null)[];
+  /** Head-wave arrivals from the right shot at each geophone, ms; null where none. */
+  rightTimesMs: (number | null)[];
+  /** Reciprocal time tAB between the two shots, ms. */
+  reciprocalTimeMs: number;
+}
+
+export interface PlusMinusPairResult {
+  /** T+ per geophone, ms; null where the geophone is not strictly between the shots or lacks an arrival. */
+  plusTimeMs: (number | null)[];
+  /** T− per geophone, ms; null where T+ is null. */
+  minusTimeMs: (number | null)[];
+}
+
+/**
+ * Plus and minus times of one opposing shot pair at every geophone it covers.
+ * @example
+ * plusMinus({ leftShotXM: 0, rightShotXM: 30, geophoneXM: [10, 20],
+ *   leftTimesMs: [15, 19], rightTimesMs: [19, 15], reciprocalTimeMs: 22 })
+ * // → { plusTimeMs: [12, 12], minusTimeMs: [-4, 4] }
+ */
+export function plusMinus(input: PlusMinusPairInput): PlusMinusPairResult {
+  const { leftShotXM, rightShotXM, geophoneXM, leftTimesMs, rightTimesMs, reciprocalTimeMs } = input;
+  const plusTimeMs: (number | null)[] = [];
+  const minusTimeMs: (number | null)[] = [];
+  for (let i = 0; i < geophoneXM.length; i++) {
+    const x = geophoneXM[i];
+    const tA = leftTimesMs[i];
+    const tB = rightTimesMs[i];
+    const between = x > leftShotXM && x < rightShotXM;
+    if (!between || !isTime(tA) || !isTime(tB) || !isTime(reciprocalTimeMs)) {
+      plusTimeMs.push(null);
+      minusTimeMs.push(null);
+      continue;
+    }
+    plusTimeMs.push(tA + tB - reciprocalTimeMs);
+    minusTimeMs.push(tA - tB);
+  }
+  return { plusTimeMs, minusTimeMs };
+}
+
+export interface CombinedPlusTimes {
+  /** Mean T+ over the pairs that cover each geophone, ms; null where none does. */
+  plusTimeMs: (number | null)[];
+  /** Number of pairs that contributed at each geophone. */
+  pairCount: number[];
+}
+
+/**
+ * Combines the plus times of several opposing pairs: the plain mean at each geophone of
+ * every pair that covers it. (Every pair estimates the same 2·aG; equal weights for now.)
+ */
+export function combinePlusTimes(perPairPlusTimeMs: (number | null)[][], geophoneCount: number): CombinedPlusTimes {
+  const plusTimeMs: (number | null)[] = [];
+  const pairCount: number[] = [];
+  for (let i = 0; i < geophoneCount; i++) {
+    let sum = 0;
+    let n = 0;
+    for (const pair of perPairPlusTimeMs) {
+      const t = pair[i];
+      if (isTime(t)) {
+        sum += t;
+        n++;
+      }
+    }
+    plusTimeMs.push(n > 0 ? sum / n : null);
+    pairCount.push(n);
+  }
+  return { plusTimeMs, pairCount };
+}
+
+/**
+ * Normal depth (depth measured perpendicular to the refractor) from a delay time, m:
+ *   z = (delay/1000)·V1·V2 / sqrt(V2² − V1²)
+ * (Hagedoorn 1959; Kearey, Brooks & Hill 2002, ch. 5). Returns null unless V2 > V1 > 0
+ * and the delay time is finite; a negative delay time (picks inconsistent with the
+ * reciprocal time) gives a negative depth that the caller must reject or report.
+ */
+export function normalDepthFromDelayM(delayTimeMs: number, v1MPerS: number, v2MPerS: number): number | null {
+  if (!isTime(delayTimeMs) || !(v1MPerS > 0) || !(v2MPerS > v1MPerS) || !Number.isFinite(v2MPerS)) return null;
+  return ((delayTimeMs / 1000) * v1MPerS * v2MPerS) / Math.sqrt(v2MPerS * v2MPerS - v1MPerS * v1MPerS);
+}
+
+function isTime(value: number | null | undefined): value is number {
+  return typeof value === 'number' && Number.isFinite(value);
+}
