@@ -1,0 +1,166 @@
+/**
+ * The one catalogue of errors the service answers with, and the one handler that turns
+ * every failure (ours, Fastify's content-type / body-size / JSON / schema errors, and
+ * anything unexpected) into the contract's body (api-v1.md):
+ *   {"error": {"code": "…", "message": "…", "path": "/shots/2/times/7", "problems": [...]}}
+ * Bad input never gives a 500; an unexpected failure gives a 500 with a generic message
+ * and is logged with its stack.
+ */
+import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
+import type { Problem } from '../engine/problem.js';
+
+interface CatalogueEntry {
+  status: number;
+  message: string;
+}
+
+export const ERROR_CATALOGUE = {
+  invalid_json: { status: 400, message: 'The body is not valid JSON: check brackets, commas and quotes.' },
+  empty_body: {
+    status: 400,
+    message: 'The request has no body: send the survey as application/json or a pick table as text/csv.',
+  },
+  unsupported_content_type: {
+    status: 400,
+    message: 'Send the survey as application/json or a pick table as text/csv, and say which in the Content-Type header.',
+  },
+  invalid_survey: { status: 400, message: 'The survey has problems.' },
+  invalid_pick_table: { status: 400, message: 'The pick table has problems.' },
+  invalid_request: { status: 400, message: 'The request is not valid.' },
+  body_too_large: { status: 413, message: 'The body is too large.' },
+  write_token_required: {
+    status: 401,
+    message: 'This service needs a write token: send "Authorization: Bearer <token>".',
+  },
+  write_token_invalid: { status: 401, message: 'The write token is not the one this service was given.' },
+  not_found: { status: 404, message: 'Nothing here.' },
+  survey_not_found: { status: 404, message: 'No stored survey has this id.' },
+  revision_not_found: { status: 404, message: 'This survey has no such revision.' },
+  share_not_found: { status: 404, message: 'This share link does not exist or has been revoked.' },
+  internal_error: { status: 500, message: 'Something went wrong on the server; the error has been logged.' },
+} as const satisfies Record<string, CatalogueEntry>;
+
+export type ErrorCode = keyof typeof ERROR_CATALOGUE;
+
+/**
+ * The contract's error body. `problems` (every problem found, not only the first) is
+ * given both inside `error` and beside it, so clients reading either place find it.
+ */
+export interface ErrorBody {
+  error: { code: string; message: string; path: string; problems?: Problem[] };
+  problems?: Problem[];
+}
+
+/** A coded error a route throws; the handler below answers it with its catalogue status. */
+export class AppError extends Error {
+  readonly code: ErrorCode;
+  readonly statusCode: number;
+  readonly path: string;
+  readonly problems: Problem[] | undefined;
+
+  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[] } = {}) {
+    super(details.message ?? ERROR_CATALOGUE[code].message);
+    this.name = 'AppError';
+    this.code = code;
+    this.statusCode = ERROR_CATALOGUE[code].status;
+    this.path = details.path ?? '';
+    this.problems = details.problems;
+  }
+
+  toBody(): ErrorBody {
+    const error: ErrorBody['error'] = { code: this.code, message: this.message, path: this.path };
+    if (this.problems === undefined) return { error };
+    error.problems = this.problems;
+    return { error, problems: this.problems };
+  }
+}
+
+/**
+ * The error for a list of problems from the validator or the pick-table reader: the first
+ * problem gives message and path (the contract's single path), all of them go in `problems`.
+ */
+export function problemsError(code: 'invalid_survey' | 'invalid_pick_table', problems: Problem[]): AppError {
+  const first = problems[0];
+  if (first === undefined) return new AppError(code);
+  const more = problems.length - 1;
+  const message =
+    more === 0 ? first.message : `${first.message} ${more === 1 ? 'One more problem is' : `${more} more problems are`} listed in "problems".`;
+  return new AppError(code, { message, path: first.path, problems });
+}
+
+/** JSON pointer for a schema-validation error (Ajv's instancePath is already one). */
+function schemaErrorPath(error: FastifyError): string {
+  const first = error.validation?.[0];
+  if (first === undefined) return '';
+  const missing = (first.params as { missingProperty?: string } | undefined)?.missingProperty;
+  return missing ? `${first.instancePath}/${missing}` : first.instancePath;
+}
+
+/** Maps any thrown value to a coded AppError; unknown failures become internal_error. */
+export function toAppError(error: unknown): { appError: AppError; unexpected: boolean } {
+  if (error instanceof AppError) return { appError: error, unexpected: false };
+  const fastifyError = error as Partial<FastifyError> | null;
+  if (fastifyError?.validation) {
+    const context = fastifyError.validationContext ?? 'request';
+    const first = fastifyError.validation[0];
+    const field = first?.instancePath ? first.instancePath.slice(1) : '';
+    const what = context === 'querystring' && field ? `query parameter "${field}"` : `${context}${field ? ` ${field}` : ''}`;
+    return {
+      appError: new AppError('invalid_request', {
+        message: `The ${what} ${first?.message ?? 'is not valid'}.`,
+        path: schemaErrorPath(fastifyError as FastifyError),
+      }),
+      unexpected: false,
+    };
+  }
+  switch (fastifyError?.code) {
+    case 'FST_ERR_CTP_BODY_TOO_LARGE':
+      return { appError: new AppError('body_too_large'), unexpected: false };
+    case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
+      return { appError: new AppError('unsupported_content_type'), unexpected: false };
+    case 'FST_ERR_CTP_EMPTY_JSON_BODY':
+      return { appError: new AppError('empty_body'), unexpected: false };
+    case 'FST_ERR_CTP_INVALID_JSON_BODY':
+      return { appError: new AppError('invalid_json'), unexpected: false };
+    case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
+      return {
+        appError: new AppError('invalid_request', { message: "The body's length does not match its Content-Length header." }),
+        unexpected: false,
+      };
+    case 'FST_ERR_BAD_URL':
+    case 'FST_ERR_ASYNC_CONSTRAINT':
+      return {
+        appError: new AppError('invalid_request', { message: 'The URL is not valid: check its percent-encoding.' }),
+        unexpected: false,
+      };
+    default:
+      break;
+  }
+  const status = fastifyError?.statusCode;
+  if (typeof status === 'number' && status === 413) {
+    return { appError: new AppError('body_too_large'), unexpected: false };
+  }
+  if (typeof status === 'number' && status >= 400 && status < 500) {
+    // Fastify's other client errors (bad URL encoding, content-length mismatch, …):
+    // still bad input, so a 400 with the catalogue's code, never a 500.
+    return { appError: new AppError('invalid_request'), unexpected: false };
+  }
+  return { appError: new AppError('internal_error'), unexpected: true };
+}
+
+/** Fastify error handler: every error leaves as the contract's coded body. */
+export function handleError(error: unknown, request: FastifyRequest, reply: FastifyReply): void {
+  const { appError, unexpected } = toAppError(error);
+  if (unexpected) request.log.error({ err: error }, 'unexpected error');
+  else request.log.info({ code: appError.code, path: appError.path }, 'request rejected');
+  if (appError.code === 'write_token_required' || appError.code === 'write_token_invalid') {
+    reply.header('WWW-Authenticate', 'Bearer realm="arcline"');
+  }
+  reply.status(appError.statusCode).type('application/json; charset=utf-8').send(appError.toBody());
+}
+
+/** Fastify not-found handler: unknown routes (and every write under /share) answer 404 coded. */
+export function handleNotFound(request: FastifyRequest, reply: FastifyReply): void {
+  const appError = new AppError('not_found', { message: `Nothing at ${request.method} ${request.url.split('?')[0]}.` });
+  reply.status(404).type('application/json; charset=utf-8').send(appError.toBody());
+}

@@ -1,0 +1,31 @@
+/** Entry point (`npm start`): start from the environment, log the URL, close cleanly on a signal. */
+import { ConfigError } from './config.js';
+import { startService } from './start.js';
+
+async function main(): Promise<void> {
+  try {
+    const { app, url } = await startService(process.env);
+    app.log.info(`Arcline is serving on ${url}`);
+    const stop = (signal: string): void => {
+      app.log.info(`${signal}: closing`);
+      app.close().then(
+        () => process.exit(0),
+        () => process.exit(1),
+      );
+    };
+    process.once('SIGINT', () => stop('SIGINT'));
+    process.once('SIGTERM', () => stop('SIGTERM'));
+  } catch (error) {
+    if (error instanceof ConfigError) {
+      console.error(`arcline: configuration error: ${error.message}`);
+    } else {
+      const code = (error as NodeJS.ErrnoException | null)?.code;
+      if (code === 'EADDRINUSE') console.error('arcline: the port is already in use; set PORT to a free one.');
+      else if (code === 'EACCES') console.error('arcline: no permission to listen on that port or to write DATA_DIR.');
+      else console.error('arcline: could not start:', error);
+    }
+    process.exit(1);
+  }
+}
+
+void main();

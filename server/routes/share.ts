@@ -1,0 +1,68 @@
+/**
+ * Share links: GET only. /share/:token is a read-only HTML page of the latest revision;
+ * /share/:token/{section.svg,traveltimes.svg,stations.csv} are its pieces. No write
+ * route exists under /share, so POST/PUT/DELETE there meet the 404 handler.
+ * Responses are not cached, so a revoked link stops working at once.
+ */
+import type { FastifyInstance, FastifyReply } from 'fastify';
+import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import { CAUTIONS } from '../../engine/cautions.js';
+import type { SurveyStore } from '../store.js';
+import { requireShared } from '../lookup.js';
+import { renderSharePage, SHARE_PAGE_CSP } from '../share-page.js';
+import { stationsCsv, downloadName } from '../stations-csv.js';
+
+interface TokenParams {
+  token: string;
+}
+
+function privateResponse(reply: FastifyReply): void {
+  reply.header('Cache-Control', 'no-store');
+  reply.header('X-Robots-Tag', 'noindex, nofollow');
+}
+
+export async function shareRoutes(app: FastifyInstance, options: { store: SurveyStore }): Promise<void> {
+  const { store } = options;
+
+  app.get<{ Params: TokenParams }>('/share/:token', async (request, reply) => {
+    const { token } = request.params;
+    const { stored } = requireShared(store, token);
+    const html = renderSharePage({
+      survey: stored.survey,
+      interpretation: stored.interpretation,
+      name: stored.name,
+      revision: stored.revision,
+      storedAt: stored.createdAt,
+      sectionSvg: renderSection(stored.survey, stored.interpretation),
+      travelTimesSvg: renderTravelTimes(stored.survey, stored.interpretation),
+      cautions: CAUTIONS,
+      stationsCsvUrl: `/share/${token}/stations.csv`,
+    });
+    privateResponse(reply);
+    reply.header('Content-Security-Policy', SHARE_PAGE_CSP);
+    reply.type('text/html; charset=utf-8');
+    return html;
+  });
+
+  app.get<{ Params: TokenParams }>('/share/:token/section.svg', async (request, reply) => {
+    const { stored } = requireShared(store, request.params.token);
+    privateResponse(reply);
+    reply.type('image/svg+xml; charset=utf-8');
+    return renderSection(stored.survey, stored.interpretation);
+  });
+
+  app.get<{ Params: TokenParams }>('/share/:token/traveltimes.svg', async (request, reply) => {
+    const { stored } = requireShared(store, request.params.token);
+    privateResponse(reply);
+    reply.type('image/svg+xml; charset=utf-8');
+    return renderTravelTimes(stored.survey, stored.interpretation);
+  });
+
+  app.get<{ Params: TokenParams }>('/share/:token/stations.csv', async (request, reply) => {
+    const { stored } = requireShared(store, request.params.token);
+    privateResponse(reply);
+    reply.type('text/csv; charset=utf-8');
+    reply.header('Content-Disposition', `attachment; filename="${downloadName(stored.name, 'stations.csv')}"`);
+    return stationsCsv(stored.interpretation);
+  });
+}

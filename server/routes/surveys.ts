@@ -1,0 +1,188 @@
+/**
+ * Stored surveys (api-v1.md): store, list, read, correct (new revision), draw, tabulate,
+ * and manage the share link. Writes carry the write guard; reads are open.
+ * Every write validates the whole body before the store is touched.
+ */
+import type { FastifyInstance, FastifyReply } from 'fastify';
+import { interpret } from '../../engine/interpret.js';
+import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
+import { AppError } from '../errors.js';
+import { surveyFromRequest } from '../survey-input.js';
+import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
+import { stationsCsv, downloadName } from '../stations-csv.js';
+
+export interface SurveyRouteOptions {
+  store: SurveyStore;
+  guard: (request: import('fastify').FastifyRequest) => Promise<void>;
+}
+
+interface IdParams {
+  id: string;
+}
+interface RevisionQuery {
+  revision?: number;
+}
+
+const revisionQuerySchema = {
+  type: 'object',
+  properties: { revision: { type: 'integer', minimum: 1 } },
+} as const;
+
+function links(id: string, revision: number, latest: number): Record<string, string> {
+  const query = revision === latest ? '' : `?revision=${revision}`;
+  const base = `/api/v1/surveys/${id}`;
+  return {
+    self: `${base}${query}`,
+    section: `${base}/section.svg${query}`,
+    traveltimes: `${base}/traveltimes.svg${query}`,
+    stations: `${base}/stations.csv${query}`,
+    interpretation: `${base}/interpretation.json${query}`,
+  };
+}
+
+function listItem(summary: SurveySummary): Record<string, unknown> {
+  return {
+    id: summary.id,
+    name: summary.name,
+    createdAt: summary.createdAt,
+    updatedAt: summary.updatedAt,
+    latestRevision: summary.latestRevision,
+    shareUrl: shareUrlFor(summary.shareToken),
+    url: `/api/v1/surveys/${summary.id}`,
+  };
+}
+
+function setSvg(reply: FastifyReply, svg: string): string {
+  reply.type('image/svg+xml; charset=utf-8');
+  return svg;
+}
+
+function download(reply: FastifyReply, type: string, fileName: string): void {
+  reply.type(type);
+  reply.header('Content-Disposition', `attachment; filename="${fileName}"`);
+}
+
+export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOptions): Promise<void> {
+  const { store, guard } = options;
+
+  const fetchRevision = (id: string, revision?: number): { summary: SurveySummary; stored: StoredRevision } =>
+    requireRevision(store, id, revision);
+
+  app.post('/api/v1/surveys', { onRequest: guard }, async (request, reply) => {
+    const survey = surveyFromRequest(request);
+    const interpretation = interpret(survey);
+    const { summary, revision } = store.createSurvey(survey, interpretation);
+    reply.status(201).header('Location', `/api/v1/surveys/${summary.id}`);
+    return {
+      id: summary.id,
+      name: summary.name,
+      createdAt: summary.createdAt,
+      revision: revision.revision,
+      shareUrl: shareUrlFor(summary.shareToken),
+      url: `/api/v1/surveys/${summary.id}`,
+      links: links(summary.id, 1, 1),
+      interpretation,
+    };
+  });
+
+  app.get('/api/v1/surveys', async () => store.listSurveys().map(listItem));
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id',
+    { schema: { querystring: revisionQuerySchema } },
+    async (request) => {
+      const { summary, stored } = fetchRevision(request.params.id, request.query.revision);
+      return {
+        id: summary.id,
+        name: stored.name,
+        createdAt: summary.createdAt,
+        updatedAt: summary.updatedAt,
+        revision: stored.revision,
+        revisionCreatedAt: stored.createdAt,
+        latestRevision: summary.latestRevision,
+        revisions: store.listRevisions(summary.id),
+        shareUrl: shareUrlFor(summary.shareToken),
+        links: links(summary.id, stored.revision, summary.latestRevision),
+        survey: stored.survey,
+        interpretation: stored.interpretation,
+      };
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/section.svg',
+    { schema: { querystring: revisionQuerySchema } },
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      return setSvg(reply, renderSection(stored.survey, stored.interpretation));
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/traveltimes.svg',
+    { schema: { querystring: revisionQuerySchema } },
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      return setSvg(reply, renderTravelTimes(stored.survey, stored.interpretation));
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/stations.csv',
+    { schema: { querystring: revisionQuerySchema } },
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      download(reply, 'text/csv; charset=utf-8', downloadName(stored.name, `r${stored.revision}-stations.csv`));
+      return stationsCsv(stored.interpretation);
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/interpretation.json',
+    { schema: { querystring: revisionQuerySchema } },
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      download(reply, 'application/json; charset=utf-8', downloadName(stored.name, `r${stored.revision}-interpretation.json`));
+      return JSON.stringify(stored.interpretation, null, 2);
+    },
+  );
+
+  app.post<{ Params: IdParams }>('/api/v1/surveys/:id/revisions', { onRequest: guard }, async (request, reply) => {
+    const { id } = request.params;
+    const summary = requireSurvey(store, id);
+    const survey = surveyFromRequest(request);
+    const interpretation = interpret(survey);
+    const stored = store.addRevision(id, survey, interpretation);
+    if (stored === null) throw new AppError('survey_not_found');
+    reply.status(201).header('Location', `/api/v1/surveys/${id}?revision=${stored.revision}`);
+    return {
+      id,
+      name: stored.name,
+      createdAt: summary.createdAt,
+      revision: stored.revision,
+      revisionCreatedAt: stored.createdAt,
+      shareUrl: shareUrlFor(summary.shareToken),
+      url: `/api/v1/surveys/${id}?revision=${stored.revision}`,
+      links: links(id, stored.revision, stored.revision),
+      interpretation,
+    };
+  });
+
+  app.post<{ Params: IdParams }>('/api/v1/surveys/:id/share', { onRequest: guard }, async (request, reply) => {
+    const { id } = request.params;
+    requireSurvey(store, id);
+    const token = store.reissueShareToken(id);
+    if (token === null) throw new AppError('survey_not_found');
+    reply.status(201);
+    return { id, shareUrl: shareUrlFor(token) };
+  });
+
+  app.delete<{ Params: IdParams }>('/api/v1/surveys/:id/share', { onRequest: guard }, async (request, reply) => {
+    const { id } = request.params;
+    requireSurvey(store, id);
+    store.revokeShareToken(id);
+    reply.status(204);
+    return reply.send();
+  });
+}

@@ -1,0 +1,290 @@
+/**
+ * The survey store: one SQLite file (better-sqlite3, WAL) under DATA_DIR, or an in-memory
+ * database for tests. A stored survey is a list of revisions; a correction adds a revision
+ * and never overwrites one. Each survey has at most one live share token; issuing a new one
+ * revokes the old. Every write runs in one transaction.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import Database from 'better-sqlite3';
+import type { Survey } from '../engine/survey.js';
+import type { Interpretation } from '../engine/interpretation.js';
+
+export const STORE_FILE_NAME = 'arcline.sqlite';
+
+/** Schema migrations, applied in order; PRAGMA user_version records how many have run. */
+const MIGRATIONS: readonly string[] = [
+  `CREATE TABLE surveys (
+     id TEXT PRIMARY KEY,
+     name TEXT NOT NULL,
+     created_at TEXT NOT NULL,
+     updated_at TEXT NOT NULL,
+     latest_revision INTEGER NOT NULL
+   );
+   CREATE TABLE revisions (
+     survey_id TEXT NOT NULL REFERENCES surveys(id),
+     revision INTEGER NOT NULL CHECK (revision >= 1),
+     name TEXT NOT NULL,
+     survey_json TEXT NOT NULL,
+     interpretation_json TEXT NOT NULL,
+     created_at TEXT NOT NULL,
+     PRIMARY KEY (survey_id, revision)
+   );
+   CREATE TABLE share_tokens (
+     token TEXT PRIMARY KEY,
+     survey_id TEXT NOT NULL REFERENCES surveys(id),
+     created_at TEXT NOT NULL,
+     revoked_at TEXT
+   );
+   CREATE INDEX share_tokens_by_survey ON share_tokens(survey_id);`,
+];
+
+export const SCHEMA_VERSION = MIGRATIONS.length;
+
+export interface SurveySummary {
+  id: string;
+  name: string;
+  createdAt: string;
+  updatedAt: string;
+  latestRevision: number;
+  shareToken: string | null;
+}
+
+export interface RevisionSummary {
+  revision: number;
+  name: string;
+  createdAt: string;
+}
+
+export interface StoredRevision extends RevisionSummary {
+  survey: Survey;
+  interpretation: Interpretation;
+}
+
+export interface RowCounts {
+  surveys: number;
+  revisions: number;
+  shareTokens: number;
+}
+
+/** Unguessable token: 32 random bytes (256 bits), base64url. */
+export function newShareToken(): string {
+  return randomBytes(32).toString('base64url');
+}
+
+/** Survey id: 12 random bytes (96 bits), base64url; not a secret, but not enumerable either. */
+function newSurveyId(): string {
+  return randomBytes(12).toString('base64url');
+}
+
+export const SURVEY_ID_PATTERN = /^[A-Za-z0-9_-]{1,64}$/;
+export const SHARE_TOKEN_PATTERN = /^[A-Za-z0-9_-]{43}$/;
+
+/** Name stored for listing: the survey's own, or a placeholder. */
+function nameOf(survey: Survey): string {
+  const name = typeof survey.name === 'string' ? survey.name.trim() : '';
+  return name === '' ? 'Unnamed line' : name;
+}
+
+interface SurveyRow {
+  id: string;
+  name: string;
+  created_at: string;
+  updated_at: string;
+  latest_revision: number;
+  token: string | null;
+}
+
+function toSummary(row: SurveyRow): SurveySummary {
+  return {
+    id: row.id,
+    name: row.name,
+    createdAt: row.created_at,
+    updatedAt: row.updated_at,
+    latestRevision: row.latest_revision,
+    shareToken: row.token,
+  };
+}
+
+export class SurveyStore {
+  private readonly db: Database.Database;
+  private readonly now: () => Date;
+
+  /** @param dataDir folder for the database file (created if missing), or ':memory:'. */
+  constructor(dataDir: string, options: { now?: () => Date } = {}) {
+    this.now = options.now ?? (() => new Date());
+    if (dataDir === ':memory:') {
+      this.db = new Database(':memory:');
+    } else {
+      mkdirSync(dataDir, { recursive: true });
+      this.db = new Database(join(dataDir, STORE_FILE_NAME));
+      this.db.pragma('journal_mode = WAL');
+    }
+    this.db.pragma('foreign_keys = ON');
+    this.db.pragma('busy_timeout = 5000');
+    this.migrate();
+  }
+
+  private migrate(): void {
+    const current = this.db.pragma('user_version', { simple: true }) as number;
+    if (current > MIGRATIONS.length) {
+      throw new Error(
+        `The store's schema is version ${current}, newer than this program knows (${MIGRATIONS.length}); use a newer Arcline.`,
+      );
+    }
+    for (let version = current; version < MIGRATIONS.length; version += 1) {
+      this.db.transaction(() => {
+        this.db.exec(MIGRATIONS[version]);
+        this.db.pragma(`user_version = ${version + 1}`);
+      })();
+    }
+  }
+
+  schemaVersion(): number {
+    return this.db.pragma('user_version', { simple: true }) as number;
+  }
+
+  journalMode(): string {
+    return this.db.pragma('journal_mode', { simple: true }) as string;
+  }
+
+  close(): void {
+    if (this.db.open) this.db.close();
+  }
+
+  countRows(): RowCounts {
+    const count = (table: string): number =>
+      (this.db.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+    return { surveys: count('surveys'), revisions: count('revisions'), shareTokens: count('share_tokens') };
+  }
+
+  isEmpty(): boolean {
+    return this.countRows().surveys === 0;
+  }
+
+  /** Stores a new survey as revision 1 with a fresh share token. */
+  createSurvey(survey: Survey, interpretation: Interpretation): { summary: SurveySummary; revision: StoredRevision } {
+    const id = newSurveyId();
+    const token = newShareToken();
+    const createdAt = this.now().toISOString();
+    const name = nameOf(survey);
+    this.db.transaction(() => {
+      this.db
+        .prepare('INSERT INTO surveys (id, name, created_at, updated_at, latest_revision) VALUES (?, ?, ?, ?, 1)')
+        .run(id, name, createdAt, createdAt);
+      this.insertRevision(id, 1, survey, interpretation, createdAt);
+      this.db.prepare('INSERT INTO share_tokens (token, survey_id, created_at) VALUES (?, ?, ?)').run(token, id, createdAt);
+    })();
+    return {
+      summary: { id, name, createdAt, updatedAt: createdAt, latestRevision: 1, shareToken: token },
+      revision: { revision: 1, name, createdAt, survey, interpretation },
+    };
+  }
+
+  /** Adds the next revision of a stored survey; null when the survey does not exist. */
+  addRevision(id: string, survey: Survey, interpretation: Interpretation): StoredRevision | null {
+    const createdAt = this.now().toISOString();
+    const name = nameOf(survey);
+    return this.db.transaction((): StoredRevision | null => {
+      const row = this.db.prepare('SELECT latest_revision FROM surveys WHERE id = ?').get(id) as
+        | { latest_revision: number }
+        | undefined;
+      if (row === undefined) return null;
+      const revision = row.latest_revision + 1;
+      this.insertRevision(id, revision, survey, interpretation, createdAt);
+      this.db
+        .prepare('UPDATE surveys SET latest_revision = ?, name = ?, updated_at = ? WHERE id = ?')
+        .run(revision, name, createdAt, id);
+      return { revision, name, createdAt, survey, interpretation };
+    })();
+  }
+
+  private insertRevision(id: string, revision: number, survey: Survey, interpretation: Interpretation, createdAt: string): void {
+    this.db
+      .prepare(
+        `INSERT INTO revisions (survey_id, revision, name, survey_json, interpretation_json, created_at)
+         VALUES (?, ?, ?, ?, ?, ?)`,
+      )
+      .run(id, revision, nameOf(survey), JSON.stringify(survey), JSON.stringify(interpretation), createdAt);
+  }
+
+  private static readonly SUMMARY_SELECT = `SELECT s.id, s.name, s.created_at, s.updated_at, s.latest_revision,
+      (SELECT t.token FROM share_tokens t WHERE t.survey_id = s.id AND t.revoked_at IS NULL
+        ORDER BY t.created_at DESC LIMIT 1) AS token
+    FROM surveys s`;
+
+  /** Every stored survey, newest first. */
+  listSurveys(): SurveySummary[] {
+    const rows = this.db
+      .prepare(`${SurveyStore.SUMMARY_SELECT} ORDER BY s.created_at DESC, s.rowid DESC`)
+      .all() as SurveyRow[];
+    return rows.map(toSummary);
+  }
+
+  getSummary(id: string): SurveySummary | null {
+    const row = this.db.prepare(`${SurveyStore.SUMMARY_SELECT} WHERE s.id = ?`).get(id) as SurveyRow | undefined;
+    return row === undefined ? null : toSummary(row);
+  }
+
+  listRevisions(id: string): RevisionSummary[] {
+    const rows = this.db
+      .prepare('SELECT revision, name, created_at FROM revisions WHERE survey_id = ? ORDER BY revision')
+      .all(id) as { revision: number; name: string; created_at: string }[];
+    return rows.map((r) => ({ revision: r.revision, name: r.name, createdAt: r.created_at }));
+  }
+
+  /** One revision (the latest when `revision` is undefined); null when absent. */
+  getRevision(id: string, revision?: number): StoredRevision | null {
+    const row = (
+      revision === undefined
+        ? this.db
+            .prepare(
+              `SELECT r.* FROM revisions r JOIN surveys s ON s.id = r.survey_id
+               WHERE r.survey_id = ? AND r.revision = s.latest_revision`,
+            )
+            .get(id)
+        : this.db.prepare('SELECT * FROM revisions WHERE survey_id = ? AND revision = ?').get(id, revision)
+    ) as
+      | { revision: number; name: string; survey_json: string; interpretation_json: string; created_at: string }
+      | undefined;
+    if (row === undefined) return null;
+    return {
+      revision: row.revision,
+      name: row.name,
+      createdAt: row.created_at,
+      survey: JSON.parse(row.survey_json) as Survey,
+      interpretation: JSON.parse(row.interpretation_json) as Interpretation,
+    };
+  }
+
+  /** Revokes any live token of the survey and issues a new one; null when the survey does not exist. */
+  reissueShareToken(id: string): string | null {
+    const token = newShareToken();
+    const at = this.now().toISOString();
+    return this.db.transaction((): string | null => {
+      if (this.db.prepare('SELECT 1 FROM surveys WHERE id = ?').get(id) === undefined) return null;
+      this.db.prepare('UPDATE share_tokens SET revoked_at = ? WHERE survey_id = ? AND revoked_at IS NULL').run(at, id);
+      this.db.prepare('INSERT INTO share_tokens (token, survey_id, created_at) VALUES (?, ?, ?)').run(token, id, at);
+      return token;
+    })();
+  }
+
+  /** Revokes the survey's live token; false when the survey does not exist. */
+  revokeShareToken(id: string): boolean {
+    const at = this.now().toISOString();
+    return this.db.transaction((): boolean => {
+      if (this.db.prepare('SELECT 1 FROM surveys WHERE id = ?').get(id) === undefined) return false;
+      this.db.prepare('UPDATE share_tokens SET revoked_at = ? WHERE survey_id = ? AND revoked_at IS NULL').run(at, id);
+      return true;
+    })();
+  }
+
+  /** The survey id a live token opens; null for unknown or revoked tokens. */
+  surveyIdForToken(token: string): string | null {
+    const row = this.db
+      .prepare('SELECT survey_id FROM share_tokens WHERE token = ? AND revoked_at IS NULL')
+      .get(token) as { survey_id: string } | undefined;
+    return row === undefined ? null : row.survey_id;
+  }
+}
