@@ -1,12 +1,6 @@
-import type { Survey } from '../survey.js';
-import type { Interpretation } from '../interpretation.js';
-
-/** STUB — being written: SVG depth section of an interpretation. */
-export function renderSection(_survey: Survey, _interpretation: Interpretation): string {
-  throw new Error('renderSection: not yet implemented');
-}
-
-/** STUB — being written: SVG time–distance plot of a survey's picks and fitted branches. */
-export function renderTravelTimes(_survey: Survey, _interpretation: Interpretation): string {
-  throw new Error('renderTravelTimes: not yet implemented');
-}
+/**
+ * SVG drawings of an interpretation: the depth section and the time–distance plot.
+ * Pure: strings out, no I/O; each render builds its own svgdom document.
+ */
+export { renderSection, type SectionOptions } from './section.js';
+export { renderTravelTimes, type TravelTimeOptions } from './travel-times.js';

@@ -1,0 +1,71 @@
+/**
+ * Arcline's colours, in one place. Chosen for this project (not taken from another
+ * program's scheme) and checked for the two common red–green colour-vision deficiencies.
+ *
+ * How they were checked (numbers in .notes/readme-render.md, re-checked by
+ * tests/engine/render/palette.test.ts):
+ * - Every line and marker colour has a contrast ratio of at least 3:1 against white, the
+ *   WCAG 2.1 minimum for graphical objects (W3C, WCAG 2.1, success criterion 1.4.11),
+ *   using the WCAG relative-luminance definition.
+ * - The shot colours sit along the blue–orange axis and spread over luminance, so they
+ *   stay apart when red and green collapse: simulated protanopia and deuteranopia
+ *   (Machado, Oliveira & Fernandes, IEEE TVCG 15(6), 2009, severity 1 matrices, quoted from
+ *   memory) keep every pair at least 15 CIELAB units apart.
+ * - Colour is never the only cue: shots also get one of eight marker shapes, the refractor
+ *   is a heavy line, the second refractor is dashed, a failed reciprocal check is bold and
+ *   says "exceeds".
+ */
+
+/** Depth-section roles. */
+export const SECTION_COLOURS = {
+  /** Ground surface line. */
+  ground: '#4a3b2c',
+  /** Top layer (above the first refractor): pale sand. */
+  layer1Fill: '#f4e7c5',
+  /** Layer below the first refractor: pale blue-grey. */
+  layer2Fill: '#d6e2ee',
+  /** Layer below a second refractor: darker blue-grey. */
+  layer3Fill: '#a8b9cf',
+  /** First refractor: heavy deep blue. */
+  refractor: '#1d3f8f',
+  /** Second refractor: dashed dark brown. */
+  refractor2: '#7a2a10',
+  /** Depth arcs about each geophone: light, thin. */
+  arc: '#8aa0bf',
+  /** Geophone triangles. */
+  geophone: '#2b2b2b',
+  /** Shot stars. */
+  shot: '#e07000',
+  /** Step in the refractor. */
+  step: '#c94aa0',
+  /** Lateral change of refractor velocity. */
+  velocityChange: '#0c7c6c',
+  /** "No coverage" hatching. */
+  noCoverage: '#8c8c8c',
+} as const;
+
+/** Shared text and frame colours. */
+export const INK = {
+  text: '#222222',
+  muted: '#555555',
+  frame: '#444444',
+  grid: '#e3e3e3',
+  /** A failed check (reciprocal misfit over tolerance); always paired with bold text. */
+  alert: '#c23a00',
+  /** Halo behind labels drawn over lines. */
+  halo: '#ffffff',
+} as const;
+
+/**
+ * Categorical colours for shots on the time–distance plot, in order of use. Seven colours
+ * and eight marker shapes cycle independently, so 56 shots get distinct pairs.
+ */
+export const SHOT_COLOURS: readonly string[] = [
+  '#1d3f8f', // deep blue
+  '#e07000', // orange
+  '#0c7c6c', // teal
+  '#c94aa0', // magenta
+  '#7a2a10', // dark brown
+  '#4b9ad8', // sky blue
+  '#3a3a3a', // charcoal
+];

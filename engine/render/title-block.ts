@@ -1,0 +1,69 @@
+/**
+ * The title block across the top of a plot: the line's name large, a line of particulars
+ * under it, the survey's date/site text on a third line when there is one, and short notes
+ * right-aligned on the other side (scale, dip, checks). Text that would run into the notes
+ * is set smaller, then cut with an ellipsis (the full name stays in the SVG's <title>).
+ */
+import type { Container } from '@svgdotjs/svg.js';
+import { INK } from './palette.js';
+import { PAGE, TEXT_MM, textWidthMm } from './page.js';
+import { addText } from './text.js';
+
+export interface TitleBlockContent {
+  title: string;
+  subtitle: string;
+  /** Free text from the survey (date, site, crew); its own line, absent when empty. */
+  dateLine?: string;
+  /** Right-hand notes, one per line; `alert` lines are bold in the alert colour. */
+  notes: { text: string; role?: string; alert?: boolean }[];
+}
+
+/** Fits text to a width: the size it is set at and the (possibly shortened) text. */
+export function fitText(text: string, widthMm: number, sizeMm: number, minSizeMm: number): { text: string; sizeMm: number } {
+  if (textWidthMm(text, sizeMm) <= widthMm) return { text, sizeMm };
+  const shrunk = Math.max(minSizeMm, (sizeMm * widthMm) / textWidthMm(text, sizeMm));
+  if (textWidthMm(text, shrunk) <= widthMm) return { text, sizeMm: shrunk };
+  const maxChars = Math.max(8, Math.floor(widthMm / (shrunk * 0.56)));
+  return { text: `${text.slice(0, maxChars - 1)}…`, sizeMm: shrunk };
+}
+
+/** Where the rule under the block will sit, mm: depends only on the number of lines, not their text. */
+export function titleBlockBottomMm(content: { dateLine?: string; notes: unknown[] }): number {
+  const hasDate = typeof content.dateLine === 'string' && content.dateLine.trim().length > 0;
+  const leftBottom = PAGE.marginMm + TEXT_MM.title + TEXT_MM.subtitle * 1.6 + (hasDate ? TEXT_MM.subtitle * 1.35 : 0);
+  const notesBottom = PAGE.marginMm + TEXT_MM.subtitle + (content.notes.length - 1) * TEXT_MM.subtitle * 1.4;
+  return Math.max(leftBottom, notesBottom) + 2.4;
+}
+
+/** Draws the block; returns the y (mm) of the rule under it. */
+export function titleBlock(parent: Container, content: TitleBlockContent): number {
+  const group = parent.group().attr('data-role', 'title-block');
+  const left = PAGE.marginMm;
+  const right = PAGE.widthMm - PAGE.marginMm;
+  const noteLead = TEXT_MM.subtitle * 1.4;
+  const noteWidth = Math.max(0, ...content.notes.map((n) => textWidthMm(n.text, TEXT_MM.subtitle)));
+  const room = right - left - noteWidth - 6;
+  const title = fitText(content.title, room, TEXT_MM.title, 3.6);
+  let y = PAGE.marginMm + TEXT_MM.title;
+  addText(group, title.text, left, y, { sizeMm: title.sizeMm, weight: 'bold', role: 'title' });
+  const subtitle = fitText(content.subtitle, room, TEXT_MM.subtitle, 2.6);
+  y += TEXT_MM.subtitle * 1.6;
+  addText(group, subtitle.text, left, y, { sizeMm: subtitle.sizeMm, fill: INK.muted, role: 'subtitle' });
+  if (content.dateLine && content.dateLine.trim().length > 0) {
+    const date = fitText(content.dateLine.trim(), room, TEXT_MM.subtitle, 2.6);
+    y += TEXT_MM.subtitle * 1.35;
+    addText(group, date.text, left, y, { sizeMm: date.sizeMm, fill: INK.muted, role: 'date' });
+  }
+  content.notes.forEach((note, i) => {
+    addText(group, note.text, right, PAGE.marginMm + TEXT_MM.subtitle + i * noteLead, {
+      sizeMm: TEXT_MM.subtitle,
+      anchor: 'end',
+      role: note.role,
+      weight: note.alert ? 'bold' : 'normal',
+      fill: note.alert ? INK.alert : INK.text,
+    });
+  });
+  const bottom = titleBlockBottomMm(content);
+  group.line(left, bottom, right, bottom).attr({ stroke: INK.frame, 'stroke-width': 0.25 });
+  return bottom;
+}

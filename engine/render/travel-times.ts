@@ -1,0 +1,393 @@
+/**
+ * The time–distance plot: every shot's first-break picks against distance along the line,
+ * time increasing upward (the trade's convention for T–X plots), with the branches the
+ * interpretation fitted, crossover points, reciprocal times and their misfit, phantomed
+ * arrivals and the first arrivals modelled through the section. It draws the fitted
+ * lines the interpretation reports — t = interceptMs + 1000·|x − shotX| / velocity over
+ * fromX..toX (BranchLine in engine/interpretation.ts) — and fits nothing itself.
+ */
+import type { Survey } from '../survey.js';
+import type { BranchLine, Interpretation, ShotAnalysis } from '../interpretation.js';
+import { CAUTIONS } from '../cautions.js';
+import { createCanvas } from './svg-document.js';
+import { PAGE, TEXT_MM, textWidthMm } from './page.js';
+import { INK, SHOT_COLOURS } from './palette.js';
+import { titleBlock } from './title-block.js';
+import { cautionNote, cautionNoteHeightMm } from './caution-note.js';
+import { legend, legendHeightMm, type LegendItem } from './legend.js';
+import { bottomAxis, leftAxis } from './axis.js';
+import { linearScale, type LinearScale } from './scale.js';
+import { niceStep } from './ticks.js';
+import { LabelPlacer, type Box } from './label-placer.js';
+import { marker, SHOT_SHAPES, type MarkerShape } from './markers.js';
+import { formatMs, formatVelocity, round3 } from './format.js';
+import { addText } from './text.js';
+import { describeMethod, lineName, qcSummary } from './describe.js';
+import type { Container } from '@svgdotjs/svg.js';
+
+export interface TravelTimeOptions {
+  /** Draw the modelled first arrivals where the interpretation has them (default true). */
+  showModelled?: boolean;
+}
+
+interface ShotStyle {
+  colour: string;
+  shape: MarkerShape;
+}
+
+/** Shot i gets colour i mod 7 and shape i mod 8: 56 distinct pairs before one repeats. */
+export function shotStyle(index: number): ShotStyle {
+  return { colour: SHOT_COLOURS[index % SHOT_COLOURS.length], shape: SHOT_SHAPES[index % SHOT_SHAPES.length] };
+}
+
+const PICK_MM = 1.7;
+const PLOT_LEFT_MM = 22;
+const CLIP_ID = 'arcline-traveltimes-plot-clip';
+
+interface Plot {
+  x: LinearScale;
+  t: LinearScale;
+  box: Box;
+}
+
+/** Time on a fitted branch at x, ms (the BranchLine's own formula). */
+function branchTimeMs(line: BranchLine, shotX: number, x: number): number {
+  return line.interceptMs + (1000 * Math.abs(x - shotX)) / line.velocity;
+}
+
+function finite(values: readonly (number | null | undefined)[]): number[] {
+  return values.filter((v): v is number => typeof v === 'number' && Number.isFinite(v));
+}
+
+export function renderTravelTimes(survey: Survey, interpretation: Interpretation, options: TravelTimeOptions = {}): string {
+  const name = lineName(survey, interpretation);
+  const canvas = createCanvas(`Time–distance plot — ${name}`);
+  const svg = canvas.svg;
+  const analyses = new Map((interpretation.shots ?? []).map((a) => [a.id, a]));
+  const geophoneX = survey.geophones.map((g) => g.x);
+  const showModelled = options.showModelled !== false;
+
+  // Extent of everything drawn.
+  const xs = [...geophoneX, ...survey.shots.map((s) => s.x)];
+  const times: number[] = [];
+  for (const shot of survey.shots) {
+    times.push(...finite(shot.times));
+    const a = analyses.get(shot.id);
+    if (a?.phantom) times.push(...finite(a.phantom.times));
+    if (showModelled && a?.modelledMs) times.push(...finite(a.modelledMs));
+    for (const side of [a?.left, a?.right]) {
+      for (const line of side ? [side.direct, ...side.refracted] : []) {
+        if (line && Number.isFinite(line.velocity) && line.velocity > 0) times.push(branchTimeMs(line, a!.x, line.fromX), branchTimeMs(line, a!.x, line.toX));
+      }
+    }
+  }
+  for (const r of interpretation.qc?.reciprocal ?? []) times.push(...finite([r.forwardMs, r.reverseMs]));
+  const xMin = xs.length > 0 ? Math.min(...xs) : 0;
+  const xMax = xs.length > 0 ? Math.max(...xs) : 1;
+  const xPad = Math.max(0.5, 0.025 * (xMax - xMin));
+  const tMaxData = times.length > 0 ? Math.max(...times) : 10;
+  const tStep = niceStep(Math.max(1, tMaxData * 1.06), 8);
+  const tMax = Math.max(tStep, Math.ceil((tMaxData * 1.06) / tStep) * tStep);
+
+  // Layout.
+  const contentWidth = PAGE.widthMm - 2 * PAGE.marginMm;
+  const cautions = interpretation.cautions && interpretation.cautions.length > 0 ? interpretation.cautions : CAUTIONS;
+  const legendItems = travelTimeLegend(survey, interpretation, analyses, showModelled);
+  const cautionTop = PAGE.heightMm - PAGE.marginMm + 1 - cautionNoteHeightMm(cautions, contentWidth);
+  const legendTop = cautionTop - 2 - legendHeightMm(legendItems, contentWidth);
+  const plotBottom = legendTop - 11;
+  const reciprocalNotes = reciprocalSummary(interpretation, survey);
+  const subtitle = ['Time–distance plot', describeMethod(interpretation.method), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`]
+    .filter((part) => part.length > 0)
+    .join(' · ');
+  const ruleY = titleBlock(svg, { title: name, subtitle, dateLine: survey.date, notes: [...qcSummary(interpretation), ...reciprocalNotes] });
+  const box: Box = { x0: PLOT_LEFT_MM, y0: ruleY + 4, x1: PAGE.widthMm - PAGE.marginMm, y1: plotBottom };
+  const plot: Plot = {
+    x: linearScale([xMin - xPad, xMax + xPad], [box.x0, box.x1]),
+    t: linearScale([0, tMax], [box.y1, box.y0]),
+    box,
+  };
+
+  const clip = svg.clip();
+  clip.id(CLIP_ID);
+  clip.rect(round3(box.x1 - box.x0), round3(box.y1 - box.y0)).attr({ x: round3(box.x0), y: round3(box.y0) });
+  bottomAxis(svg, plot.x, { atMm: box.y1, title: 'distance along line (m)', maxTicks: 14, role: 'x', gridToMm: box.y0 });
+  leftAxis(svg, plot.t, { atMm: box.x0, title: 'time (ms)', maxTicks: 8, role: 'y', gridToMm: box.x1, titleXMm: PAGE.marginMm + 2.2 });
+
+  const layer = svg.group().attr({ 'data-role': 'traveltime-plot', 'clip-path': `url(#${CLIP_ID})` });
+  const modelledLayer = layer.group().attr('data-role', 'modelled-arrivals');
+  const branchLayer = layer.group().attr('data-role', 'branches');
+  const phantomLayer = layer.group().attr('data-role', 'phantoms');
+  const pickLayer = layer.group().attr('data-role', 'picks');
+  const markLayer = layer.group().attr('data-role', 'marks');
+  const labelLayer = svg.group().attr('data-role', 'labels');
+  const placer = new LabelPlacer();
+
+  // Picks first claim their place, so no label covers one.
+  survey.shots.forEach((shot) => {
+    shot.times.forEach((time, i) => {
+      if (time === null || !Number.isFinite(time) || i >= geophoneX.length) return;
+      const cx = plot.x(geophoneX[i]);
+      const cy = plot.t(time);
+      placer.reserve({ x0: cx - PICK_MM / 2, y0: cy - PICK_MM / 2, x1: cx + PICK_MM / 2, y1: cy + PICK_MM / 2 });
+    });
+  });
+  reciprocalMarks(markLayer, labelLayer, interpretation, survey, plot, placer);
+
+  survey.shots.forEach((shot, index) => {
+    const style = shotStyle(index);
+    const a = analyses.get(shot.id);
+    if (a && showModelled && a.modelledMs) modelledLines(modelledLayer, shot.id, a.modelledMs, geophoneX, plot, style);
+    if (a) branchLines(branchLayer, labelLayer, a, plot, style, placer);
+    if (a?.phantom) phantomArrivals(phantomLayer, shot.id, a.phantom.times, geophoneX, plot, style, a.phantom.fromShot);
+    const picks = pickLayer.group().attr({ 'data-role': 'shot-picks', 'data-shot': shot.id });
+    shot.times.forEach((time, i) => {
+      if (time === null || !Number.isFinite(time) || i >= geophoneX.length) return;
+      marker(picks, style.shape, plot.x(geophoneX[i]), plot.t(time), PICK_MM, { colour: style.colour, strokeMm: 0.2 }).attr({
+        'data-role': 'pick',
+        'data-shot': shot.id,
+        'data-x': geophoneX[i],
+        'data-time': time,
+      });
+    });
+    if (a) crossoverMarks(markLayer, a, plot);
+    // The shot's own position on the time axis (t = 0), so off-end shots are seen.
+    marker(markLayer, style.shape, plot.x(shot.x), plot.t(0) - 1.4, 2.2, { colour: style.colour, strokeMm: 0.25 }).attr({
+      'data-role': 'shot-position',
+      'data-shot': shot.id,
+      'data-x': shot.x,
+    });
+  });
+
+  svg.rect(round3(box.x1 - box.x0), round3(box.y1 - box.y0)).attr({ x: round3(box.x0), y: round3(box.y0), fill: 'none', stroke: INK.frame, 'stroke-width': 0.3, 'data-role': 'plot-frame' });
+  legend(svg, legendItems, PAGE.marginMm, legendTop + 2, contentWidth);
+  cautionNote(svg, cautions, PAGE.marginMm, cautionTop, contentWidth);
+  return canvas.serialize();
+}
+
+function polylineRuns(xs: readonly number[], values: readonly (number | null)[]): [number, number][][] {
+  const runs: [number, number][][] = [];
+  let run: [number, number][] = [];
+  values.forEach((v, i) => {
+    if (v === null || !Number.isFinite(v) || i >= xs.length) {
+      if (run.length > 0) runs.push(run);
+      run = [];
+    } else {
+      run.push([xs[i], v]);
+    }
+  });
+  if (run.length > 0) runs.push(run);
+  return runs;
+}
+
+function toPoints(run: [number, number][], plot: Plot): string {
+  return run.map(([x, t]) => `${round3(plot.x(x))},${round3(plot.t(t))}`).join(' ');
+}
+
+function modelledLines(parent: Container, shotId: string, modelled: readonly (number | null)[], xs: readonly number[], plot: Plot, style: ShotStyle): void {
+  for (const run of polylineRuns(xs, modelled)) {
+    if (run.length < 2) continue;
+    parent.polyline(toPoints(run, plot)).attr({ fill: 'none', stroke: style.colour, 'stroke-width': 0.2, 'stroke-opacity': 0.75, 'stroke-dasharray': '0.4 0.6', 'data-role': 'modelled', 'data-shot': shotId });
+  }
+}
+
+function phantomArrivals(parent: Container, shotId: string, times: readonly (number | null)[], xs: readonly number[], plot: Plot, style: ShotStyle, fromShot: string): void {
+  const group = parent.group().attr({ 'data-role': 'shot-phantoms', 'data-shot': shotId, 'data-from-shot': fromShot });
+  for (const run of polylineRuns(xs, times)) {
+    if (run.length >= 2) {
+      group.polyline(toPoints(run, plot)).attr({ fill: 'none', stroke: style.colour, 'stroke-width': 0.25, 'stroke-dasharray': '1.2 0.8', 'data-role': 'phantom-line' });
+    }
+    for (const [x, t] of run) {
+      marker(group, style.shape, plot.x(x), plot.t(t), PICK_MM, { colour: style.colour, hollow: true, strokeMm: 0.22 }).attr({ 'data-role': 'phantom', 'data-x': x, 'data-time': t });
+    }
+  }
+}
+
+function rotatedBox(cx: number, cy: number, w: number, h: number, angleRad: number): Box {
+  const hx = (Math.abs(Math.cos(angleRad)) * w) / 2 + (Math.abs(Math.sin(angleRad)) * h) / 2;
+  const hy = (Math.abs(Math.sin(angleRad)) * w) / 2 + (Math.abs(Math.cos(angleRad)) * h) / 2;
+  return { x0: cx - hx, y0: cy - hy, x1: cx + hx, y1: cy + hy };
+}
+
+function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot: Plot, style: ShotStyle, placer: LabelPlacer): void {
+  for (const side of [a.left, a.right]) {
+    if (!side) continue;
+    const lines: { line: BranchLine; kind: 'direct' | 'refracted'; order: number }[] = [];
+    if (side.direct) lines.push({ line: side.direct, kind: 'direct', order: 0 });
+    side.refracted.forEach((line, k) => lines.push({ line, kind: 'refracted', order: k + 1 }));
+    for (const { line, kind, order } of lines) {
+      if (!(line.velocity > 0) || !Number.isFinite(line.fromX) || !Number.isFinite(line.toX)) continue;
+      const x0m = Math.min(line.fromX, line.toX);
+      const x1m = Math.max(line.fromX, line.toX);
+      const p0 = { x: plot.x(x0m), y: plot.t(branchTimeMs(line, a.x, x0m)) };
+      const p1 = { x: plot.x(x1m), y: plot.t(branchTimeMs(line, a.x, x1m)) };
+      parent.line(round3(p0.x), round3(p0.y), round3(p1.x), round3(p1.y)).attr({
+        stroke: style.colour,
+        'stroke-width': kind === 'direct' ? 0.3 : 0.45,
+        'stroke-linecap': 'round',
+        'data-role': 'branch',
+        'data-shot': a.id,
+        'data-side': side.side,
+        'data-kind': kind,
+        'data-order': order,
+        'data-velocity': line.velocity,
+      });
+      const text = formatVelocity(line.velocity);
+      const angle = Math.atan2(p1.y - p0.y, p1.x - p0.x);
+      const size = TEXT_MM.label * 0.9;
+      const w = textWidthMm(text, size);
+      const h = size * 1.05;
+      const candidates: { cx: number; cy: number }[] = [];
+      for (const f of [0.5, 0.35, 0.65, 0.2, 0.8]) {
+        for (const sign of [1, -1]) {
+          const px = p0.x + f * (p1.x - p0.x);
+          const py = p0.y + f * (p1.y - p0.y);
+          const off = sign * (h / 2 + 0.5);
+          candidates.push({ cx: px + Math.sin(angle) * off, cy: py - Math.cos(angle) * off });
+        }
+      }
+      const chosen = candidates[placer.choose(candidates.map((c) => rotatedBox(c.cx, c.cy, w, h, angle)), plot.box)];
+      addText(labels, text, chosen.cx - Math.sin(angle) * 0.35 * size, chosen.cy + Math.cos(angle) * 0.35 * size, {
+        sizeMm: size,
+        anchor: 'middle',
+        fill: style.colour,
+        halo: true,
+        rotateDeg: (angle * 180) / Math.PI,
+        role: 'branch-label',
+      }).attr({ 'data-shot': a.id, 'data-side': side.side, 'data-kind': kind });
+    }
+  }
+}
+
+function crossoverMarks(parent: Container, a: ShotAnalysis, plot: Plot): void {
+  for (const side of [a.left, a.right]) {
+    if (!side || side.crossoverDistance === null || !Number.isFinite(side.crossoverDistance)) continue;
+    const line = side.direct ?? side.refracted[0];
+    if (!line || !(line.velocity > 0)) continue;
+    const x = a.x + (side.side === 'right' ? 1 : -1) * side.crossoverDistance;
+    const t = branchTimeMs(line, a.x, x);
+    parent.circle(2.6).attr({ cx: round3(plot.x(x)), cy: round3(plot.t(t)), fill: 'none', stroke: INK.text, 'stroke-width': 0.3, 'data-role': 'crossover', 'data-shot': a.id, 'data-side': side.side, 'data-x': x });
+  }
+}
+
+function shotX(survey: Survey, id: string): number | null {
+  const shot = survey.shots.find((s) => s.id === id);
+  return shot ? shot.x : null;
+}
+
+function toleranceOf(check: { toleranceMs?: number }, survey: Survey): number | null {
+  const t = check.toleranceMs ?? survey.options?.reciprocalToleranceMs;
+  return typeof t === 'number' && Number.isFinite(t) ? t : null;
+}
+
+/**
+ * Each reciprocal pair: a bracket at shot B's position at the time shot A recorded there,
+ * and one at A's position at the time B recorded there (reciprocity: the two should be
+ * equal), with the misfit written beside one bracket. A failed check is joined by a line,
+ * drawn bold in the alert colour, and says "exceeds".
+ */
+function reciprocalMarks(parent: Container, labels: Container, interpretation: Interpretation, survey: Survey, plot: Plot, placer: LabelPlacer): void {
+  for (const check of interpretation.qc?.reciprocal ?? []) {
+    const xa = shotX(survey, check.shots[0]);
+    const xb = shotX(survey, check.shots[1]);
+    if (xa === null || xb === null || !Number.isFinite(check.forwardMs) || !Number.isFinite(check.reverseMs)) continue;
+    const colour = check.ok ? INK.text : INK.alert;
+    const group = parent.group().attr({ 'data-role': 'reciprocal', 'data-shots': `${check.shots[0]}|${check.shots[1]}`, 'data-ok': String(check.ok) });
+    const pa = { x: plot.x(xa), y: plot.t(check.reverseMs) };
+    const pb = { x: plot.x(xb), y: plot.t(check.forwardMs) };
+    if (!check.ok) {
+      group.line(round3(pa.x), round3(pa.y), round3(pb.x), round3(pb.y)).attr({ stroke: colour, 'stroke-width': 0.35, 'stroke-dasharray': '0.6 0.8' });
+    }
+    const ends = [
+      { p: pb, inward: Math.sign(pa.x - pb.x) || -1 },
+      { p: pa, inward: Math.sign(pb.x - pa.x) || 1 },
+    ];
+    for (const { p, inward } of ends) {
+      // A square bracket opening toward the other shot.
+      const d = `M${round3(p.x + inward * 1)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y + 1.6)}L${round3(p.x + inward * 1)},${round3(p.y + 1.6)}`;
+      group.path(d).attr({ fill: 'none', stroke: colour, 'stroke-width': check.ok ? 0.35 : 0.55, 'data-role': 'reciprocal-bracket' });
+      placer.reserve({ x0: p.x - 1.2, y0: p.y - 1.8, x1: p.x + 1.2, y1: p.y + 1.8 });
+    }
+    const tolerance = toleranceOf(check, survey);
+    let text = `Δ ${formatMs(Math.abs(check.differenceMs))} ${check.shots[0]}/${check.shots[1]}`;
+    if (!check.ok) text += tolerance === null ? ', exceeds tolerance' : `, exceeds ${formatMs(tolerance)}`;
+    const size = TEXT_MM.label * 0.85;
+    const w = textWidthMm(text, size);
+    const candidates: { x: number; y: number; anchor: 'start' | 'end' }[] = [];
+    for (const { p, inward } of ends) {
+      const anchor = inward > 0 ? 'start' : 'end';
+      const x = p.x + inward * 1.8;
+      for (const dy of [0, -2.6, 2.6, -5, 5]) candidates.push({ x, y: p.y + size * 0.35 + dy, anchor });
+    }
+    const boxes = candidates.map((c) => {
+      const x0 = c.anchor === 'start' ? c.x : c.x - w;
+      return { x0, y0: c.y - size * 0.85, x1: x0 + w, y1: c.y + size * 0.25 };
+    });
+    const chosen = candidates[placer.choose(boxes, plot.box)];
+    addText(labels, text, chosen.x, chosen.y, {
+      sizeMm: size,
+      anchor: chosen.anchor,
+      fill: colour,
+      weight: check.ok ? 'normal' : 'bold',
+      halo: true,
+      role: 'reciprocal-label',
+    }).attr({ 'data-ok': String(check.ok), 'data-difference-ms': check.differenceMs });
+  }
+}
+
+function reciprocalSummary(interpretation: Interpretation, survey: Survey): { text: string; role: string; alert?: boolean }[] {
+  const checks = interpretation.qc?.reciprocal ?? [];
+  if (checks.length === 0) return [{ text: 'no reciprocal pair to check', role: 'reciprocal-summary' }];
+  if (checks.some((c) => !c.ok)) return []; // qcSummary already carries the alert line.
+  const tolerance = toleranceOf(checks[0], survey);
+  const within = tolerance === null ? 'all within tolerance' : `all within ${formatMs(tolerance)}`;
+  return [{ text: `reciprocal times: ${checks.length} ${checks.length === 1 ? 'pair' : 'pairs'}, ${within}`, role: 'reciprocal-summary' }];
+}
+
+function travelTimeLegend(survey: Survey, interpretation: Interpretation, analyses: Map<string, ShotAnalysis>, showModelled: boolean): LegendItem[] {
+  const items: LegendItem[] = survey.shots.map((shot, i) => {
+    const style = shotStyle(i);
+    return {
+      label: shot.id,
+      glyph: (g, cx, cy) => {
+        g.line(round3(cx - 2.8), round3(cy), round3(cx + 2.8), round3(cy)).attr({ stroke: style.colour, 'stroke-width': 0.45 });
+        marker(g, style.shape, cx, cy, PICK_MM, { colour: style.colour, strokeMm: 0.2 });
+      },
+    };
+  });
+  const grey = INK.muted;
+  const all = [...analyses.values()];
+  items.push({
+    label: 'picks and fitted branch, apparent velocity',
+    glyph: (g, cx, cy) => {
+      g.line(round3(cx - 2.8), round3(cy + 0.8), round3(cx + 2.8), round3(cy - 0.8)).attr({ stroke: grey, 'stroke-width': 0.45 });
+      marker(g, 'circle', cx, cy, PICK_MM, { colour: grey });
+    },
+  });
+  items.push({ label: 'shot position (t = 0)', glyph: (g, cx, cy) => void marker(g, 'diamond', cx, cy, 2.2, { colour: grey }) });
+  if (all.some((a) => a.phantom && a.phantom.times.some((t) => t !== null))) {
+    items.push({
+      label: 'phantomed arrivals',
+      glyph: (g, cx, cy) => {
+        g.line(round3(cx - 2.8), round3(cy), round3(cx + 2.8), round3(cy)).attr({ stroke: grey, 'stroke-width': 0.25, 'stroke-dasharray': '1.2 0.8' });
+        marker(g, 'circle', cx, cy, PICK_MM, { colour: grey, hollow: true, strokeMm: 0.22 });
+      },
+    });
+  }
+  if (showModelled && all.some((a) => a.modelledMs && a.modelledMs.some((t) => t !== null))) {
+    items.push({ label: 'modelled first arrivals', glyph: (g, cx, cy) => void g.line(round3(cx - 2.8), round3(cy), round3(cx + 2.8), round3(cy)).attr({ stroke: grey, 'stroke-width': 0.2, 'stroke-dasharray': '0.4 0.6' }) });
+  }
+  if (all.some((a) => [a.left, a.right].some((s) => s && s.crossoverDistance !== null))) {
+    items.push({ label: 'crossover', glyph: (g, cx, cy) => void g.circle(2.6).attr({ cx: round3(cx), cy: round3(cy), fill: 'none', stroke: INK.text, 'stroke-width': 0.3 }) });
+  }
+  if ((interpretation.qc?.reciprocal ?? []).length > 0) {
+    items.push({
+      label: 'reciprocal times (at each shot of a pair), misfit Δ',
+      glyph: (g, cx, cy) => {
+        g.path(`M${round3(cx - 1.6)},${round3(cy - 1.4)}L${round3(cx - 2.6)},${round3(cy - 1.4)}L${round3(cx - 2.6)},${round3(cy + 1.4)}L${round3(cx - 1.6)},${round3(cy + 1.4)}`).attr({ fill: 'none', stroke: INK.text, 'stroke-width': 0.35 });
+        g.path(`M${round3(cx + 1.6)},${round3(cy - 1.4)}L${round3(cx + 2.6)},${round3(cy - 1.4)}L${round3(cx + 2.6)},${round3(cy + 1.4)}L${round3(cx + 1.6)},${round3(cy + 1.4)}`).attr({ fill: 'none', stroke: INK.text, 'stroke-width': 0.35 });
+      },
+    });
+  }
+  return items;
+}

@@ -1,0 +1,59 @@
+import { describe, expect, it } from 'vitest';
+import { renderSection, renderTravelTimes } from '../../../engine/render/index.js';
+import { interpret } from '../../../engine/interpret.js';
+import { demoLine, flatLine } from '../../../engine/samples/demo-lines.js';
+import { byRole, parseSvg } from '../../helpers/render-fixture.js';
+
+function axisMap(root: Element, role: 'x-tick' | 'y-tick'): (plot: number) => number {
+  const ticks = byRole(root, role);
+  const attr = role === 'x-tick' ? 'x1' : 'y1';
+  const v0 = Number(ticks[0].getAttribute('data-value'));
+  const v1 = Number(ticks[ticks.length - 1].getAttribute('data-value'));
+  const p0 = Number(ticks[0].getAttribute(attr));
+  const p1 = Number(ticks[ticks.length - 1].getAttribute(attr));
+  return (p) => v0 + ((p - p0) * (v1 - v0)) / (p1 - p0);
+}
+
+describe('rendering the engine’s own interpretation of the demo lines', () => {
+  for (const [label, make] of [['demo A (dipping)', demoLine], ['demo B (flat)', flatLine]] as const) {
+    it(`${label}: section vertices sit at the interpreted refractor elevations; one marker per geophone and shot`, () => {
+      const survey = make();
+      const interpretation = interpret(survey);
+      const root = parseSvg(renderSection(survey, interpretation));
+      const toX = axisMap(root, 'x-tick');
+      const toZ = axisMap(root, 'y-tick');
+      const byX = new Map(interpretation.stations.map((s) => [s.x, s.refractorElevation]));
+      const vertices = byRole(root, 'refractor').flatMap((l) =>
+        (l.getAttribute('points') ?? '').trim().split(/\s+/).map((p) => p.split(',').map(Number)),
+      );
+      const covered = interpretation.stations.filter((s) => s.refractorElevation !== null).length;
+      const singles = byRole(root, 'refractor-point').length;
+      expect(vertices.length + singles).toBe(covered);
+      for (const [px, py] of vertices) {
+        const x = Math.round(toX(px) * 1000) / 1000;
+        const expected = byX.get(x);
+        expect(expected).not.toBeNull();
+        expect(expected).toBeDefined();
+        expect(Math.abs(toZ(py) - (expected as number))).toBeLessThan(0.01);
+      }
+      expect(byRole(root, 'geophone')).toHaveLength(survey.geophones.length);
+      expect(byRole(root, 'shot')).toHaveLength(survey.shots.length);
+      expect(byRole(root, 'caution').length).toBe(interpretation.cautions.length);
+    });
+
+    it(`${label}: time–distance plot has a marker per pick and a line per fitted branch`, () => {
+      const survey = make();
+      const interpretation = interpret(survey);
+      const root = parseSvg(renderTravelTimes(survey, interpretation));
+      const picks = survey.shots.reduce((n, s) => n + s.times.filter((t) => t !== null).length, 0);
+      expect(byRole(root, 'pick')).toHaveLength(picks);
+      const branches = interpretation.shots.reduce(
+        (n, a) => n + [a.left, a.right].reduce((m, side) => m + (side ? (side.direct ? 1 : 0) + side.refracted.length : 0), 0),
+        0,
+      );
+      expect(branches).toBeGreaterThan(0);
+      expect(byRole(root, 'branch')).toHaveLength(branches);
+      expect(byRole(root, 'reciprocal-label')).toHaveLength(interpretation.qc.reciprocal.length);
+    });
+  }
+});

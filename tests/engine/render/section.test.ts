@@ -1,0 +1,244 @@
+import { describe, expect, it } from 'vitest';
+import { renderSection } from '../../../engine/render/index.js';
+import { byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
+import { CAUTIONS } from '../../../engine/cautions.js';
+
+/** Linear map from data value to plot unit, recovered from two axis ticks of the drawing. */
+function axisMap(root: Element, role: 'x-tick' | 'y-tick'): { toPlot: (v: number) => number; toData: (p: number) => number; plotPerUnit: number } {
+  const ticks = byRole(root, role);
+  expect(ticks.length).toBeGreaterThanOrEqual(2);
+  const attr = role === 'x-tick' ? 'x1' : 'y1';
+  const first = ticks[0];
+  const last = ticks[ticks.length - 1];
+  const v0 = Number(first.getAttribute('data-value'));
+  const v1 = Number(last.getAttribute('data-value'));
+  const p0 = Number(first.getAttribute(attr));
+  const p1 = Number(last.getAttribute(attr));
+  const plotPerUnit = (p1 - p0) / (v1 - v0);
+  return { toPlot: (v) => p0 + (v - v0) * plotPerUnit, toData: (p) => v0 + (p - p0) / plotPerUnit, plotPerUnit };
+}
+
+function points(el: Element): [number, number][] {
+  return (el.getAttribute('points') ?? '')
+    .trim()
+    .split(/\s+/)
+    .map((pair) => pair.split(',').map(Number) as [number, number]);
+}
+
+/** The words of an element: its <text> children joined by spaces (wrapped lines read back whole). */
+function textOf(el: Element): string {
+  const texts = el.nodeName.toLowerCase() === 'text' ? [el] : Array.from(el.querySelectorAll('text'));
+  return texts.map((t) => t.textContent ?? '').join(' ').replace(/\s+/g, ' ').trim();
+}
+
+describe('renderSection', () => {
+  it('returns a standalone A4-landscape SVG in millimetres with a viewBox', () => {
+    const { survey, interpretation } = renderFixture();
+    const svg = renderSection(survey, interpretation);
+    const root = parseSvg(svg);
+    expect(root.getAttribute('width')).toBe('277mm');
+    expect(root.getAttribute('height')).toBe('190mm');
+    expect(root.getAttribute('viewBox')).toBe('0 0 277 190');
+    expect(svg).toContain('xmlns="http://www.w3.org/2000/svg"');
+    expect(root.getAttribute('font-family')).toMatch(/sans-serif$/);
+  });
+
+  it('puts every refractor vertex at its station refractor elevation (scale inverted from the axis ticks, within 0.01 m)', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, interpretation));
+    const x = axisMap(root, 'x-tick');
+    const y = axisMap(root, 'y-tick');
+    const lines = byRole(root, 'refractor');
+    expect(lines).toHaveLength(1);
+    const vertices = points(lines[0]);
+    expect(vertices).toHaveLength(interpretation.stations.length);
+    vertices.forEach(([px, py], i) => {
+      const station = interpretation.stations[i];
+      expect(Math.abs(x.toData(px) - station.x)).toBeLessThan(0.01);
+      expect(Math.abs(y.toData(py) - (station.refractorElevation as number))).toBeLessThan(0.01);
+    });
+  });
+
+  it('breaks the refractor at stations without a depth instead of drawing them at zero', () => {
+    const { survey, interpretation } = renderFixture({ uncovered: [9, 10, 17] });
+    const root = parseSvg(renderSection(survey, interpretation));
+    const x = axisMap(root, 'x-tick');
+    const y = axisMap(root, 'y-tick');
+    const lines = byRole(root, 'refractor');
+    // Runs: 0–8, 11–16, 18–23.
+    expect(lines).toHaveLength(3);
+    const drawnXs = lines.flatMap((l) => points(l).map(([px]) => Math.round(x.toData(px) * 100) / 100));
+    for (const i of [9, 10, 17]) expect(drawnXs).not.toContain(interpretation.stations[i].x);
+    for (const l of lines) {
+      for (const [, py] of points(l)) expect(Math.abs(y.toData(py))).toBeGreaterThan(1); // nothing sits at elevation 0
+    }
+    expect(byRole(root, 'no-coverage')).toHaveLength(2);
+    expect(textOf(root)).toContain('no coverage');
+  });
+
+  it('draws exactly one geophone marker per geophone, each carrying its x', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, interpretation));
+    const markers = byRole(root, 'geophone');
+    expect(markers).toHaveLength(survey.geophones.length);
+    expect(markers.map((m) => Number(m.getAttribute('data-x')))).toEqual(survey.geophones.map((g) => g.x));
+  });
+
+  it('draws one shot marker per shot, labelled with its id', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, interpretation));
+    const shots = byRole(root, 'shot');
+    expect(shots).toHaveLength(survey.shots.length);
+    expect(shots.map((s) => s.getAttribute('data-shot')).sort()).toEqual(survey.shots.map((s) => s.id).sort());
+    for (const s of shots) expect(textOf(s)).toBe(s.getAttribute('data-shot'));
+  });
+
+  it('escapes a hostile line name, date and shot id: they appear only as text, no <script> element exists', () => {
+    const hostile = '<script>alert(1)</script>';
+    const { survey, interpretation } = renderFixture({ name: hostile, date: '"><script>x()</script>', shotIds: ['W-off', `a"b<i>`, 'Mid', 'E-end', 'E-off'] });
+    const svg = renderSection(survey, interpretation);
+    expect(svg).not.toContain('<script');
+    expect(svg).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    const root = parseSvg(svg);
+    expect(root.querySelectorAll('script')).toHaveLength(0);
+    expect(root.querySelectorAll('i')).toHaveLength(0);
+    expect(textOf(byRole(root, 'title')[0])).toBe(hostile);
+    expect(byRole(root, 'shot').map((s) => s.getAttribute('data-shot'))).toContain('a"b<i>');
+  });
+
+  it('carries every caution of the interpretation in full', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, interpretation));
+    const cautions = byRole(root, 'caution').map(textOf);
+    expect(cautions).toEqual(interpretation.cautions);
+    expect(cautions).toEqual([...CAUTIONS]);
+  });
+
+  it('falls back to the standard cautions when an interpretation carries none', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, { ...interpretation, cautions: [] }));
+    expect(byRole(root, 'caution').map(textOf)).toEqual([...CAUTIONS]);
+  });
+
+  it('marks each step at its x with its throw and the deeper side', () => {
+    const { survey, interpretation } = renderFixture({ steps: [{ x: 31, throw: 2.8 }, { x: 9, throw: -1.25 }] });
+    const root = parseSvg(renderSection(survey, interpretation));
+    const x = axisMap(root, 'x-tick');
+    const steps = byRole(root, 'step');
+    expect(steps).toHaveLength(2);
+    const byX = new Map(steps.map((s) => [Number(s.getAttribute('data-x')), s]));
+    expect(textOf(byX.get(31)!)).toContain('step 2.8 m');
+    expect(textOf(byX.get(31)!)).toContain('deeper to +x');
+    expect(textOf(byX.get(9)!)).toContain('step 1.3 m');
+    expect(textOf(byX.get(9)!)).toContain('deeper to −x');
+    const bar = byX.get(31)!.querySelector('line')!;
+    expect(Math.abs(x.toData(Number(bar.getAttribute('x1'))) - 31)).toBeLessThan(0.01);
+  });
+
+  it('states a vertical exaggeration that equals the ratio of the drawn scales, never below 1:1', () => {
+    for (const options of [{}, { secondRefractorBelowM: 8 }, { secondRefractorBelowM: 30 }]) {
+      const { survey, interpretation } = renderFixture(options);
+      const root = parseSvg(renderSection(survey, interpretation));
+      const ratio = Math.abs(axisMap(root, 'y-tick').plotPerUnit) / Math.abs(axisMap(root, 'x-tick').plotPerUnit);
+      const text = textOf(byRole(root, 'vertical-exaggeration')[0]);
+      const match = /^vertical exaggeration ([\d.]+):1$/.exec(text);
+      expect(match).not.toBeNull();
+      // Tick positions are written to 0.001 mm, so the recovered ratio carries that rounding.
+      expect(Number(match![1])).toBeCloseTo(ratio, 3);
+      expect(Number(match![1])).toBeGreaterThanOrEqual(1);
+    }
+  });
+
+  it('uses tick steps of 1, 2 or 5 × 10^n on both axes', () => {
+    const { survey, interpretation } = renderFixture();
+    const root = parseSvg(renderSection(survey, interpretation));
+    for (const role of ['x-tick', 'y-tick']) {
+      const values = byRole(root, role).map((t) => Number(t.getAttribute('data-value')));
+      const step = values[1] - values[0];
+      const mantissa = step / Math.pow(10, Math.floor(Math.log10(step) + 1e-9));
+      expect([1, 2, 5].some((m) => Math.abs(mantissa - m) < 1e-9)).toBe(true);
+    }
+  });
+
+  it('labels layer and refractor-segment velocities, marks velocity changes and notes the dip', () => {
+    const { survey, interpretation } = renderFixture({
+      refractorVelocity: [{ from: 0, to: 30, velocity: 2200 }, { from: 30, to: 46, velocity: 3900 }],
+      velocityChanges: [{ x: 30, left: 2200, right: 3900 }],
+    });
+    const root = parseSvg(renderSection(survey, interpretation));
+    const layerLabels = byRole(root, 'layer-label').map(textOf);
+    expect(layerLabels).toContain('layer 1: 610 m/s');
+    expect(layerLabels.some((l) => l.startsWith('layer 2: 2,450 m/s'))).toBe(true);
+    const segments = byRole(root, 'velocity-segment');
+    expect(segments.map(textOf)).toEqual(['2,200 m/s', '3,900 m/s']);
+    expect(byRole(root, 'velocity-change')).toHaveLength(1);
+    expect(textOf(byRole(root, 'velocity-change')[0])).toBe('2,200 m/s → 3,900 m/s');
+    expect(textOf(byRole(root, 'dip')[0])).toBe('refractor dip 4.2°, deepening to +x');
+  });
+
+  it('says "no single planar dip" when the interpretation has none', () => {
+    const { survey, interpretation } = renderFixture({ noDip: true });
+    const root = parseSvg(renderSection(survey, interpretation));
+    expect(textOf(byRole(root, 'dip')[0])).toBe('no single planar dip');
+  });
+
+  it('draws a second refractor from depths[1] at elevation − depth', () => {
+    const { survey, interpretation } = renderFixture({ secondRefractorBelowM: 8 });
+    const root = parseSvg(renderSection(survey, interpretation));
+    const y = axisMap(root, 'y-tick');
+    const lines = byRole(root, 'refractor-2');
+    expect(lines).toHaveLength(1);
+    points(lines[0]).forEach(([, py], i) => {
+      const s = interpretation.stations[i];
+      expect(Math.abs(y.toData(py) - (s.elevation - (s.depths[1] as number)))).toBeLessThan(0.01);
+    });
+    expect(byRole(root, 'layer-label').map(textOf)).toContain('layer 3: 4,200 m/s');
+  });
+
+  it('draws one depth arc per station with a normal depth, and none when asked not to', () => {
+    const { survey, interpretation } = renderFixture({ uncovered: [4] });
+    const withArcs = parseSvg(renderSection(survey, interpretation));
+    expect(byRole(withArcs, 'depth-arc')).toHaveLength(interpretation.stations.length - 1);
+    const without = parseSvg(renderSection(survey, interpretation, { showArcs: false }));
+    expect(byRole(without, 'depth-arc')).toHaveLength(0);
+  });
+
+  it('shows the title block: name, date, method, counts', () => {
+    const { survey, interpretation } = renderFixture({ date: '14 March 2025, crew B' });
+    const root = parseSvg(renderSection(survey, interpretation));
+    expect(textOf(byRole(root, 'title')[0])).toBe(survey.name);
+    expect(textOf(byRole(root, 'date')[0])).toBe('14 March 2025, crew B');
+    expect(textOf(byRole(root, 'subtitle')[0])).toBe('Depth section · plus-minus method · 24 geophones · 5 shots');
+  });
+
+  it('flags a failed reciprocal check in the title block', () => {
+    const { survey, interpretation } = renderFixture({ reciprocalErrorMs: 4.1 });
+    const root = parseSvg(renderSection(survey, interpretation));
+    const alert = byRole(root, 'reciprocal-alert');
+    expect(alert).toHaveLength(1);
+    expect(textOf(alert[0])).toContain('W-end/E-end');
+  });
+
+  it('is deterministic: two renders of the same input are identical, whatever was drawn between them', () => {
+    const a = renderFixture({ uncovered: [3], steps: [{ x: 20, throw: 1 }] });
+    const first = renderSection(a.survey, a.interpretation);
+    const other = renderFixture({ secondRefractorBelowM: 5 });
+    renderSection(other.survey, other.interpretation);
+    expect(renderSection(a.survey, a.interpretation)).toBe(first);
+  });
+
+  it('does not change the interpretation or survey it draws', () => {
+    const { survey, interpretation } = renderFixture({ steps: [{ x: 20, throw: 1 }] });
+    const before = JSON.stringify({ survey, interpretation });
+    renderSection(survey, interpretation);
+    expect(JSON.stringify({ survey, interpretation })).toBe(before);
+  });
+
+  it('still draws a section when no station has coverage', () => {
+    const { survey, interpretation } = renderFixture({ uncovered: Array.from({ length: 24 }, (_, i) => i) });
+    const root = parseSvg(renderSection(survey, interpretation));
+    expect(byRole(root, 'refractor')).toHaveLength(0);
+    expect(byRole(root, 'no-coverage')).toHaveLength(1);
+    expect(byRole(root, 'geophone')).toHaveLength(24);
+  });
+});
