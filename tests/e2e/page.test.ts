@@ -1,0 +1,277 @@
+/**
+ * The Arcline page in real Chromium against a real server (seeded with the demo line):
+ * the demo section on load, a CSV line interpreted, stored and shared, errors in plain
+ * words, keyboard reach, no console errors and no CSP violations.
+ */
+import { mkdir, mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { CAUTIONS } from '../../engine/cautions.js';
+import type { Survey } from '../../engine/survey.js';
+import { buildApp } from '../../server/app.js';
+import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, launchChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
+
+const SAMPLES = resolve(import.meta.dirname, '../../samples');
+const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
+
+async function readSample(name: string): Promise<Survey> {
+  return JSON.parse(await readFile(join(SAMPLES, name), 'utf8')) as Survey;
+}
+
+/** Waits until an <img> has finished loading and reports its intrinsic width (0 = failed). */
+async function loadedWidth(page: Page, selector: string): Promise<number> {
+  await page.waitForFunction((sel) => {
+    const img = document.querySelector<HTMLImageElement>(sel);
+    return !!img && !!img.getAttribute('src') && img.complete;
+  }, selector);
+  return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
+}
+
+function expectNoTrouble(trouble: PageTrouble, allowedConsole: RegExp[] = []): void {
+  expect(trouble.pageErrors).toEqual([]);
+  expect(trouble.cspViolations).toEqual([]);
+  expect(
+    trouble.consoleErrors.filter((text) => !allowedConsole.some((re) => re.test(text))),
+    `responses with errors: ${trouble.badResponses.join(', ') || 'none'}`,
+  ).toEqual([]);
+}
+
+// Under CI this runs even without the browser, so a missing Chromium fails the run by name.
+describe.skipIf(!browserTestsRun)('Chromium for the browser tests', () => {
+  it(`is installed at ${CHROMIUM_PATH}`, () => {
+    expect(hasChromium, "install Debian's chromium (apt-get install chromium)").toBe(true);
+  });
+});
+
+describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
+  let launched: LaunchedBrowser;
+  let app: Awaited<ReturnType<typeof buildApp>>;
+  let baseUrl: string;
+  let dataDir: string;
+  let demo: Survey;
+  let flat: Survey;
+
+  beforeAll(async () => {
+    await mkdir(SCREENSHOTS, { recursive: true });
+    demo = await readSample('demo-line.json');
+    flat = await readSample('flat-line.json');
+    dataDir = await mkdtemp(join(tmpdir(), 'arcline-e2e-'));
+    app = await buildApp({ dataDir, seedDemo: true });
+    const address = await app.listen({ port: 0, host: '127.0.0.1' });
+    baseUrl = address.endsWith('/') ? address : address + '/';
+    launched = await launchChromium();
+  }, BROWSER_TEST_TIMEOUT_MS);
+
+  afterAll(async () => {
+    await launched?.close();
+    await app?.close();
+    if (dataDir) await rm(dataDir, { recursive: true, force: true });
+  }, BROWSER_TEST_TIMEOUT_MS);
+
+  it('opens the stored demo line on load with its depth section and time–distance plot drawn', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.freshContext();
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(baseUrl);
+    await page.waitForSelector('body[data-ready="true"]');
+
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);
+    expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
+    expect(await loadedWidth(page, '#traveltimes-image')).toBeGreaterThan(0);
+    expect(await page.getAttribute('#section-image', 'alt')).toContain(demo.name ?? '');
+
+    // One table row per geophone of the demo line.
+    expect(await page.locator('#station-body tr').count()).toBe(demo.geophones.length);
+
+    // Nothing inline that a strict Content-Security-Policy would block.
+    const inline = await page.evaluate(() => {
+      const found: string[] = [];
+      for (const node of Array.from(document.querySelectorAll('*'))) {
+        if (node.hasAttribute('style')) found.push(`${node.tagName} style=`);
+        for (const name of node.getAttributeNames()) if (name.startsWith('on')) found.push(`${node.tagName} ${name}=`);
+      }
+      for (const script of Array.from(document.querySelectorAll('script'))) if (!script.src) found.push('inline <script>');
+      if (document.querySelector('style')) found.push('<style> element');
+      return found;
+    });
+    expect(inline).toEqual([]);
+
+    // The cautions on the page are the engine's own sentences, word for word.
+    const shown = await page.locator('.cautions .caution').allTextContents();
+    expect(shown.map((t) => t.replace(/\s+/g, ' ').trim())).toEqual([...CAUTIONS]);
+
+    // Downloads point at the stored line's files, and the files answer.
+    for (const id of ['download-section', 'download-traveltimes', 'download-stations', 'download-interpretation']) {
+      const href = await page.getAttribute('#' + id, 'href');
+      expect(href).toMatch(/^api\/v1\/surveys\/[^/]+\/(section\.svg|traveltimes\.svg|stations\.csv|interpretation\.json)$/);
+      const response = await page.request.get(new URL(href!, baseUrl).href);
+      expect(response.status(), href!).toBe(200);
+    }
+
+    await page.screenshot({ path: join(SCREENSHOTS, 'demo-line.png'), fullPage: true });
+    expectNoTrouble(trouble);
+    await context.close();
+  });
+
+  it('interprets flat-line.csv from the file input, stores it, and the share link shows the same line in a fresh context', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.freshContext();
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(baseUrl);
+    await page.waitForSelector('body[data-ready="true"]');
+
+    await page.setInputFiles('#file-input', join(SAMPLES, 'flat-line.csv'));
+    await expect.poll(() => page.textContent('#format-name'), POLL).toContain('CSV');
+
+    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    await page.click('#interpret-button');
+    const response = await interpreted;
+    expect(response.status()).toBe(200);
+    const interpretation = (await response.json()) as { stations: { x: number }[] };
+
+    // One row per geophone, in order, with the geophone's x in the first column.
+    const rows = page.locator('#station-body tr');
+    await expect.poll(() => rows.count(), POLL).toBe(flat.geophones.length);
+    expect(interpretation.stations.length).toBe(flat.geophones.length);
+    const firstColumn = await page.locator('#station-body tr > th').allTextContents();
+    expect(firstColumn.map(Number)).toEqual(flat.geophones.map((g) => g.x));
+    expect(await page.isVisible('#unsaved-note')).toBe(true);
+    expect(await page.isVisible('#figures')).toBe(false);
+    await page.screenshot({ path: join(SCREENSHOTS, 'flat-line-interpreted.png'), fullPage: true });
+
+    const stored = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');
+    await page.click('#store-button');
+    const storeResponse = await stored;
+    expect(storeResponse.status()).toBe(201);
+    const storeBody = (await storeResponse.json()) as { id: string; shareUrl: string };
+
+    await page.waitForSelector('#share-panel:not([hidden])');
+    const shareLink = await page.inputValue('#share-url');
+    expect(shareLink).toBe(new URL(storeBody.shareUrl, baseUrl).href);
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(flat.name);
+    expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
+    // The new line is in the stored list and marked as the open one.
+    const current = page.locator('#stored-list button[aria-current="true"]');
+    expect(await current.getAttribute('data-line-id')).toBe(String(storeBody.id));
+    expect(await current.locator('.stored-name').textContent()).toBe(flat.name);
+    await page.screenshot({ path: join(SCREENSHOTS, 'flat-line-stored.png'), fullPage: true });
+
+    // "Copy link" puts the link on the clipboard and says so.
+    await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: new URL(baseUrl).origin });
+    await page.click('#copy-button');
+    await expect.poll(() => page.textContent('#status'), POLL).toBe('Share link copied.');
+    expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(shareLink);
+    expectNoTrouble(trouble);
+
+    // A colleague opens the link with nothing in their browser: same line, a drawn section.
+    const colleague = await launched.freshContext();
+    const sharePage = await colleague.newPage();
+    const shareTrouble = await watchPage(sharePage);
+    const shareResponse = await sharePage.goto(shareLink);
+    expect(shareResponse?.status()).toBe(200);
+    expect(await sharePage.textContent('body')).toContain(flat.name);
+    await sharePage.waitForLoadState('load');
+    const drawnSvgs = await sharePage.evaluate(() => {
+      const inline = document.querySelectorAll('svg').length;
+      const images = Array.from(document.querySelectorAll('img'))
+        .filter((img) => /\.svg(\?|$)/.test(img.getAttribute('src') ?? '') && img.naturalWidth > 0).length;
+      const objects = document.querySelectorAll('object[type="image/svg+xml"]').length;
+      return inline + images + objects;
+    });
+    expect(drawnSvgs).toBeGreaterThan(0);
+    await sharePage.screenshot({ path: join(SCREENSHOTS, 'share-page.png'), fullPage: true });
+    expectNoTrouble(shareTrouble);
+    await colleague.close();
+    await context.close();
+  });
+
+  it('lists every problem of a rejected survey in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.freshContext();
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(baseUrl);
+    await page.waitForSelector('body[data-ready="true"]');
+
+    // Two faults: geophones out of order, and a negative first-break time.
+    const bad = structuredClone(flat);
+    bad.geophones[3].x = bad.geophones[1].x;
+    bad.shots[1].times[5] = -4;
+    await page.fill('#survey-text', JSON.stringify(bad, null, 2));
+    await expect.poll(() => page.textContent('#format-name'), POLL).toContain('JSON');
+
+    const answered = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    await page.click('#interpret-button');
+    const response = await answered;
+    expect(response.status()).toBe(400);
+    const body = (await response.json()) as {
+      error: { message: string; path: string };
+      problems?: { path: string; message: string }[];
+    };
+
+    const box = page.locator('#error-box');
+    await box.waitFor({ state: 'visible' });
+    expect(await box.getAttribute('role')).toBe('alert');
+    const text = (await box.textContent()) ?? '';
+    expect(text).toContain(body.error.message);
+    const problems = body.problems?.length ? body.problems : [{ path: body.error.path, message: '' }];
+    expect(await box.locator('.problem-list > li').count()).toBe(problems.length);
+    for (const problem of problems) {
+      expect(text).toContain(problem.message);
+      expect(text).toContain(problem.path);
+    }
+    // The time fault is named by shot and geophone, not only by its JSON path.
+    if (problems.some((p) => p.path === '/shots/1/times/5')) {
+      expect(text).toContain(`shot 2 (“${bad.shots[1].id}”), pick at geophone 6`);
+    }
+    await page.screenshot({ path: join(SCREENSHOTS, 'rejected-survey.png'), fullPage: true });
+    // Chromium logs every non-2xx fetch as a console error; the 400 here is the point of the test.
+    expectNoTrouble(trouble, [/status of 400/]);
+    await context.close();
+  });
+
+  it('is usable from the keyboard: Tab reaches the file input and the buttons in order, with a visible focus ring', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.freshContext();
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(baseUrl);
+    await page.waitForSelector('body[data-ready="true"]');
+
+    const reached: string[] = [];
+    for (let i = 0; i < 12; i += 1) {
+      await page.keyboard.press('Tab');
+      reached.push(await page.evaluate(() => document.activeElement?.id || document.activeElement?.tagName || ''));
+    }
+    const fileAt = reached.indexOf('file-input');
+    const textAt = reached.indexOf('survey-text');
+    const interpretAt = reached.indexOf('interpret-button');
+    const storeAt = reached.indexOf('store-button');
+    expect(fileAt, reached.join(' → ')).toBeGreaterThanOrEqual(0);
+    expect(textAt).toBeGreaterThan(fileAt);
+    expect(interpretAt).toBeGreaterThan(textAt);
+    expect(storeAt).toBeGreaterThan(interpretAt);
+
+    // Paste a survey, Tab to Interpret, press Enter: the table appears.
+    await page.focus('#survey-text');
+    await page.fill('#survey-text', JSON.stringify(flat));
+    await page.keyboard.press('Tab');
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('interpret-button');
+    const outline = await page.$eval('#interpret-button', (b) => {
+      const style = getComputedStyle(b);
+      return { style: style.outlineStyle, width: parseFloat(style.outlineWidth) };
+    });
+    expect(outline.style).not.toBe('none');
+    expect(outline.width).toBeGreaterThanOrEqual(2);
+    await page.screenshot({ path: join(SCREENSHOTS, 'keyboard-focus.png') });
+    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    await page.keyboard.press('Enter');
+    expect((await interpreted).status()).toBe(200);
+    // The page now shows the unsaved interpretation (not the stored line it opened on load).
+    await expect.poll(() => page.textContent('#line-badge'), POLL).toBe('Not stored');
+    expect(await page.locator('#station-body tr').count()).toBe(flat.geophones.length);
+    expect(await page.textContent('#line-title')).toBe(flat.name);
+    expectNoTrouble(trouble);
+    await context.close();
+  });
+});

@@ -1,0 +1,91 @@
+/**
+ * The page's write token in real Chromium: a service started with a write token refuses
+ * Store from the page until the token is entered, then accepts it; the token is kept for
+ * the tab (sessionStorage) across a reload.
+ */
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Survey } from '../../engine/survey.js';
+import { buildApp } from '../../server/app.js';
+import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, launchChromium, watchPage, type LaunchedBrowser } from './browser.js';
+
+const SAMPLES = resolve(import.meta.dirname, '../../samples');
+// Invented for this test only.
+const WRITE_TOKEN = 'e2e-token-4f9c2a71';
+
+describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
+  let launched: LaunchedBrowser;
+  let app: Awaited<ReturnType<typeof buildApp>>;
+  let baseUrl: string;
+  let dataDir: string;
+  let demoText: string;
+  let demo: Survey;
+
+  beforeAll(async () => {
+    demoText = await readFile(join(SAMPLES, 'demo-line.json'), 'utf8');
+    demo = JSON.parse(demoText) as Survey;
+    dataDir = await mkdtemp(join(tmpdir(), 'arcline-e2e-token-'));
+    app = await buildApp({ dataDir, writeToken: WRITE_TOKEN });
+    const address = await app.listen({ port: 0, host: '127.0.0.1' });
+    baseUrl = address.endsWith('/') ? address : address + '/';
+    launched = await launchChromium();
+  }, BROWSER_TEST_TIMEOUT_MS);
+
+  afterAll(async () => {
+    await launched?.close();
+    await app?.close();
+    if (dataDir) await rm(dataDir, { recursive: true, force: true });
+  }, BROWSER_TEST_TIMEOUT_MS);
+
+  it('refuses Store without the token, stores with it, and keeps the token for the tab', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.freshContext();
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(baseUrl);
+    await page.waitForSelector('body[data-ready="true"]');
+    // An empty store says so.
+    expect(await page.isVisible('#stored-empty')).toBe(true);
+
+    await page.fill('#survey-text', demoText);
+    const refused = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');
+    await page.click('#store-button');
+    const refusal = await refused;
+    expect(refusal.status()).toBe(401);
+    expect(refusal.request().headers().authorization).toBeUndefined();
+    const refusalBody = (await refusal.json()) as { error: { message: string } };
+    await page.locator('#error-box').waitFor({ state: 'visible' });
+    expect(await page.textContent('#error-box')).toContain(refusalBody.error.message);
+    expect(await page.locator('#stored-list li').count()).toBe(0);
+
+    await page.click('.token summary');
+    await page.fill('#write-token', WRITE_TOKEN);
+    const accepted = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');
+    await page.click('#store-button');
+    const acceptance = await accepted;
+    expect(acceptance.status()).toBe(201);
+    expect(acceptance.request().headers().authorization).toBe(`Bearer ${WRITE_TOKEN}`);
+    await page.waitForSelector('#share-panel:not([hidden])');
+    expect(await page.isVisible('#error-box')).toBe(false);
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);
+    expect(await page.locator('#stored-list li').count()).toBe(1);
+
+    // Same tab after a reload: the token is still there; a fresh context has none.
+    await page.reload();
+    await page.waitForSelector('body[data-ready="true"]');
+    expect(await page.inputValue('#write-token')).toBe(WRITE_TOKEN);
+    const other = await launched.freshContext();
+    const otherPage = await other.newPage();
+    await otherPage.goto(baseUrl);
+    await otherPage.waitForSelector('body[data-ready="true"]');
+    expect(await otherPage.inputValue('#write-token')).toBe('');
+    await other.close();
+
+    // Chromium logs the refused POST (401) as a console error; nothing else may appear.
+    expect(trouble.pageErrors).toEqual([]);
+    expect(trouble.cspViolations).toEqual([]);
+    expect(trouble.consoleErrors.filter((t) => !/status of 401/.test(t)), trouble.badResponses.join(', ')).toEqual([]);
+    await context.close();
+  });
+});

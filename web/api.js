@@ -1,0 +1,125 @@
+// Talks to the Arcline HTTP API v1 (shared/api-v1.md). Every call resolves to
+// { ok: true, data } or { ok: false, failure }, where failure is
+// { status, code, message, path, problems[] } — the page never sees a thrown fetch error.
+
+const TOKEN_KEY = 'arcline.writeToken';
+
+/** The write token kept for this tab (sessionStorage), or '' when none. */
+export function readWriteToken() {
+  try {
+    return sessionStorage.getItem(TOKEN_KEY) ?? '';
+  } catch {
+    return '';
+  }
+}
+
+export function saveWriteToken(token) {
+  try {
+    if (token) sessionStorage.setItem(TOKEN_KEY, token);
+    else sessionStorage.removeItem(TOKEN_KEY);
+  } catch {
+    // Storage may be disabled; the token then lives only in the input field.
+  }
+}
+
+/** Content type of a survey body in the given format ('json' or 'csv'). */
+function contentTypeOf(format) {
+  return format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json';
+}
+
+async function request(path, init) {
+  let response;
+  try {
+    response = await fetch(path, { ...init, headers: { Accept: 'application/json', ...(init?.headers ?? {}) } });
+  } catch {
+    return {
+      ok: false,
+      failure: failure(0, 'unreachable', 'The Arcline service did not answer. Check that it is running and reachable.'),
+    };
+  }
+  let body = null;
+  const text = await response.text();
+  if (text) {
+    try {
+      body = JSON.parse(text);
+    } catch {
+      body = null;
+    }
+  }
+  if (response.ok) return { ok: true, status: response.status, data: body };
+  return { ok: false, failure: failureFromBody(response.status, body) };
+}
+
+function failure(status, code, message, path = '', problems = []) {
+  return { status, code, message, path, problems };
+}
+
+/** Turns the contract's error body into one shape; fills in words for bare statuses. */
+function failureFromBody(status, body) {
+  const error = body && typeof body === 'object' ? body.error : null;
+  const problems = Array.isArray(body?.problems)
+    ? body.problems.filter((p) => p && typeof p === 'object').map((p) => ({
+      path: typeof p.path === 'string' ? p.path : '',
+      code: typeof p.code === 'string' ? p.code : '',
+      message: typeof p.message === 'string' ? p.message : String(p.message ?? ''),
+    }))
+    : [];
+  if (error && typeof error === 'object') {
+    return failure(
+      status,
+      typeof error.code === 'string' ? error.code : 'error',
+      typeof error.message === 'string' && error.message ? error.message : statusWords(status),
+      typeof error.path === 'string' ? error.path : '',
+      problems,
+    );
+  }
+  return failure(status, 'http-' + status, statusWords(status), '', problems);
+}
+
+function statusWords(status) {
+  if (status === 401 || status === 403) {
+    return 'The service refused to store this line without a valid write token. Enter the token under "Write token".';
+  }
+  if (status === 404) return 'That line is not in the store (it may have been removed).';
+  if (status === 413) return 'The file is too large for the service.';
+  if (status >= 500) return 'The service failed while handling this request (status ' + status + ').';
+  return 'The service answered with status ' + status + '.';
+}
+
+/** POST /api/v1/interpretations — interprets, stores nothing. */
+export function interpretLine(bodyText, format) {
+  return request('api/v1/interpretations', {
+    method: 'POST',
+    headers: { 'Content-Type': contentTypeOf(format) },
+    body: bodyText,
+  });
+}
+
+/** POST /api/v1/surveys — stores the line; sends the write token when one is set. */
+export function storeLine(bodyText, format) {
+  const headers = { 'Content-Type': contentTypeOf(format) };
+  const token = readWriteToken();
+  if (token) headers.Authorization = 'Bearer ' + token;
+  return request('api/v1/surveys', { method: 'POST', headers, body: bodyText });
+}
+
+/** GET /api/v1/surveys — [{id, name, createdAt}]. */
+export function listLines() {
+  return request('api/v1/surveys', { method: 'GET' });
+}
+
+/** GET /api/v1/surveys/:id — {survey, interpretation, ...}. */
+export function fetchLine(id) {
+  return request('api/v1/surveys/' + encodeURIComponent(id), { method: 'GET' });
+}
+
+/** Relative URLs of the files of a stored line. */
+export function lineFileUrls(id) {
+  const base = 'api/v1/surveys/' + encodeURIComponent(id) + '/';
+  return {
+    section: base + 'section.svg',
+    travelTimes: base + 'traveltimes.svg',
+    stations: base + 'stations.csv',
+    interpretation: base + 'interpretation.json',
+  };
+}

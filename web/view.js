@@ -1,0 +1,158 @@
+// Builds the parts of the page from an interpretation. Text goes in through textContent
+// only: names, messages and numbers come from files the page does not control.
+
+import { coverageWords, describePath, fixed, metres, velocity } from './describe.js';
+
+/** Creates an element with optional class and text. */
+export function el(tag, className, text) {
+  const node = document.createElement(tag);
+  if (className) node.className = className;
+  if (text !== undefined && text !== null) node.textContent = String(text);
+  return node;
+}
+
+/**
+ * The station table columns: heading, unit, and how to read the cell from a station.
+ * A second-refractor column appears only for three-layer interpretations.
+ */
+function stationColumns(stations) {
+  const hasSecondRefractor = stations.some((s) => Array.isArray(s.depths) && s.depths.length > 1);
+  const hasUncertainty = stations.some((s) => typeof s.depthUncertainty === 'number');
+  const columns = [
+    { key: 'x', heading: 'x', unit: 'm', cell: (s) => metres(s.x) },
+    { key: 'elevation', heading: 'Elevation', unit: 'm', cell: (s) => fixed(s.elevation, 2) },
+    { key: 'delayTime', heading: 'Delay time', unit: 'ms', cell: (s) => fixed(s.delayTime, 2) },
+    { key: 'depth', heading: 'Depth', unit: 'm', cell: (s) => fixed(s.depth, 1) },
+  ];
+  if (hasUncertainty) {
+    columns.push({ key: 'depthUncertainty', heading: '± depth', unit: 'm', cell: (s) => fixed(s.depthUncertainty, 1) });
+  }
+  columns.push({ key: 'refractorElevation', heading: 'Refractor elevation', unit: 'm', cell: (s) => fixed(s.refractorElevation, 1) });
+  if (hasSecondRefractor) {
+    columns.push({ key: 'depth2', heading: 'Depth to 2nd refractor', unit: 'm', cell: (s) => fixed(s.depths?.[1], 1) });
+  }
+  columns.push(
+    { key: 'v1', heading: 'V1', unit: 'm/s', cell: (s) => velocity(s.v1) },
+    { key: 'refractorVelocity', heading: 'Refractor velocity', unit: 'm/s', cell: (s) => velocity(s.refractorVelocity) },
+    { key: 'coverage', heading: 'Coverage', unit: '', cell: (s) => coverageWords(s.coverage, s.pairCount), text: true },
+  );
+  return columns;
+}
+
+/** Fills the station table: one row per geophone, in order. */
+export function renderStationTable(headRow, body, stations) {
+  const columns = stationColumns(stations);
+  headRow.replaceChildren(...columns.map((c) => {
+    const th = el('th', c.text ? 'text' : 'num');
+    th.scope = 'col';
+    th.append(el('span', 'col-name', c.heading));
+    if (c.unit) th.append(el('span', 'col-unit', c.unit));
+    return th;
+  }));
+  body.replaceChildren(...stations.map((station) => {
+    const row = el('tr');
+    if (station.coverage === 'none' || station.depth === null) row.className = 'no-coverage';
+    columns.forEach((c, i) => {
+      const cell = el(i === 0 ? 'th' : 'td', c.text ? 'text' : 'num', c.cell(station));
+      if (i === 0) cell.scope = 'row';
+      row.append(cell);
+    });
+    return row;
+  }));
+}
+
+function term(list, name, value) {
+  list.append(el('dt', '', name), el('dd', '', value));
+}
+
+/** Plain-words summary of layers, dip, steps, reciprocal checks and residuals. */
+export function renderSummary(list, interpretation) {
+  list.replaceChildren();
+  const methodNames = { 'plus-minus': 'plus-minus', grm: 'generalised reciprocal method', 'time-term': 'time-term least squares' };
+  if (interpretation.method) term(list, 'Method', methodNames[interpretation.method] ?? String(interpretation.method));
+
+  const layers = Array.isArray(interpretation.layers) ? interpretation.layers : [];
+  if (layers.length) {
+    term(list, 'Layer velocities', layers.map((l, i) => 'layer ' + (i + 1) + ': ' + velocity(l.velocity) + ' m/s').join(' · '));
+  }
+
+  const segments = Array.isArray(interpretation.refractorVelocity) ? interpretation.refractorVelocity : [];
+  if (segments.length > 1) {
+    term(list, 'Refractor velocity along the line', segments
+      .map((s) => metres(s.from) + '–' + metres(s.to) + ' m: ' + velocity(s.velocity) + ' m/s').join(' · '));
+  }
+
+  const features = interpretation.features ?? {};
+  if (features.dip && typeof features.dip.degrees === 'number') {
+    const d = features.dip.degrees;
+    const toward = d > 0 ? ' (deepens toward +x)' : d < 0 ? ' (deepens toward −x)' : '';
+    term(list, 'Refractor dip', fixed(Math.abs(d), 1) + '°' + toward);
+  } else if (features.dip === null) {
+    term(list, 'Refractor dip', 'no single planar dip describes the refractor');
+  }
+
+  const steps = Array.isArray(features.steps) ? features.steps : [];
+  term(list, 'Steps in the refractor', steps.length
+    ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + fixed(s.throw, 1) + ' m').join('; ')
+    : 'none found');
+
+  const changes = Array.isArray(features.velocityChanges) ? features.velocityChanges : [];
+  if (changes.length) {
+    term(list, 'Refractor velocity changes', changes
+      .map((c) => 'at x = ' + metres(c.x) + ' m: ' + velocity(c.left) + ' → ' + velocity(c.right) + ' m/s').join('; '));
+  }
+
+  const reciprocal = Array.isArray(interpretation.qc?.reciprocal) ? interpretation.qc.reciprocal : [];
+  if (reciprocal.length) {
+    const bad = reciprocal.filter((r) => !r.ok);
+    const text = bad.length === 0
+      ? (reciprocal.length === 1 ? 'the opposing shot pair agrees' : 'all ' + reciprocal.length + ' opposing shot pairs agree')
+        + ' within tolerance'
+      : bad.map((r) => (r.shots ?? []).join(' / ') + ' differ by ' + fixed(r.differenceMs, 1) + ' ms').join('; ');
+    term(list, 'Reciprocal times', text);
+  }
+
+  const residuals = interpretation.qc?.residuals;
+  if (residuals && typeof residuals.rmsMs === 'number') {
+    term(list, 'Picks against the model', 'RMS misfit ' + fixed(residuals.rmsMs, 2) + ' ms');
+  }
+}
+
+/** Lists qc.warnings; hides the box when there are none. */
+export function renderWarnings(box, list, warnings) {
+  const items = Array.isArray(warnings) ? warnings : [];
+  list.replaceChildren(...items.map((w) => {
+    const li = el('li', '', w.message ?? w.code ?? 'Warning');
+    // Add the place only when the message does not already name it.
+    if (typeof w.x === 'number' && !/x\s*=/.test(String(w.message ?? ''))) li.append(el('span', 'where', ' (at x = ' + metres(w.x) + ' m)'));
+    return li;
+  }));
+  box.hidden = items.length === 0;
+}
+
+/**
+ * Shows a failed request: the message, then every problem with where it is, in plain
+ * words and as the JSON path the service gave.
+ */
+export function renderFailure(box, failure, survey) {
+  box.replaceChildren();
+  box.append(el('p', 'message-title', failure.message));
+  const problems = failure.problems.length
+    ? failure.problems
+    : failure.path ? [{ path: failure.path, message: '' }] : [];
+  if (problems.length) {
+    const list = el('ul', 'problem-list');
+    for (const problem of problems) {
+      const li = el('li');
+      if (problem.message) li.append(el('span', '', problem.message + ' '));
+      const where = el('span', 'where', 'Where: ' + describePath(problem.path, survey));
+      if (problem.path) {
+        where.append(' ', el('code', '', problem.path));
+      }
+      li.append(where);
+      list.append(li);
+    }
+    box.append(list);
+  }
+  box.hidden = false;
+}
