@@ -1,0 +1,250 @@
+/**
+ * Branch assignment of first arrivals: for every shot and each side of it, which picks are
+ * direct waves (branch 0), head waves from the first refractor (1) or from the second (2),
+ * with a straight line t_ms = interceptMs + 1000·offset/velocity fitted to each branch
+ * (Kearey, Brooks & Hill, An Introduction to Geophysical Exploration, 3rd ed., 2002, ch. 5).
+ *
+ * Offsets are horizontal distances along the line, |x − shot x|; elevation differences are
+ * ignored here and handled by the plus-minus step.
+ *
+ * Two passes:
+ *  1. every side is fitted with 1, 2 and (unless two layers are forced) 3 straight
+ *     segments (segmented-fit.ts). Sides whose best fit by BIC has two or more segments,
+ *     and whose first segment starts near zero time, give a provisional V1 (median).
+ *  2. each fit's first segment is classed as direct when its apparent velocity is at most
+ *     DIRECT_VELOCITY_FACTOR·V1, else refracted (an off-end side with no direct picks);
+ *     the fit with the lowest BIC whose branches fit the layer count is kept. When three
+ *     layers are forced, the fit that reaches the second refractor is preferred wherever
+ *     a side has picks enough for it.
+ * options.branchOverrides replace the automatic split exactly (overridden: true).
+ */
+import { median } from 'simple-statistics';
+import type { BranchOverride, Survey } from '../survey.js';
+import type { BranchLine, ShotAnalysis, SideBranches } from '../interpretation.js';
+import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
+import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
+import { branchLineFromSegment, crossoverDistanceM } from './branch-line.js';
+import { shotElevationM, shotPosition } from './shot-geometry.js';
+
+/**
+ * A single-line side (or the first segment of a side) is refracted when its apparent
+ * velocity exceeds this multiple of V1. Our choice: layer contrasts worth mapping are
+ * well above 1.5, while V1 scatters by far less than that between shots.
+ */
+export const DIRECT_VELOCITY_FACTOR = 1.5;
+/**
+ * With no V1 anywhere on the line, a single-line side is refracted when its intercept
+ * time exceeds this many ms plus three times its RMS misfit (a direct wave starts near 0;
+ * trigger delays and shot depth rarely exceed a couple of ms). Our choice.
+ */
+export const DIRECT_INTERCEPT_LIMIT_MS = 3;
+
+/**
+ * Without a forced layer count, a fit that shows a second refractor is kept only when its
+ * BIC is lower than the best fit without one by at least this much: "very strong"
+ * evidence on the scale of Kass & Raftery (JASA 90, 1995). Plain BIC let noise of 0.2 ms
+ * invent a third layer on a few sides in a hundred.
+ */
+export const THIRD_LAYER_BIC_MARGIN = 10;
+
+type BranchIndex = 0 | 1 | 2;
+
+interface SideChoice {
+  /** Branch of each side pick, in the order of the picks. */
+  branchOfSidePick: BranchIndex[];
+  direct: BranchLine | null;
+  refracted: BranchLine[];
+  overridden: boolean;
+}
+
+interface Candidate {
+  fit: SegmentedFit;
+  /** Branch index of the first segment (0 direct, 1 refracted). */
+  firstBranch: 0 | 1;
+}
+
+export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotAnalysis[] {
+  const forcedLayers = opts?.layers ?? survey.options?.layers;
+  const maxSegments: 2 | 3 = forcedLayers === 2 ? 2 : 3;
+  const overrides = survey.options?.branchOverrides ?? [];
+
+  // Pass 1: fit every side that is not overridden.
+  const sides = survey.shots.map((_, s) =>
+    (['left', 'right'] as const).map((side) => {
+      const picks = sidePicks(survey, s, side);
+      const override = findOverride(overrides, survey.shots[s].id, side);
+      const fits: SegmentedFit[] = [];
+      if (!override) {
+        const points = picks.map((p) => ({ offsetM: p.offsetM, timeMs: p.timeMs }));
+        for (let m = 1; m <= maxSegments; m++) {
+          const f = robustSegmentedFit(points, m as 1 | 2 | 3);
+          if (f) fits.push(f);
+        }
+      }
+      return { side, picks, override, fits };
+    }),
+  );
+
+  const v1Provisional = provisionalV1(sides.flat());
+
+  return survey.shots.map((shot, s) => {
+    const branchOfPick: (BranchIndex | null)[] = survey.geophones.map(() => null);
+    survey.geophones.forEach((g, i) => {
+      const t = shot.times[i];
+      if (t !== null && t !== undefined && Math.abs(g.x - shot.x) <= AT_SHOT_TOLERANCE_M) branchOfPick[i] = 0;
+    });
+    const [left, right] = sides[s].map((work) => {
+      if (work.picks.length === 0) return null;
+      const choice = work.override
+        ? overriddenSide(work.picks, work.override)
+        : chooseSide(work.picks, work.fits, v1Provisional, forcedLayers);
+      choice.branchOfSidePick.forEach((b, k) => (branchOfPick[work.picks[k].geophone] = b));
+      const result: SideBranches = {
+        side: work.side,
+        direct: choice.direct,
+        refracted: choice.refracted,
+        crossoverDistance: crossoverDistanceM(choice.direct, choice.refracted[0]),
+        overridden: choice.overridden,
+      };
+      return result;
+    });
+    return {
+      id: shot.id,
+      x: shot.x,
+      elevation: shotElevationM(shot, survey.geophones),
+      position: shotPosition(shot.x, survey.geophones),
+      left,
+      right,
+      branchOfPick,
+    };
+  });
+}
+
+function findOverride(overrides: BranchOverride[], shotId: string, side: Side): BranchOverride | undefined {
+  // The last override for a side wins, as a later edit would.
+  return overrides.filter((o) => o.shot === shotId && o.side === side).pop();
+}
+
+function segmentVelocity(seg: SegmentLine): number {
+  return 1000 / seg.slownessMsPerM;
+}
+
+function bestByBic(fits: SegmentedFit[]): SegmentedFit | undefined {
+  return fits.reduce<SegmentedFit | undefined>((best, f) => (!best || f.bic < best.bic ? f : best), undefined);
+}
+
+/**
+ * Provisional V1, m/s: median first-segment velocity of sides whose best fit has at least
+ * two segments and whose first segment starts well below the second (|a0| < a1/2), so that
+ * an off-end side showing two refracted branches does not count. Overridden sides add
+ * their direct line.
+ */
+function provisionalV1(sides: { picks: SidePick[]; override?: BranchOverride; fits: SegmentedFit[] }[]): number | null {
+  const velocities: number[] = [];
+  for (const work of sides) {
+    if (work.override) {
+      const k = Math.min(Math.max(0, Math.floor(work.override.directPicks)), work.picks.length);
+      const line = lineOf(work.picks.slice(0, k));
+      if (line) velocities.push(line.velocity);
+      continue;
+    }
+    const best = bestByBic(work.fits);
+    if (!best || best.segments.length < 2) continue;
+    const [a, b] = best.segments;
+    if (Math.abs(a.interceptMs) < b.interceptMs / 2) velocities.push(segmentVelocity(a));
+  }
+  return velocities.length ? median(velocities) : null;
+}
+
+function firstSegmentIsDirect(fit: SegmentedFit, v1: number | null): boolean {
+  const first = fit.segments[0];
+  if (v1 !== null) return segmentVelocity(first) <= DIRECT_VELOCITY_FACTOR * v1;
+  if (fit.segments.length >= 2) return true;
+  return first.interceptMs <= DIRECT_INTERCEPT_LIMIT_MS + 3 * first.rmsMs;
+}
+
+function reachesSecondRefractor(c: Candidate): boolean {
+  return c.firstBranch + c.fit.segments.length >= 3;
+}
+
+/**
+ * Every segment taken as refracted must itself be faster than DIRECT_VELOCITY_FACTOR·V1:
+ * a "refracted" branch as slow as the direct wave is noise splitting the direct branch.
+ */
+function refractedAreFast(c: Candidate, v1: number | null): boolean {
+  if (v1 === null) return true;
+  return c.fit.segments.every((seg, j) => c.firstBranch + j === 0 || segmentVelocity(seg) > DIRECT_VELOCITY_FACTOR * v1);
+}
+
+function chooseSide(picks: SidePick[], fits: SegmentedFit[], v1: number | null, forcedLayers: 2 | 3 | undefined): SideChoice {
+  const maxLayers = forcedLayers ?? 3;
+  const candidates: Candidate[] = fits
+    .map((fit) => ({ fit, firstBranch: (firstSegmentIsDirect(fit, v1) ? 0 : 1) as 0 | 1 }))
+    .filter((c) => c.firstBranch + c.fit.segments.length <= maxLayers && refractedAreFast(c, v1));
+  let pool = candidates;
+  if (forcedLayers === 3) {
+    const reaching = candidates.filter((c) => c.firstBranch + c.fit.segments.length === 3);
+    if (reaching.length) pool = reaching;
+  }
+  const lowest = (cs: Candidate[]): Candidate | undefined =>
+    cs.reduce<Candidate | undefined>((best, c) => (!best || c.fit.bic < best.fit.bic ? c : best), undefined);
+  let chosen = lowest(pool);
+  if (forcedLayers === undefined && chosen && reachesSecondRefractor(chosen)) {
+    // Found, not forced: a second refractor must win by "very strong" evidence.
+    const without = lowest(pool.filter((c) => !reachesSecondRefractor(c)));
+    if (without && without.fit.bic - chosen.fit.bic < THIRD_LAYER_BIC_MARGIN) chosen = without;
+  }
+  if (!chosen) return unfittedSide(picks, v1);
+
+  const branchOfSidePick: BranchIndex[] = picks.map(() => 0);
+  const lines = chosen.fit.segments.map((seg, j) => {
+    for (let i = seg.start; i < seg.end; i++) branchOfSidePick[i] = (chosen.firstBranch + j) as BranchIndex;
+    return branchLineFromSegment(seg, picks);
+  });
+  return {
+    branchOfSidePick,
+    direct: chosen.firstBranch === 0 ? lines[0] : null,
+    refracted: chosen.firstBranch === 0 ? lines.slice(1) : lines,
+    overridden: false,
+  };
+}
+
+/**
+ * A side too short (or too irregular) for any line: each pick is direct unless its
+ * average velocity offset/time exceeds DIRECT_VELOCITY_FACTOR·V1. No lines are drawn.
+ */
+function unfittedSide(picks: SidePick[], v1: number | null): SideChoice {
+  const branchOfSidePick = picks.map((p): BranchIndex => {
+    if (v1 === null || !(p.timeMs > 0)) return 0;
+    return (1000 * p.offsetM) / p.timeMs > DIRECT_VELOCITY_FACTOR * v1 ? 1 : 0;
+  });
+  return { branchOfSidePick, direct: null, refracted: [], overridden: false };
+}
+
+/** Line through a group of picks (robust single-segment fit); null below 2 picks or for a non-positive slope. */
+function lineOf(group: SidePick[]): BranchLine | null {
+  if (group.length < 2) return null;
+  const robust = robustSegmentedFit(group.map((p) => ({ offsetM: p.offsetM, timeMs: p.timeMs })), 1);
+  return robust ? branchLineFromSegment(robust.segments[0], group) : null;
+}
+
+/**
+ * The user's split, taken exactly: the first `directPicks` picks outward from the shot are
+ * direct, the picks up to `firstRefractorPicks` (counted outward from the shot, so it
+ * includes the direct ones; absent = all the rest) are on the first refractor, the rest
+ * on the second. Counts are clamped to the picks present.
+ */
+function overriddenSide(picks: SidePick[], o: BranchOverride): SideChoice {
+  const n = picks.length;
+  const k = Math.min(Math.max(0, Math.floor(o.directPicks)), n);
+  const f = o.firstRefractorPicks === undefined ? n : Math.min(Math.max(k, Math.floor(o.firstRefractorPicks)), n);
+  const branchOfSidePick = picks.map((_, i): BranchIndex => (i < k ? 0 : i < f ? 1 : 2));
+  const refracted: BranchLine[] = [];
+  const first = lineOf(picks.slice(k, f));
+  if (first) {
+    refracted.push(first);
+    const second = lineOf(picks.slice(f));
+    if (second) refracted.push(second);
+  }
+  return { branchOfSidePick, direct: lineOf(picks.slice(0, k)), refracted, overridden: true };
+}

@@ -1,0 +1,98 @@
+/**
+ * Reciprocal-time check. By reciprocity the time from a shot at A to a geophone at B equals
+ * the time from a shot at B to a geophone at A (Kearey, Brooks & Hill 2002, ch. 5; the
+ * plus-minus method of Hagedoorn, Geophysical Prospecting 7, 1959, rests on it). Opposing
+ * shots that disagree point to a bad pick, a trigger error or a mislabelled shot.
+ *
+ * Pairs checked: every A left of B where A has picks on its right side and B on its left
+ * side (each shoots toward the other). Each time is read from A's (B's) pick at a geophone
+ * within a quarter of the geophone spacing of the other shot ('geophone'); failing that it
+ * is extrapolated along the shot's refracted branch line(s) toward the other shot, taking
+ * the earliest line at that offset ('extrapolated'). Offsets are horizontal distances.
+ */
+import type { Survey } from './survey.js';
+import type { ReciprocalCheck, ShotAnalysis, Warning } from './interpretation.js';
+import { geophoneSpacingM } from './branches/shot-geometry.js';
+import { timeOnBranchMs } from './branches/branch-line.js';
+
+/** Default tolerance between reciprocal times, ms — common practice ("a few ms"). */
+export const DEFAULT_RECIPROCAL_TOLERANCE_MS = 3;
+
+/** A geophone counts as "at" a shot when within this fraction of the spacing. */
+const AT_SHOT_FRACTION_OF_SPACING = 0.25;
+
+type Reading = { timeMs: number; source: 'geophone' | 'extrapolated' };
+
+/** Time that shot `from` records at position `atX`, or null when it cannot be read. */
+function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | null {
+  const shot = survey.shots.find((s) => s.id === from.id);
+  if (!shot) return null;
+  const limit = AT_SHOT_FRACTION_OF_SPACING * geophoneSpacingM(survey.geophones);
+  let nearest = -1;
+  survey.geophones.forEach((g, i) => {
+    if (nearest < 0 || Math.abs(g.x - atX) < Math.abs(survey.geophones[nearest].x - atX)) nearest = i;
+  });
+  if (nearest >= 0 && Math.abs(survey.geophones[nearest].x - atX) <= limit) {
+    const t = shot.times[nearest];
+    if (t !== null && t !== undefined && Number.isFinite(t)) return { timeMs: t, source: 'geophone' };
+  }
+  const side = atX > from.x ? from.right : from.left;
+  const lines = side?.refracted ?? [];
+  if (lines.length === 0) return null;
+  const offsetM = Math.abs(atX - from.x);
+  const timeMs = Math.min(...lines.map((l) => timeOnBranchMs(l, offsetM)));
+  return Number.isFinite(timeMs) ? { timeMs, source: 'extrapolated' } : null;
+}
+
+const ms = (v: number): string => v.toFixed(1);
+
+export function reciprocalChecks(
+  survey: Survey,
+  shots: ShotAnalysis[],
+  toleranceMs: number,
+): { checks: ReciprocalCheck[]; warnings: Warning[] } {
+  const tolerance = Number.isFinite(toleranceMs) && toleranceMs >= 0 ? toleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
+  const byX = [...shots].sort((a, b) => a.x - b.x);
+  const checks: ReciprocalCheck[] = [];
+  const warnings: Warning[] = [];
+  for (let i = 0; i < byX.length; i++) {
+    const a = byX[i];
+    if (!a.right) continue;
+    for (let j = i + 1; j < byX.length; j++) {
+      const b = byX[j];
+      if (!b.left || !(a.x < b.x)) continue;
+      const forward = readTimeAt(survey, a, b.x);
+      const reverse = readTimeAt(survey, b, a.x);
+      if (!forward || !reverse) {
+        const missing = !forward ? `${a.id} at ${b.id}'s position` : `${b.id} at ${a.id}'s position`;
+        warnings.push({
+          code: 'reciprocal-unavailable',
+          message: `Reciprocal time of shots ${a.id} and ${b.id} not checked: no pick and no refracted branch gives the time of ${missing}.`,
+        });
+        continue;
+      }
+      const differenceMs = Math.abs(forward.timeMs - reverse.timeMs);
+      const ok = differenceMs <= tolerance;
+      checks.push({
+        shots: [a.id, b.id],
+        forwardMs: forward.timeMs,
+        reverseMs: reverse.timeMs,
+        differenceMs,
+        ok,
+        forwardSource: forward.source,
+        reverseSource: reverse.source,
+        toleranceMs: tolerance,
+      });
+      if (!ok) {
+        warnings.push({
+          code: 'reciprocal-misfit',
+          message:
+            `Reciprocal times of shots ${a.id} and ${b.id} differ by ${ms(differenceMs)} ms ` +
+            `(${a.id}→${b.id} ${ms(forward.timeMs)} ms, ${b.id}→${a.id} ${ms(reverse.timeMs)} ms; ` +
+            `tolerance ${ms(tolerance)} ms): check the picks near both shots and their trigger times.`,
+        });
+      }
+    }
+  }
+  return { checks, warnings };
+}

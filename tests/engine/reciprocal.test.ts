@@ -1,0 +1,122 @@
+import { describe, expect, it } from 'vitest';
+import { assignBranches } from '../../engine/branches/assign-branches.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from '../../engine/reciprocal.js';
+import { firstArrivalMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
+import type { Geophone, Survey } from '../../engine/survey.js';
+
+// Invented test line; closed-form first arrivals over a dipping planar refractor
+// (Kearey, Brooks & Hill 2002, ch. 5), which obey reciprocity exactly.
+const GEOPHONES: Geophone[] = Array.from({ length: 24 }, (_, i) => ({ x: 2 * i }));
+const MODEL: PlanarRefractorModel = { v1: 600, v2: 2400, refractorElevationAtZero: -5, dipDegrees: 3 };
+
+function survey(shots: [string, number][]): Survey {
+  return {
+    geophones: GEOPHONES,
+    shots: shots.map(([id, x]) => ({
+      id,
+      x,
+      times: GEOPHONES.map((g) => firstArrivalMs(MODEL, { x, elevation: 0 }, { x: g.x, elevation: 0 })),
+    })),
+  };
+}
+
+describe('reciprocalChecks', () => {
+  it('finds no misfit between end shots on geophones (difference ≈ 0)', () => {
+    const s = survey([
+      ['W-end', 0],
+      ['E-end', 46],
+    ]);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 3);
+    expect(checks).toHaveLength(1);
+    const c = checks[0];
+    expect(c.shots).toEqual(['W-end', 'E-end']);
+    expect(c.forwardSource).toBe('geophone');
+    expect(c.reverseSource).toBe('geophone');
+    expect(c.forwardMs).toBe(s.shots[0].times[23]);
+    expect(c.reverseMs).toBe(s.shots[1].times[0]);
+    expect(c.differenceMs).toBeLessThan(1e-9);
+    expect(c.ok).toBe(true);
+    expect(c.toleranceMs).toBe(3);
+    expect(warnings).toEqual([]);
+  });
+
+  it('extrapolates along the refracted branch for off-end shots, still agreeing to 1e-6 ms', () => {
+    const s = survey([
+      ['W-off', -20],
+      ['W-end', -1],
+      ['E-end', 47],
+      ['E-off', 66],
+    ]);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), DEFAULT_RECIPROCAL_TOLERANCE_MS);
+    const pair = checks.find((c) => c.shots.join() === 'W-off,E-off')!;
+    expect(pair.forwardSource).toBe('extrapolated');
+    expect(pair.reverseSource).toBe('extrapolated');
+    const truth = firstArrivalMs(MODEL, { x: -20, elevation: 0 }, { x: 66, elevation: 0 });
+    expect(pair.forwardMs).toBeCloseTo(truth, 6);
+    for (const c of checks) expect(c.differenceMs).toBeLessThan(1e-6);
+    // W-end and E-end lie 1 m off the end geophones (more than a quarter spacing): extrapolated.
+    const ends = checks.find((c) => c.shots.join() === 'W-end,E-end')!;
+    expect(ends.forwardSource).toBe('extrapolated');
+    expect(warnings).toEqual([]);
+    // W-off and W-end do not face each other's side of picks in the right order: W-end has no left side.
+    expect(checks.some((c) => c.shots.join() === 'W-off,W-end')).toBe(false);
+  });
+
+  it('flags a 5 ms bad pick at the far end with a reciprocal-misfit warning naming the pair', () => {
+    const s = survey([
+      ['W-end', 0],
+      ['E-end', 46],
+    ]);
+    s.shots[0].times[23] = s.shots[0].times[23]! + 5;
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), DEFAULT_RECIPROCAL_TOLERANCE_MS);
+    expect(checks[0].differenceMs).toBeCloseTo(5, 9);
+    expect(checks[0].ok).toBe(false);
+    expect(warnings).toHaveLength(1);
+    expect(warnings[0].code).toBe('reciprocal-misfit');
+    expect(warnings[0].message).toContain('W-end');
+    expect(warnings[0].message).toContain('E-end');
+    expect(warnings[0].message).toContain('5.0 ms');
+  });
+
+  it('accepts the same 5 ms misfit under a 6 ms tolerance', () => {
+    const s = survey([
+      ['W-end', 0],
+      ['E-end', 46],
+    ]);
+    s.shots[0].times[23] = s.shots[0].times[23]! + 5;
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 6);
+    expect(checks[0].ok).toBe(true);
+    expect(warnings).toEqual([]);
+  });
+
+  it('uses 3 ms (common practice) as the default tolerance', () => {
+    expect(DEFAULT_RECIPROCAL_TOLERANCE_MS).toBe(3);
+  });
+
+  it('falls back to the refracted branch when the pick at the other shot is missing', () => {
+    const s = survey([
+      ['W-end', 0],
+      ['E-end', 46],
+    ]);
+    s.shots[0].times[23] = null;
+    const { checks } = reciprocalChecks(s, assignBranches(s), 3);
+    expect(checks[0].forwardSource).toBe('extrapolated');
+    expect(checks[0].differenceMs).toBeLessThan(1e-6);
+  });
+
+  it('skips a pair with a warning when neither a pick nor a refracted branch gives the time', () => {
+    // Two shots 4 m apart, each midway between geophones (1 m from the nearest, more than a
+    // quarter spacing), with direct picks only: no geophone pick and no refracted line.
+    const s = survey([
+      ['a', 1],
+      ['b', 5],
+    ]);
+    for (const shot of s.shots) shot.times = shot.times.map((t, i) => (i <= 3 ? t : null));
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 3);
+    expect(checks).toEqual([]);
+    expect(warnings).toHaveLength(1);
+    expect(warnings[0].code).toBe('reciprocal-unavailable');
+    expect(warnings[0].message).toContain('a');
+    expect(warnings[0].message).toContain('b');
+  });
+});
