@@ -1,0 +1,185 @@
+/**
+ * Hidden layers and velocity inversions: what first arrivals cannot show.
+ *
+ * Hidden layer (Soske, Geophysics 24, 1959; also ASTM D5777 and USACE EM 1110-1-1802 as
+ * general references): an intermediate layer (velocity V2, thickness h2) between a top
+ * layer (V1, h1) and a faster refractor (V3) gives first arrivals only over the offsets
+ * where its head wave beats both the direct wave and the deeper head wave, i.e. between
+ * the crossover distances
+ *   x12 = t_i2 / (1/V1 − 1/V2)              (direct wave → layer-2 head wave)
+ *   x23 = (t_i3 − t_i2) / (1/V2 − 1/V3)     (layer-2 → layer-3 head wave)
+ * with intercept times t_i2 = 2·h1·cos θ12/V1 and t_i3 = 2·h1·cos θ13/V1 + 2·h2·cos θ23/V2,
+ * sin θ_ij = V_i/V_j (Kearey, Brooks & Hill 2002 ch. 5). Without a spread, the layer is
+ * hidden when x23 ≤ x12. On a spread it is hidden when fewer than `minFirstArrivalPicks`
+ * geophone offsets (default 3, common practice: fewer picks do not make a branch) fall
+ * in (x12, x23). x23 grows linearly with h2, so the largest hidden thickness solves
+ * x23 = X, X = x12 or the minFirstArrivalPicks-th offset beyond x12:
+ *   h2_max = V2·[X·(1/V2 − 1/V3) − 2·h1·(cos θ13 − cos θ12)/V1] / (2·cos θ23).
+ * Velocity inversion: a layer slower than the one above never gives a head wave, so
+ * first arrivals cannot see it at all (same references); a decreasing sequence of
+ * interpreted velocities is itself a sign of a wrong branch assignment.
+ * Units: m, m/s (times internally in s).
+ */
+import type { Warning } from '../interpretation.js';
+import { StructureInputError } from './structure-input.js';
+
+export interface HiddenLayerInput {
+  /** Top-layer velocity and thickness. */
+  v1MPerS: number;
+  topThicknessM: number;
+  /** Velocity of the possible intermediate layer (V1 < V2 < V3). */
+  hiddenVelocityMPerS: number;
+  /** Velocity of the refractor below it. */
+  refractorVelocityMPerS: number;
+  /** Source–geophone offsets of the spread, m; absent: the pure crossover condition x23 ≤ x12. */
+  offsetsM?: number[];
+  minFirstArrivalPicks?: number;
+}
+
+export interface HiddenLayerBound {
+  /** Largest hidden thickness, m; null when no thickness would show on this spread. */
+  maxThicknessM: number | null;
+  /** Crossover from the direct wave to the intermediate layer, m. */
+  crossoverDirectM: number;
+  /** The offset that x23 must not pass for the layer to stay hidden, m (null: none on the spread). */
+  limitOffsetM: number | null;
+}
+
+function positive(value: number, field: string): void {
+  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new StructureInputError(field, `must be a positive finite number, got ${String(value)}`);
+}
+
+function cosCritical(vUpper: number, vLower: number): number {
+  const s = vUpper / vLower;
+  return Math.sqrt(1 - s * s);
+}
+
+function checkOrder(v1: number, v2: number, v3: number): void {
+  if (!(v1 < v2 && v2 < v3)) {
+    throw new StructureInputError('hiddenVelocityMPerS', `must lie between the top-layer velocity ${v1} m/s and the refractor velocity ${v3} m/s, got ${v2} m/s`);
+  }
+}
+
+/** The limit offset X for given crossover x12: x12 itself, or the k-th offset beyond it. */
+function limitOffset(x12: number, offsetsM: readonly number[] | undefined, minPicks: number): number | null {
+  if (!offsetsM) return x12;
+  const beyond = offsetsM.map(Math.abs).filter((o) => o > x12).sort((a, b) => a - b);
+  return beyond.length >= minPicks ? beyond[minPicks - 1] : null;
+}
+
+/** Largest thickness of a layer of velocity V2 under a top layer (V1, h1) that first arrivals would not show. */
+export function maxHiddenLayerThickness(input: HiddenLayerInput): HiddenLayerBound {
+  const { v1MPerS: v1, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, topThicknessM: h1 } = input;
+  positive(v1, 'v1MPerS');
+  positive(v2, 'hiddenVelocityMPerS');
+  positive(v3, 'refractorVelocityMPerS');
+  if (!(h1 >= 0) || !Number.isFinite(h1)) throw new StructureInputError('topThicknessM', `must be a finite thickness ≥ 0 m, got ${String(h1)}`);
+  checkOrder(v1, v2, v3);
+  const minPicks = input.minFirstArrivalPicks ?? 3;
+  if (!Number.isInteger(minPicks) || minPicks < 1) throw new StructureInputError('minFirstArrivalPicks', `must be an integer ≥ 1, got ${String(minPicks)}`);
+  if (input.offsetsM !== undefined) {
+    if (!Array.isArray(input.offsetsM)) throw new StructureInputError('offsetsM', 'must be an array of offsets in m');
+    input.offsetsM.forEach((o, i) => {
+      if (typeof o !== 'number' || !Number.isFinite(o)) throw new StructureInputError(`offsetsM[${i}]`, `must be a finite offset in m, got ${String(o)}`);
+    });
+  }
+  const c12 = cosCritical(v1, v2);
+  const c13 = cosCritical(v1, v3);
+  const c23 = cosCritical(v2, v3);
+  const ti2 = (2 * h1 * c12) / v1;
+  const x12 = ti2 / (1 / v1 - 1 / v2);
+  const limit = limitOffset(x12, input.offsetsM, minPicks);
+  if (limit === null) return { maxThicknessM: null, crossoverDirectM: x12, limitOffsetM: null };
+  const h2 = (v2 * (limit * (1 / v2 - 1 / v3) - (2 * h1 * (c13 - c12)) / v1)) / (2 * c23);
+  return { maxThicknessM: Math.max(0, h2), crossoverDirectM: x12, limitOffsetM: limit };
+}
+
+/** Whether a given intermediate layer would stay hidden on the spread. */
+export function isLayerHidden(input: HiddenLayerInput & { hiddenThicknessM: number }): boolean {
+  if (!(input.hiddenThicknessM >= 0)) throw new StructureInputError('hiddenThicknessM', `must be a thickness ≥ 0 m, got ${String(input.hiddenThicknessM)}`);
+  const bound = maxHiddenLayerThickness(input);
+  return bound.maxThicknessM === null || input.hiddenThicknessM <= bound.maxThicknessM;
+}
+
+/** One warning per place where a deeper velocity is not above the one over it. */
+export function velocityInversion(velocitiesMPerS: number[]): Warning[] {
+  if (!Array.isArray(velocitiesMPerS)) throw new StructureInputError('velocitiesMPerS', 'must be an array of layer velocities in m/s, top first');
+  velocitiesMPerS.forEach((v, i) => positive(v, `velocitiesMPerS[${i}]`));
+  const warnings: Warning[] = [];
+  for (let i = 1; i < velocitiesMPerS.length; i++) {
+    if (!(velocitiesMPerS[i] > velocitiesMPerS[i - 1])) {
+      warnings.push({
+        code: 'velocity-inversion',
+        message: `Layer ${i + 1} (${Math.round(velocitiesMPerS[i])} m/s) is not faster than layer ${i} above it (${Math.round(velocitiesMPerS[i - 1])} m/s). A slower layer gives no head wave, so refraction first arrivals cannot see it and depths below it are not reliable; check the branch assignment.`,
+      });
+    }
+  }
+  return warnings;
+}
+
+export interface HiddenLayerWarningInput {
+  /** Interpreted top-layer and refractor velocities, m/s. */
+  v1MPerS: number;
+  refractorVelocityMPerS: number;
+  /** Interpreted (two-layer) depth to the refractor, m. */
+  depthM: number;
+  offsetsM: number[];
+  /** Velocity assumed for the possible hidden layer; default √(V1·V3), our choice of a representative value. */
+  hiddenVelocityMPerS?: number;
+  minFirstArrivalPicks?: number;
+  /** Where the warning applies, m. */
+  x?: number;
+}
+
+/**
+ * Warning about a layer that the interpreted two-layer section could be hiding. The
+ * observed delay time t = z·cos θ13/V1 is kept fixed, so a hidden layer of thickness h2
+ * leaves h1 = (t − h2·cos θ23/V2)·V1/cos θ13 for the top layer; the largest h2 that stays
+ * hidden is found by bisection, and the refractor would then lie h1 + h2 − z deeper than
+ * shown. Returns null when no such layer could hide on this spread.
+ */
+export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | null {
+  const v1 = input.v1MPerS;
+  const v3 = input.refractorVelocityMPerS;
+  positive(v1, 'v1MPerS');
+  positive(v3, 'refractorVelocityMPerS');
+  if (!(v3 > v1)) throw new StructureInputError('refractorVelocityMPerS', `must exceed the top-layer velocity ${v1} m/s, got ${v3} m/s`);
+  positive(input.depthM, 'depthM');
+  const v2 = input.hiddenVelocityMPerS ?? Math.sqrt(v1 * v3);
+  checkOrder(v1, v2, v3);
+  const delayS = (input.depthM * cosCritical(v1, v3)) / v1;
+  const c13 = cosCritical(v1, v3);
+  const c23 = cosCritical(v2, v3);
+  const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
+  const h2AtZeroTop = (delayS * v2) / c23;
+  const hidden = (h2: number): boolean =>
+    isLayerHidden({ v1MPerS: v1, topThicknessM: Math.max(0, h1Of(h2)), hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM: input.offsetsM, minFirstArrivalPicks: input.minFirstArrivalPicks, hiddenThicknessM: h2 });
+  // Scan upward for the first visible thickness, then bisect the boundary.
+  const n = 200;
+  let lo = 0;
+  let hi: number | null = null;
+  for (let k = 1; k <= n; k++) {
+    const h2 = (h2AtZeroTop * k) / n;
+    if (hidden(h2)) lo = h2;
+    else {
+      hi = h2;
+      break;
+    }
+  }
+  if (hi !== null) {
+    let upper: number = hi;
+    for (let it = 0; it < 50; it++) {
+      const mid: number = 0.5 * (lo + upper);
+      if (hidden(mid)) lo = mid;
+      else upper = mid;
+    }
+  }
+  if (lo <= 0) return null;
+  const extraDepth = Math.max(0, h1Of(lo)) + lo - input.depthM;
+  const r = (v: number): string => (Math.abs(v) >= 10 ? v.toFixed(0) : v.toFixed(1));
+  return {
+    code: 'hidden-layer',
+    message: `A layer of up to ${r(lo)} m with a velocity between ${Math.round(v1)} and ${Math.round(v3)} m/s (checked at ${Math.round(v2)} m/s) could be hidden above the refractor on this spread; the refractor would then be up to ${r(extraDepth)} m deeper than shown.`,
+    ...(input.x !== undefined ? { x: input.x } : {}),
+  };
+}
