@@ -9,6 +9,10 @@ import { cpus, loadavg } from 'node:os';
 import { solveFirstArrivals } from '../engine/forward/eikonal.js';
 import { buildVelocityGrid, type LayeredModel } from '../engine/forward/model.js';
 import { syntheticSurvey } from '../engine/forward/synthetic.js';
+import { interpret } from '../engine/interpret.js';
+import { withResiduals } from '../engine/residuals.js';
+import { demoLine } from '../engine/samples/demo-lines.js';
+import type { Survey } from '../engine/survey.js';
 
 const model: LayeredModel = {
   surface: [
@@ -106,8 +110,39 @@ function main(): void {
     `Line of 48 geophones and 7 shots (grid build + 7 solves + sampling): wall median ${line.toFixed(1)} ms (best ${Math.min(...lineMs).toFixed(1)}), ` +
       `CPU ${lineCpu.toFixed(1)} ms; ${(line / 7).toFixed(1)} ms per shot (wall median)`,
   );
+  residualsCost('Demo A (24 geophones, 5 shots)', demoLine());
+  residualsCost('48 geophones, 7 shots (the line above)', syntheticSurvey(model, layout, { noiseMs: 0.2, seed: 1 }));
   console.log(`Machine load average (1 min): ${loadavg()[0].toFixed(1)} on ${cpus().length} cores; wall times stretch when other jobs run.`);
   console.log('Target: under 50 ms per shot.');
+}
+
+/**
+ * Cost of the residuals check (engine/residuals.ts) against the cost of interpret without
+ * it, measured in the same run: median over repeats of interpret({residuals: false}) and of
+ * withResiduals on that interpretation.
+ */
+function residualsCost(label: string, survey: Survey): void {
+  const plainSurvey: Survey = { ...survey, options: { ...survey.options, residuals: false } };
+  const base = interpret(plainSurvey);
+  withResiduals(survey, base); // warm-up
+  const interpretMs: number[] = [];
+  const residualMs: number[] = [];
+  let info = '';
+  for (let r = 0; r < 7; r++) {
+    const t0 = performance.now();
+    const plain = interpret(plainSurvey);
+    const t1 = performance.now();
+    const checked = withResiduals(survey, plain);
+    interpretMs.push(t1 - t0);
+    residualMs.push(performance.now() - t1);
+    const res = checked.qc.residuals as { rmsMs: number; cellM?: number } | undefined;
+    info = res ? `cell ${res.cellM} m, RMS ${res.rmsMs} ms` : 'not computed';
+  }
+  const i = median(interpretMs);
+  const m = median(residualMs);
+  console.log(
+    `Residuals, ${label}: interpret without residuals ${i.toFixed(1)} ms, residuals ${m.toFixed(1)} ms (wall medians) = ${(m / i).toFixed(1)} × interpret; ${info}`,
+  );
 }
 
 main();

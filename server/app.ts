@@ -15,6 +15,7 @@ import { healthRoutes } from './routes/health.js';
 import { interpretationRoutes } from './routes/interpretations.js';
 import { surveyRoutes } from './routes/surveys.js';
 import { shareRoutes } from './routes/share.js';
+import { syntheticRoutes } from './routes/synthetic.js';
 
 export interface AppOptions {
   /** Folder of the SQLite store, or ':memory:' (tests). */
@@ -111,6 +112,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(interpretationRoutes);
     await app.register(surveyRoutes, { store, guard });
     await app.register(shareRoutes, { store });
+    await app.register(syntheticRoutes);
 
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {
