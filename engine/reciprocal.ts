@@ -7,8 +7,14 @@
  * Pairs checked: every A left of B where A has picks on its right side and B on its left
  * side (each shoots toward the other). Each time is read from A's (B's) pick at a geophone
  * within a quarter of the geophone spacing of the other shot ('geophone'); failing that it
- * is extrapolated along the shot's refracted branch line(s) toward the other shot, taking
- * the earliest line at that offset ('extrapolated'). Offsets are horizontal distances.
+ * is extrapolated toward the other shot ('extrapolated') by a straight line fitted to the
+ * shot's refracted picks nearest that position. The window is local because a refracted
+ * branch over an uneven refractor or ground is curved: a line through the whole branch
+ * misses a reciprocal time 1 m beyond the last geophone by several ms. It widens with the
+ * distance to extrapolate (picks within 2·d + 3 spacings of the target, d the gap to the
+ * nearest pick; at least 4 picks) so that a long extrapolation rests on a long baseline.
+ * With fewer than 3 refracted picks the fitted branch line(s) are used. Offsets are
+ * horizontal distances.
  */
 import type { Survey } from './survey.js';
 import type { ReciprocalCheck, ShotAnalysis, Warning } from './interpretation.js';
@@ -36,12 +42,50 @@ function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | 
     const t = shot.times[nearest];
     if (t !== null && t !== undefined && Number.isFinite(t)) return { timeMs: t, source: 'geophone' };
   }
+  const local = localExtrapolationMs(survey, shot.times, from, atX);
+  if (local !== null) return { timeMs: local, source: 'extrapolated' };
   const side = atX > from.x ? from.right : from.left;
   const lines = side?.refracted ?? [];
   if (lines.length === 0) return null;
   const offsetM = Math.abs(atX - from.x);
   const timeMs = Math.min(...lines.map((l) => timeOnBranchMs(l, offsetM)));
   return Number.isFinite(timeMs) ? { timeMs, source: 'extrapolated' } : null;
+}
+
+/** Least picks for a local fit, and the window's extra width in geophone spacings. */
+const LOCAL_MIN_PICKS = 4;
+const LOCAL_WINDOW_SPACINGS = 3;
+
+/**
+ * Time at `atX` from a least-squares line through the refracted picks of `from` nearest
+ * to `atX` on the side facing it; null with fewer than 3 such picks.
+ */
+function localExtrapolationMs(survey: Survey, times: (number | null)[], from: ShotAnalysis, atX: number): number | null {
+  const facingRight = atX > from.x;
+  const picks: { x: number; t: number }[] = [];
+  survey.geophones.forEach((g, i) => {
+    const t = times[i];
+    const branch = from.branchOfPick[i];
+    if (t === null || t === undefined || branch === null || branch === undefined || branch < 1) return;
+    if (facingRight ? g.x > from.x : g.x < from.x) picks.push({ x: g.x, t });
+  });
+  if (picks.length < 3) return null;
+  picks.sort((p, q) => Math.abs(p.x - atX) - Math.abs(q.x - atX));
+  const gapM = Math.abs(picks[0].x - atX);
+  const reachM = 2 * gapM + LOCAL_WINDOW_SPACINGS * geophoneSpacingM(survey.geophones);
+  const window = picks.filter((p, k) => k < LOCAL_MIN_PICKS || Math.abs(p.x - atX) <= reachM);
+  const n = window.length;
+  const meanX = window.reduce((a, p) => a + p.x, 0) / n;
+  const meanT = window.reduce((a, p) => a + p.t, 0) / n;
+  let sxx = 0;
+  let sxt = 0;
+  for (const p of window) {
+    sxx += (p.x - meanX) ** 2;
+    sxt += (p.x - meanX) * (p.t - meanT);
+  }
+  if (!(sxx > 0)) return null;
+  const timeMs = meanT + (sxt / sxx) * (atX - meanX);
+  return Number.isFinite(timeMs) ? timeMs : null;
 }
 
 const ms = (v: number): string => v.toFixed(1);
