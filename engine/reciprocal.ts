@@ -8,7 +8,7 @@
  * side (each shoots toward the other). Each time is read from A's (B's) pick at a geophone
  * within a quarter of the geophone spacing of the other shot ('geophone'); failing that it
  * is extrapolated toward the other shot ('extrapolated') by a straight line fitted to the
- * shot's refracted picks nearest that position. The window is local because a refracted
+ * shot's refracted picks nearest that position, all of the branch of the nearest one. The window is local because a refracted
  * branch over an uneven refractor or ground is curved: a line through the whole branch
  * misses a reciprocal time 1 m beyond the last geophone by several ms. It widens with the
  * distance to extrapolate (picks within 2·d + 3 spacings of the target, d the gap to the
@@ -62,18 +62,21 @@ const LOCAL_WINDOW_SPACINGS = 3;
  */
 function localExtrapolationMs(survey: Survey, times: (number | null)[], from: ShotAnalysis, atX: number): number | null {
   const facingRight = atX > from.x;
-  const picks: { x: number; t: number }[] = [];
+  const picks: { x: number; t: number; branch: number }[] = [];
   survey.geophones.forEach((g, i) => {
     const t = times[i];
     const branch = from.branchOfPick[i];
     if (t === null || t === undefined || branch === null || branch === undefined || branch < 1) return;
-    if (facingRight ? g.x > from.x : g.x < from.x) picks.push({ x: g.x, t });
+    if (facingRight ? g.x > from.x : g.x < from.x) picks.push({ x: g.x, t, branch });
   });
-  if (picks.length < 3) return null;
   picks.sort((p, q) => Math.abs(p.x - atX) - Math.abs(q.x - atX));
-  const gapM = Math.abs(picks[0].x - atX);
+  // Only the branch that arrives nearest the target: on a three-layer line mixing the
+  // branches of two refractors would bend the local line.
+  const branchPicks = picks.filter((p) => p.branch === picks[0]?.branch);
+  if (branchPicks.length < 3) return null;
+  const gapM = Math.abs(branchPicks[0].x - atX);
   const reachM = 2 * gapM + LOCAL_WINDOW_SPACINGS * geophoneSpacingM(survey.geophones);
-  const window = picks.filter((p, k) => k < LOCAL_MIN_PICKS || Math.abs(p.x - atX) <= reachM);
+  const window = branchPicks.filter((p, k) => k < LOCAL_MIN_PICKS || Math.abs(p.x - atX) <= reachM);
   const n = window.length;
   const meanX = window.reduce((a, p) => a + p.x, 0) / n;
   const meanT = window.reduce((a, p) => a + p.t, 0) / n;

@@ -16,6 +16,23 @@
  *     the fit with the lowest BIC whose branches fit the layer count is kept. When three
  *     layers are forced, the fit that reaches the second refractor is preferred wherever
  *     a side has picks enough for it.
+ *     Every BIC here takes the noise σ as no smaller than the pick uncertainty
+ *     (options.pickUncertaintyMs, default 0.5 ms; segmented-fit.ts bicScore): a bend
+ *     smaller than the picks can resolve is not evidence of another branch.
+ *  3. (layer count not forced) a second refractor found on a side must also pass two
+ *     tests before it is kept, because topography and lateral velocity changes also bend
+ *     a time–distance curve:
+ *       - its apparent velocity is at least SECOND_REFRACTOR_MIN_CONTRAST × that of the
+ *         first refracted branch on the same side;
+ *       - shots shooting the same way see its break at about the same offset (a flat or
+ *         gently dipping refractor gives one crossover distance), not at the same x (a
+ *         kink fixed in x is a lateral change or topography under the line). Where the
+ *         breaks of such shots line up in x rather than in offset, the second refractor
+ *         is dropped on every side facing that way.
+ *  4. (unless two layers are forced) a far off-end side that is all refracted with one
+ *     line, on a line where other sides show both refracted branches, is split at their
+ *     median 1→2 break offset when its velocity is nearer their branch-2 velocity
+ *     (relabelFarOffEndSides).
  * options.branchOverrides replace the automatic split exactly (overridden: true).
  */
 import { median } from 'simple-statistics';
@@ -24,7 +41,7 @@ import type { BranchLine, ShotAnalysis, SideBranches } from '../interpretation.j
 import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
 import { branchLineFromSegment, crossoverDistanceM } from './branch-line.js';
-import { shotElevationM, shotPosition } from './shot-geometry.js';
+import { geophoneSpacingM, shotElevationM, shotPosition } from './shot-geometry.js';
 
 /**
  * A single-line side (or the first segment of a side) is refracted when its apparent
@@ -47,6 +64,24 @@ export const DIRECT_INTERCEPT_LIMIT_MS = 3;
  */
 export const THIRD_LAYER_BIC_MARGIN = 10;
 
+/**
+ * Unforced, a second refracted branch must be at least this much faster (apparent
+ * velocity ratio) than the first refracted branch on the same side. Common practice:
+ * contrasts under about 25 % are within the lateral velocity variation of one refractor
+ * and within the bending that topography gives the apparent velocity, and layers that
+ * close in velocity are poorly resolved by refraction anyway (the critical angle is steep).
+ */
+export const SECOND_REFRACTOR_MIN_CONTRAST = 1.25;
+
+/** Pick uncertainty when the survey gives none, ms (SurveyOptions.pickUncertaintyMs). */
+export const DEFAULT_PICK_UNCERTAINTY_MS = 0.5;
+
+/**
+ * Shots closer together than this many geophone spacings cannot tell a break fixed in
+ * offset from one fixed in x, so their pair is not used in the consistency test. Our choice.
+ */
+export const CONSISTENCY_MIN_SHOT_SEPARATION_SPACINGS = 2;
+
 type BranchIndex = 0 | 1 | 2;
 
 interface SideChoice {
@@ -55,6 +90,15 @@ interface SideChoice {
   direct: BranchLine | null;
   refracted: BranchLine[];
   overridden: boolean;
+  /** Where the second refracted branch starts. */
+  breakPoint?: Omit<BreakPoint, 'shotX'>;
+}
+
+/** Where a side's second refracted branch starts: x along the line and offset from the shot, m. */
+interface BreakPoint {
+  shotX: number;
+  breakX: number;
+  breakOffsetM: number;
 }
 
 interface Candidate {
@@ -67,6 +111,7 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
   const forcedLayers = opts?.layers ?? survey.options?.layers;
   const maxSegments: 2 | 3 = forcedLayers === 2 ? 2 : 3;
   const overrides = survey.options?.branchOverrides ?? [];
+  const noiseFloorMs = pickUncertaintyMs(survey);
 
   // Pass 1: fit every side that is not overridden.
   const sides = survey.shots.map((_, s) =>
@@ -77,7 +122,7 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
       if (!override) {
         const points = picks.map((p) => ({ offsetM: p.offsetM, timeMs: p.timeMs }));
         for (let m = 1; m <= maxSegments; m++) {
-          const f = robustSegmentedFit(points, m as 1 | 2 | 3);
+          const f = robustSegmentedFit(points, m as 1 | 2 | 3, noiseFloorMs);
           if (f) fits.push(f);
         }
       }
@@ -87,18 +132,42 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
 
   const v1Provisional = provisionalV1(sides.flat());
 
+  // Pass 2: each side on its own.
+  const choose = (work: (typeof sides)[number][number], allowSecond: boolean): SideChoice | null => {
+    if (work.picks.length === 0) return null;
+    return work.override
+      ? overriddenSide(work.picks, work.override)
+      : chooseSide(work.picks, work.fits, v1Provisional, forcedLayers, allowSecond);
+  };
+  const choices = sides.map((pair) => pair.map((work) => choose(work, true)));
+
+  // Pass 3: unforced, a second refractor must break at a consistent offset across shots.
+  if (forcedLayers === undefined) {
+    const spacingM = geophoneSpacingM(survey.geophones);
+    // k: 0 = sides shooting toward −x, 1 = toward +x.
+    for (const k of [0, 1] as const) {
+      const breaks: { s: number; at: BreakPoint }[] = [];
+      choices.forEach((pair, s) => {
+        const c = pair[k];
+        if (c && !c.overridden && c.breakPoint) breaks.push({ s, at: { ...c.breakPoint, shotX: survey.shots[s].x } });
+      });
+      if (!breaksFixedInX(breaks.map((b) => b.at), spacingM)) continue;
+      for (const b of breaks) choices[b.s][k] = choose(sides[b.s][k], false);
+    }
+  }
+
+  if (forcedLayers !== 2) relabelFarOffEndSides(choices, (s, k) => sides[s][k].picks);
+
   return survey.shots.map((shot, s) => {
     const branchOfPick: (BranchIndex | null)[] = survey.geophones.map(() => null);
     survey.geophones.forEach((g, i) => {
       const t = shot.times[i];
       if (t !== null && t !== undefined && Math.abs(g.x - shot.x) <= AT_SHOT_TOLERANCE_M) branchOfPick[i] = 0;
     });
-    const [left, right] = sides[s].map((work) => {
-      if (work.picks.length === 0) return null;
-      const choice = work.override
-        ? overriddenSide(work.picks, work.override)
-        : chooseSide(work.picks, work.fits, v1Provisional, forcedLayers);
-      choice.branchOfSidePick.forEach((b, k) => (branchOfPick[work.picks[k].geophone] = b));
+    const [left, right] = sides[s].map((work, k) => {
+      const choice = choices[s][k];
+      if (!choice) return null;
+      choice.branchOfSidePick.forEach((b, j) => (branchOfPick[work.picks[j].geophone] = b));
       const result: SideBranches = {
         side: work.side,
         direct: choice.direct,
@@ -118,6 +187,75 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
       branchOfPick,
     };
   });
+}
+
+/**
+ * A side with one refracted line and no direct wave (a far off-end shot) is branch 1 by
+ * default; on a three-layer line its picks may come, wholly or mostly, from the second
+ * refractor. When other sides show both refracted branches and its line's apparent
+ * velocity is nearer (in ratio) to their median branch-2 velocity than to their median
+ * branch-1 velocity, its picks are split at the median 1→2 break offset of those sides
+ * (flat layers give every shot the same crossover offset: Kearey, Brooks & Hill 2002,
+ * ch. 5): nearer picks branch 1, farther ones branch 2. Lines are refitted on each group;
+ * with fewer than 2 picks on branch 1 the side lists no line, since `refracted` runs from
+ * the first refractor down and cannot say that the first is absent.
+ */
+function relabelFarOffEndSides(choices: (SideChoice | null)[][], picksOf: (s: number, k: number) => SidePick[]): void {
+  const first: number[] = [];
+  const second: number[] = [];
+  const breakOffsets: number[] = [];
+  for (const c of choices.flat()) {
+    if (c && !c.overridden && c.refracted.length >= 2) {
+      first.push(c.refracted[0].velocity);
+      second.push(c.refracted[1].velocity);
+      if (c.breakPoint) breakOffsets.push(c.breakPoint.breakOffsetM);
+    }
+  }
+  if (first.length === 0) return;
+  const m1 = median(first);
+  const m2 = median(second);
+  const breakOffsetM = breakOffsets.length > 0 ? median(breakOffsets) : 0;
+  choices.forEach((pair, s) =>
+    pair.forEach((c, k) => {
+      if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return;
+      const v = c.refracted[0].velocity;
+      if (!(Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1)))) return;
+      const picks = picksOf(s, k);
+      c.branchOfSidePick = picks.map((p) => (p.offsetM < breakOffsetM ? 1 : 2));
+      const near = lineOf(picks.filter((p) => p.offsetM < breakOffsetM));
+      const far = lineOf(picks.filter((p) => p.offsetM >= breakOffsetM));
+      c.refracted = near && far ? [near, far] : [];
+    }),
+  );
+}
+
+/** The survey's pick uncertainty, ms (default DEFAULT_PICK_UNCERTAINTY_MS; non-positive or absent values ignored). */
+function pickUncertaintyMs(survey: Survey): number {
+  const u = survey.options?.pickUncertaintyMs;
+  return typeof u === 'number' && Number.isFinite(u) && u > 0 ? u : DEFAULT_PICK_UNCERTAINTY_MS;
+}
+
+/**
+ * True when the second-refractor breaks of sides shooting the same way line up in x
+ * rather than in offset: over the pairs of shots at least
+ * CONSISTENCY_MIN_SHOT_SEPARATION_SPACINGS spacings apart, more pairs have
+ * |Δ break x| < |Δ break offset| than not. Under flat layers the crossover offset of a
+ * refractor is the same from every shot (Kearey, Brooks & Hill 2002, ch. 5), so the break
+ * moves with the shot; a break that stays put is a feature of the ground at that x.
+ */
+export function breaksFixedInX(breaks: BreakPoint[], spacingM: number): boolean {
+  let fixedInX = 0;
+  let fixedInOffset = 0;
+  for (let a = 0; a < breaks.length; a++) {
+    for (let b = a + 1; b < breaks.length; b++) {
+      const p = breaks[a];
+      const q = breaks[b];
+      if (Math.abs(p.shotX - q.shotX) < CONSISTENCY_MIN_SHOT_SEPARATION_SPACINGS * spacingM) continue;
+      if (Math.abs(p.breakX - q.breakX) < Math.abs(p.breakOffsetM - q.breakOffsetM)) fixedInX++;
+      else fixedInOffset++;
+    }
+  }
+  return fixedInX > fixedInOffset;
 }
 
 function findOverride(overrides: BranchOverride[], shotId: string, side: Side): BranchOverride | undefined {
@@ -176,11 +314,29 @@ function refractedAreFast(c: Candidate, v1: number | null): boolean {
   return c.fit.segments.every((seg, j) => c.firstBranch + j === 0 || segmentVelocity(seg) > DIRECT_VELOCITY_FACTOR * v1);
 }
 
-function chooseSide(picks: SidePick[], fits: SegmentedFit[], v1: number | null, forcedLayers: 2 | 3 | undefined): SideChoice {
-  const maxLayers = forcedLayers ?? 3;
+/**
+ * Unforced, the branch-2 segment must be SECOND_REFRACTOR_MIN_CONTRAST times faster than
+ * the branch-1 segment before it.
+ */
+function clearContrast(c: Candidate): boolean {
+  const j2 = 2 - c.firstBranch;
+  const j1 = j2 - 1;
+  if (j1 < 0 || j2 >= c.fit.segments.length) return true;
+  return c.fit.segments[j1].slownessMsPerM / c.fit.segments[j2].slownessMsPerM >= SECOND_REFRACTOR_MIN_CONTRAST;
+}
+
+function chooseSide(
+  picks: SidePick[],
+  fits: SegmentedFit[],
+  v1: number | null,
+  forcedLayers: 2 | 3 | undefined,
+  allowSecond: boolean,
+): SideChoice {
+  const maxLayers = allowSecond ? (forcedLayers ?? 3) : 2;
   const candidates: Candidate[] = fits
     .map((fit) => ({ fit, firstBranch: (firstSegmentIsDirect(fit, v1) ? 0 : 1) as 0 | 1 }))
-    .filter((c) => c.firstBranch + c.fit.segments.length <= maxLayers && refractedAreFast(c, v1));
+    .filter((c) => c.firstBranch + c.fit.segments.length <= maxLayers && refractedAreFast(c, v1))
+    .filter((c) => forcedLayers !== undefined || !reachesSecondRefractor(c) || clearContrast(c));
   let pool = candidates;
   if (forcedLayers === 3) {
     const reaching = candidates.filter((c) => c.firstBranch + c.fit.segments.length === 3);
@@ -197,8 +353,15 @@ function chooseSide(picks: SidePick[], fits: SegmentedFit[], v1: number | null, 
   if (!chosen) return unfittedSide(picks, v1);
 
   const branchOfSidePick: BranchIndex[] = picks.map(() => 0);
+  let breakPoint: Omit<BreakPoint, 'shotX'> | undefined;
   const lines = chosen.fit.segments.map((seg, j) => {
     for (let i = seg.start; i < seg.end; i++) branchOfSidePick[i] = (chosen.firstBranch + j) as BranchIndex;
+    if (chosen.firstBranch + j === 2 && seg.start > 0) {
+      // Halfway between the last branch-1 pick and the first branch-2 pick.
+      const before = picks[seg.start - 1];
+      const after = picks[seg.start];
+      breakPoint = { breakX: (before.x + after.x) / 2, breakOffsetM: (before.offsetM + after.offsetM) / 2 };
+    }
     return branchLineFromSegment(seg, picks);
   });
   return {
@@ -206,6 +369,7 @@ function chooseSide(picks: SidePick[], fits: SegmentedFit[], v1: number | null, 
     direct: chosen.firstBranch === 0 ? lines[0] : null,
     refracted: chosen.firstBranch === 0 ? lines.slice(1) : lines,
     overridden: false,
+    ...(breakPoint ? { breakPoint } : {}),
   };
 }
 

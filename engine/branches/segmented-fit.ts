@@ -53,8 +53,9 @@ export const MIN_VELOCITY_RATIO = 1.1;
 export const OUTLIER_FLOOR_MS = 1.0;
 export const OUTLIER_SIGMAS = 3.5;
 /**
- * Floor of the residual variance in the BIC, as an RMS in ms. Picks are never better than
- * a fraction of a sample interval; without a floor a noise-free curve would make ln(0).
+ * Smallest floor of the residual variance in the BIC, as an RMS in ms: a noise-free curve
+ * would otherwise make ln(0). assignBranches passes the survey's pick uncertainty instead
+ * (default 0.5 ms), see robustSegmentedFit; this value is only the last resort.
  */
 export const BIC_NOISE_FLOOR_MS = 0.05;
 /** Least picks per segment, by number of segments: the direct segment needs 2, extra refracted segments 3. */
@@ -92,13 +93,21 @@ export function fitLine(points: FitPoint[], indices: number[]): { slownessMsPerM
 }
 
 /**
- * BIC for a Gaussian segmented line: n·ln(max(SSE/n, floor²)) + p·ln(n), with
- * p = 2 per segment + 1 per breakpoint (Schwarz, Annals of Statistics 6, 1978).
+ * BIC for a Gaussian segmented line (Schwarz, Annals of Statistics 6, 1978):
+ * −2·ln L + p·ln(n), p = 2 per segment + 1 per breakpoint, with the noise standard
+ * deviation σ fitted by maximum likelihood but not below the floor σ_f:
+ *   SSE/n ≥ σ_f²:  −2·ln L = n·ln(SSE/n) + n
+ *   SSE/n < σ_f²:  −2·ln L = n·ln(σ_f²) + SSE/σ_f²   (known-noise form)
+ * (constant n·ln 2π dropped; the two forms meet at SSE/n = σ_f²). With σ_f the pick
+ * uncertainty, a misfit below the picks' own scatter earns a model no more than its
+ * χ² improvement, which two or three parameters per extra segment must pay for.
  */
 export function bicScore(sseMs2: number, n: number, segmentCount: number, noiseFloorMs = BIC_NOISE_FLOOR_MS): number {
   const p = 3 * segmentCount - 1;
-  const variance = Math.max(sseMs2 / n, noiseFloorMs * noiseFloorMs);
-  return n * Math.log(variance) + p * Math.log(n);
+  const floor2 = noiseFloorMs * noiseFloorMs;
+  const variance = sseMs2 / n;
+  const minus2LogL = variance >= floor2 ? n * Math.log(variance) + n : n * Math.log(floor2) + sseMs2 / floor2;
+  return minus2LogL + p * Math.log(n);
 }
 
 /** Prefix sums of centred x, y and their products, for O(1) line fits of any index range. */
@@ -218,9 +227,11 @@ function residualOf(p: FitPoint, l: SegmentLine): number {
  * search the breakpoints again without them, and give each flagged pick to the segment
  * that spans its offset (between two segments: the one whose line is closer).
  * The BIC uses residuals clipped at the threshold so that fits with different
- * segment counts are compared on the same picks.
+ * segment counts are compared on the same picks, and a residual variance no smaller than
+ * noiseFloorMs²: misfits below the pick uncertainty cannot tell two models apart, so the
+ * extra segments' penalty then decides (a known-noise reading of Schwarz's criterion).
  */
-export function robustSegmentedFit(points: FitPoint[], segmentCount: 1 | 2 | 3): SegmentedFit | null {
+export function robustSegmentedFit(points: FitPoint[], segmentCount: 1 | 2 | 3, noiseFloorMs = BIC_NOISE_FLOOR_MS): SegmentedFit | null {
   const n = points.length;
   const firstStarts = bestBreakpoints(points, segmentCount);
   if (!firstStarts) return null;
@@ -277,7 +288,7 @@ export function robustSegmentedFit(points: FitPoint[], segmentCount: 1 | 2 | 3):
     const r = residualOf(p, lines[segmentIndex(lines, i)]);
     clipped += Math.min(r * r, threshold * threshold);
   });
-  return { segments: lines, outlier, clippedSseMs2: clipped, bic: bicScore(clipped, n, segmentCount) };
+  return { segments: lines, outlier, clippedSseMs2: clipped, bic: bicScore(clipped, n, segmentCount, noiseFloorMs) };
 }
 
 function segmentIndex(lines: SegmentLine[], i: number): number {

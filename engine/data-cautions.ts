@@ -1,0 +1,167 @@
+/**
+ * Cautions read from the data of one interpreted line: what its first arrivals cannot
+ * show or do not show well enough. Each is a warning with a code and a sentence; none
+ * throws, none gives NaN. General references for all of them: ASTM D5777 (Standard Guide
+ * for Using the Seismic Refraction Method for Subsurface Investigation) and USACE
+ * EM 1110-1-1802 (Geophysical Exploration for Engineering and Environmental
+ * Investigations), which list hidden layers, velocity inversions and thin coverage among
+ * the limits of the method.
+ *
+ *  - hidden-layer: a layer too thin to appear as first arrivals (blind zone) could lie
+ *    above the first refractor; the thickness that could hide on this spread comes from
+ *    engine/structure/hidden-layer.ts (Soske 1959; Kearey, Brooks & Hill 2002, ch. 5).
+ *  - velocity-inversion: a layer velocity not above the one over it, or a shot side whose
+ *    later branch is slower than the branch before it (possible only through a manual
+ *    branch override): a slower layer gives no head wave, so it is unseen.
+ *  - few-refracted-picks-side: a shot side with refracted arrivals on a branch, but fewer
+ *    than MIN_PICKS_PER_BRANCH of them; few-refracted-picks: too few refracted picks on the
+ *    whole line for a plus-minus interpretation.
+ *  - v2-not-above-v1: interpret.ts already says it when the minus times give V2 ≤ V1; here
+ *    only a station whose own refractor velocity is not above its own V1 adds it, and only
+ *    when the line has no such warning yet.
+ * A warning whose code interpret (or another step) has already given for the same place is
+ * not repeated.
+ */
+import type { Survey } from './survey.js';
+import type { Interpretation, ShotAnalysis, Warning } from './interpretation.js';
+import { hiddenLayerWarning, velocityInversion } from './structure/hidden-layer.js';
+
+/** Fewest picks that show a straight branch (two fix a line, a third tests it). Common practice. */
+export const MIN_PICKS_PER_BRANCH = 3;
+
+/**
+ * Fewest refracted picks on the whole line: an opposing pair with MIN_PICKS_PER_BRANCH
+ * picks each way. Fewer give neither T+ nor a V2 worth the name. Common practice.
+ */
+export const MIN_REFRACTED_PICKS_LINE = 2 * MIN_PICKS_PER_BRANCH;
+
+function isNum(v: number | null | undefined): v is number {
+  return typeof v === 'number' && Number.isFinite(v);
+}
+
+function median(values: number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+/** Picks of a shot on one side, by branch. */
+function sideBranchCounts(survey: Survey, shot: ShotAnalysis, side: 'left' | 'right'): [number, number, number] {
+  const counts: [number, number, number] = [0, 0, 0];
+  survey.geophones.forEach((g, i) => {
+    const onSide = side === 'right' ? g.x > shot.x : g.x < shot.x;
+    const b = shot.branchOfPick[i];
+    if (onSide && b !== null && b !== undefined) counts[b]++;
+  });
+  return counts;
+}
+
+/** Hidden layer above the first refractor, from the interpreted V1, V2 and median depth. */
+function hiddenLayerCaution(survey: Survey, interp: Interpretation): Warning | null {
+  const v1 = interp.layers[0]?.velocity;
+  const v2 = interp.layers[1]?.velocity;
+  const depths = interp.stations.map((s) => s.depth).filter((d): d is number => isNum(d) && d > 0);
+  if (!isNum(v1) || !isNum(v2) || !(v2 > v1) || depths.length === 0) return null;
+  // Offsets of the shot with the longest reach: if a layer would show anywhere, it shows there.
+  let offsetsM: number[] = [];
+  for (const shot of survey.shots) {
+    const o = survey.geophones.map((g, i) => (isNum(shot.times[i]) ? Math.abs(g.x - shot.x) : NaN)).filter((v) => Number.isFinite(v) && v > 0);
+    if (o.length > 0 && Math.max(...o) > (offsetsM.length ? Math.max(...offsetsM) : 0)) offsetsM = o;
+  }
+  if (offsetsM.length === 0) return null;
+  try {
+    const w = hiddenLayerWarning({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: median(depths), offsetsM });
+    return w ? { ...w, message: `${w.message} (Blind zone: such a layer would never arrive first at these offsets; ASTM D5777; USACE EM 1110-1-1802.)` } : null;
+  } catch {
+    return null; // inputs outside the bound's domain: no caution can be worded
+  }
+}
+
+/** Branch velocity inversions on single shot sides (each later branch must be faster). */
+function sideInversions(interp: Interpretation): Warning[] {
+  const warnings: Warning[] = [];
+  for (const shot of interp.shots) {
+    for (const side of [shot.left, shot.right]) {
+      if (!side) continue;
+      const lines = [...(side.direct ? [{ name: 'direct wave', v: side.direct.velocity }] : []), ...side.refracted.map((l, k) => ({ name: `refracted branch ${k + 1}`, v: l.velocity }))];
+      for (let k = 1; k < lines.length; k++) {
+        if (isNum(lines[k].v) && isNum(lines[k - 1].v) && !(lines[k].v > lines[k - 1].v)) {
+          warnings.push({
+            code: 'velocity-inversion',
+            message: `On the ${side.side} side of ${shot.id} the ${lines[k].name} (${Math.round(lines[k].v)} m/s) is not faster than the ${lines[k - 1].name} before it (${Math.round(lines[k - 1].v)} m/s). First arrivals speed up with offset over layers that get faster with depth; a slower branch means a wrong branch split or a velocity inversion, which refraction first arrivals cannot resolve (ASTM D5777; USACE EM 1110-1-1802).`,
+            x: shot.x,
+          });
+        }
+      }
+    }
+  }
+  return warnings;
+}
+
+function fewPickCautions(survey: Survey, interp: Interpretation): Warning[] {
+  const warnings: Warning[] = [];
+  let refractedTotal = 0;
+  for (const shot of interp.shots) {
+    for (const side of ['left', 'right'] as const) {
+      const [, b1, b2] = sideBranchCounts(survey, shot, side);
+      refractedTotal += b1 + b2;
+      const short: string[] = [];
+      if (b1 > 0 && b1 < MIN_PICKS_PER_BRANCH) short.push(`${b1} on the first refractor`);
+      if (b2 > 0 && b2 < MIN_PICKS_PER_BRANCH) short.push(`${b2} on the second refractor`);
+      if (short.length > 0) {
+        warnings.push({
+          code: 'few-refracted-picks-side',
+          message: `The ${side} side of ${shot.id} has only ${short.join(' and ')} (fewer than ${MIN_PICKS_PER_BRANCH}, common practice for a straight branch): its branch velocity and intercept, and the reciprocal time read from it, are poorly fixed.`,
+          x: shot.x,
+        });
+      }
+    }
+  }
+  if (refractedTotal < MIN_REFRACTED_PICKS_LINE) {
+    warnings.push({
+      code: 'few-refracted-picks',
+      message: `The whole line has ${refractedTotal} refracted pick(s), fewer than the ${MIN_REFRACTED_PICKS_LINE} an opposing pair of shots needs (${MIN_PICKS_PER_BRANCH} each way, common practice): refractor velocity and depths cannot be trusted, if given at all. Lengthen the spread or add off-end shots.`,
+    });
+  }
+  return warnings;
+}
+
+/** A station whose refractor velocity is not above its own V1 (lateral velocities). */
+function stationV2NotAboveV1(interp: Interpretation): Warning | null {
+  const xs = interp.stations.filter((s) => isNum(s.v1) && isNum(s.refractorVelocity) && !((s.refractorVelocity as number) > (s.v1 as number))).map((s) => s.x);
+  if (xs.length === 0) return null;
+  return {
+    code: 'v2-not-above-v1',
+    message: `At x = ${xs.slice(0, 6).join(', ')}${xs.length > 6 ? ', …' : ''} m the refractor velocity is not above the top-layer velocity: no head wave could come from such a layer, so the depths there are not meaningful. Check the branch assignment.`,
+    x: xs[0],
+  };
+}
+
+/** The cautions this line's data call for (not yet present in `interp`). */
+export function dataCautions(survey: Survey, interp: Interpretation): Warning[] {
+  const existing = interp.qc.warnings;
+  const has = (code: string, x?: number): boolean => existing.some((w) => w.code === code && (x === undefined || w.x === x));
+  const out: Warning[] = [];
+  const add = (w: Warning | null, unlessCodeAnywhere = false): void => {
+    if (!w) return;
+    if (unlessCodeAnywhere ? has(w.code) : has(w.code, w.x)) return;
+    if (out.some((o) => o.code === w.code && o.message === w.message)) return;
+    out.push(w);
+  };
+  add(hiddenLayerCaution(survey, interp), true);
+  const velocities = interp.layers.map((l) => l.velocity).filter((v) => isNum(v) && v > 0);
+  if (velocities.length === interp.layers.length) {
+    for (const w of velocityInversion(velocities)) add({ ...w, message: `${w.message} (ASTM D5777; USACE EM 1110-1-1802.)` }, true);
+  }
+  for (const w of sideInversions(interp)) add(w);
+  for (const w of fewPickCautions(survey, interp)) add(w, w.code === 'few-refracted-picks');
+  add(stationV2NotAboveV1(interp), true);
+  return out;
+}
+
+/** The interpretation with dataCautions appended to its warnings. */
+export function withDataCautions(survey: Survey, interp: Interpretation): Interpretation {
+  const extra = dataCautions(survey, interp);
+  if (extra.length === 0) return interp;
+  return { ...interp, qc: { ...interp.qc, warnings: [...interp.qc.warnings, ...extra] } };
+}

@@ -1,0 +1,90 @@
+import { describe, expect, it } from 'vitest';
+import { assignBranches } from '../../engine/branches/assign-branches.js';
+import { interpret } from '../../engine/interpret.js';
+import { refractorDelays } from '../../engine/second-refractor.js';
+import { flatLine } from '../../engine/samples/demo-lines.js';
+import type { Survey } from '../../engine/survey.js';
+
+/**
+ * Three flat layers (invented test model); closed-form first arrivals and delay times,
+ * Kearey, Brooks & Hill (2002, ch. 5, multi-layer case):
+ *   head wave from refractor n: t = x/V_{n+1} + 2·δ_n,  δ_n = Σ_{i≤n} h_i·cos θ_{i,n+1}/V_i,
+ *   sin θ_ij = V_i/V_j.
+ */
+const V = [500, 1500, 4000];
+const H = [3, 8];
+const cosT = (i: number, j: number): number => Math.cos(Math.asin(V[i] / V[j]));
+const DELAY_MS = [(1000 * H[0] * cosT(0, 1)) / V[0], 1000 * ((H[0] * cosT(0, 2)) / V[0] + (H[1] * cosT(1, 2)) / V[1])];
+
+function firstArrivalMs(offsetM: number): number {
+  return Math.min((1000 * offsetM) / V[0], (1000 * offsetM) / V[1] + 2 * DELAY_MS[0], (1000 * offsetM) / V[2] + 2 * DELAY_MS[1]);
+}
+
+const GEOPHONES = Array.from({ length: 48 }, (_, i) => ({ x: 2 * i }));
+
+function survey(shots: [string, number][], options?: Survey['options']): Survey {
+  return {
+    geophones: GEOPHONES,
+    shots: shots.map(([id, x]) => ({ id, x, times: GEOPHONES.map((g) => firstArrivalMs(Math.abs(g.x - x))) })),
+    ...(options ? { options } : {}),
+  };
+}
+
+const FIVE: [string, number][] = [['W-off', -12], ['W-end', -1], ['mid', 47], ['E-end', 95], ['E-off', 107]];
+
+describe('refractorDelays on branch 2 (plus-minus, Hagedoorn 1959; delay form of Kearey et al. 2002 ch. 5)', () => {
+  const s = survey(FIVE);
+  const shots = assignBranches(s);
+  const second = refractorDelays(s, shots, 2);
+
+  it('gives V3 from the minus times of opposing branch-2 pairs', () => {
+    expect(second.velocitySource).toBe('minus-times');
+    expect(second.pairCount).toBeGreaterThan(0);
+    expect(second.velocityMPerS! / V[2]).toBeCloseTo(1, 6);
+  });
+
+  it('gives the closed-form delay time δ2 = Σ h_i·cos θ_i3 / V_i wherever a pair covers, and one-way delays elsewhere', () => {
+    const covered = second.delaySource.filter((k) => k === 'pair' || k === 'phantom').length;
+    expect(covered).toBeGreaterThan(GEOPHONES.length / 2);
+    second.delayTimeMs.forEach((d, i) => {
+      expect(d, `x = ${GEOPHONES[i].x}`).not.toBeNull();
+      expect(d as number, `x = ${GEOPHONES[i].x}`).toBeCloseTo(DELAY_MS[1], 6);
+    });
+  });
+
+  it('gives δ1 for the first refractor from branch-1 picks with the branch-1 reciprocal time (not the earlier branch-2 arrival)', () => {
+    const first = refractorDelays(s, shots, 1);
+    expect(first.velocityMPerS! / V[1]).toBeCloseTo(1, 6);
+    const known = first.delayTimeMs.filter((d): d is number => d !== null);
+    expect(known.length).toBeGreaterThan(10);
+    for (const d of known) expect(d).toBeCloseTo(DELAY_MS[0], 6);
+  });
+});
+
+describe('the second refractor in interpret', () => {
+  it('strips depths z1 = h1 and z2 = h1 + h2 (layer stripping, Kearey et al. 2002 ch. 5) and lists three velocities', () => {
+    const r = interpret(survey(FIVE));
+    expect(r.layers.map((l) => l.velocity)).toEqual(V);
+    for (const st of r.stations) {
+      expect(st.depths[0]).toBeCloseTo(H[0], 1);
+      expect(st.depths[1]).toBeCloseTo(H[0] + H[1], 1);
+    }
+  });
+
+  it('says so when three layers are forced on a two-layer line, and maps the one refractor', () => {
+    const line = flatLine();
+    const r = interpret({ ...line, options: { layers: 3 } });
+    expect(r.qc.warnings.filter((w) => w.code === 'second-refractor-not-found')).toHaveLength(1);
+    expect(r.layers).toHaveLength(2);
+    for (const st of r.stations) expect(st.depths).toHaveLength(1);
+    expect(JSON.parse(JSON.stringify(r))).toEqual(r);
+  });
+
+  it('warns that V3 is only apparent when branch 2 is shot one way only, and gives finite numbers', () => {
+    // Shots only at and beyond the west end: every branch-2 arrival travels east.
+    const r = interpret(survey([['W-far', -12], ['W-end', -1]]));
+    const codes = r.qc.warnings.map((w) => w.code);
+    expect(codes).toContain('second-refractor-one-way');
+    expect(JSON.parse(JSON.stringify(r))).toEqual(r);
+  });
+});
