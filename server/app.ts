@@ -16,6 +16,7 @@ import { interpretationRoutes } from './routes/interpretations.js';
 import { surveyRoutes } from './routes/surveys.js';
 import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
+import { previewRoutes } from './routes/previews.js';
 
 export interface AppOptions {
   /** Folder of the SQLite store, or ':memory:' (tests). */
@@ -113,6 +114,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(surveyRoutes, { store, guard });
     await app.register(shareRoutes, { store });
     await app.register(syntheticRoutes);
+    await app.register(previewRoutes);
 
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {

@@ -5,11 +5,14 @@
  * scripts at all (an SVG opened on its own is a document that could otherwise run one).
  * A route that sets its own Content-Security-Policy (the share page) keeps it.
  * Referrer-Policy no-referrer everywhere, so a share token never leaks through a link.
+ * Images may also come from blob: URLs: the page shows previews of a line that is not
+ * stored (POST /api/v1/previews/*.svg) as <img> from a blob: it made of the answer. A blob:
+ * URL is made by this origin's own script, and an SVG in <img> runs no script.
  */
 import type { FastifyReply, FastifyRequest } from 'fastify';
 
 export const DEFAULT_CSP =
-  "default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; object-src 'none'; base-uri 'none'; form-action 'self'; frame-ancestors 'none'";
+  "default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; object-src 'none'; base-uri 'none'; form-action 'self'; frame-ancestors 'none'";
 
 export const SVG_CSP = "default-src 'none'; style-src 'unsafe-inline'; frame-ancestors 'none'";
 

@@ -123,3 +123,44 @@ export function lineFileUrls(id) {
     interpretation: base + 'interpretation.json',
   };
 }
+
+/** The figures the service can draw of a line that is not stored, by the page's name for them. */
+export const PREVIEW_KINDS = { section: 'section.svg', travelTimes: 'traveltimes.svg' };
+
+/**
+ * POST /api/v1/previews/{section,traveltimes}.svg — draws a line without storing it.
+ * Resolves to { ok: true, blob } (an image/svg+xml Blob for an <img> through a blob: URL)
+ * or { ok: false, failure } with the same failure shape as every other call.
+ */
+export async function previewFigure(bodyText, format, kind) {
+  const file = PREVIEW_KINDS[kind];
+  if (!file) return { ok: false, failure: failure(0, 'unknown_figure', 'The page asked for an unknown figure: ' + kind + '.') };
+  let response;
+  try {
+    response = await fetch('api/v1/previews/' + file, {
+      method: 'POST',
+      headers: { 'Content-Type': contentTypeOf(format), Accept: 'image/svg+xml, application/json' },
+      body: bodyText,
+    });
+  } catch {
+    return {
+      ok: false,
+      failure: failure(0, 'unreachable', 'The Arcline service did not answer. Check that it is running and reachable.'),
+    };
+  }
+  const type = response.headers.get('Content-Type') ?? '';
+  if (response.ok && type.startsWith('image/svg+xml')) {
+    // The Blob keeps the SVG type, so the <img> decodes it as an image (scripts never run there).
+    return { ok: true, status: response.status, blob: new Blob([await response.arrayBuffer()], { type: 'image/svg+xml' }) };
+  }
+  let body = null;
+  try {
+    body = JSON.parse(await response.text());
+  } catch {
+    body = null;
+  }
+  if (response.ok) {
+    return { ok: false, failure: failure(response.status, 'not_an_image', 'The service answered the preview with something other than an SVG drawing.') };
+  }
+  return { ok: false, failure: failureFromBody(response.status, body) };
+}

@@ -2,10 +2,10 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  fetchLine, interpretLine, lineFileUrls, listLines, readWriteToken, saveWriteToken, storeLine,
+  fetchLine, interpretLine, lineFileUrls, listLines, previewFigure, readWriteToken, saveWriteToken, storeLine,
 } from './api.js';
 import { detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
-import { el, renderFailure, renderStationTable, renderSummary, renderWarnings } from './view.js';
+import { el, markFiguresAsPreview, renderFailure, renderStationTable, renderSummary, renderWarnings } from './view.js';
 
 const $ = (id) => {
   const node = document.getElementById(id);
@@ -51,6 +51,12 @@ const ui = {
 const input = { fileName: '' };
 /** Id of the stored line on show, or null for an unsaved interpretation / nothing. */
 let openLineId = null;
+/**
+ * Figures on show: which round of drawing they belong to (a preview that answers after a
+ * newer interpretation or a stored line took over is dropped), and the blob: URLs of
+ * preview images, revoked as soon as they are replaced so their SVGs can be freed.
+ */
+const figures = { round: 0, blobUrls: [] };
 
 function setStatus(text) {
   ui.status.textContent = text;
@@ -106,12 +112,68 @@ function showInterpretation(name, interpretation, metaText) {
   ui.stations.hidden = false;
 }
 
+/** Starts a new round of figures; pending previews of earlier rounds are then ignored. */
+function newFigureRound() {
+  figures.round += 1;
+  return figures.round;
+}
+
+/** Revokes the blob: URLs of the preview images (call after their <img> got a new src). */
+function releasePreviewUrls() {
+  for (const url of figures.blobUrls) URL.revokeObjectURL(url);
+  figures.blobUrls = [];
+}
+
 function hideStoredParts() {
+  newFigureRound();
   ui.figures.hidden = true;
   ui.filesPanel.hidden = true;
   ui.sharePanel.hidden = true;
   ui.sectionImage.removeAttribute('src');
   ui.travelTimesImage.removeAttribute('src');
+  releasePreviewUrls();
+  markFiguresAsPreview(ui.figures, false);
+}
+
+function showFigureFailed(image) {
+  image.hidden = true;
+  image.removeAttribute('src');
+  const note = image.parentElement?.querySelector('.figure-failed');
+  if (note) note.hidden = false;
+}
+
+/**
+ * Draws a line that is not stored: asks the service for both previews of the same text
+ * that was interpreted and shows them as <img> from blob: URLs (the strict CSP allows
+ * images from blob:; nothing the service sent is parsed into the page).
+ */
+async function showPreviews(bodyText, format, name) {
+  const round = newFigureRound();
+  const [section, travelTimes] = await Promise.all([
+    previewFigure(bodyText, format, 'section'),
+    previewFigure(bodyText, format, 'travelTimes'),
+  ]);
+  if (round !== figures.round) return;
+  const urls = [];
+  const place = (result, image, altText) => {
+    if (!result.ok) {
+      showFigureFailed(image);
+      return result.failure;
+    }
+    const url = URL.createObjectURL(result.blob);
+    urls.push(url);
+    showFigure(image, url, altText);
+    return null;
+  };
+  const failures = [
+    place(section, ui.sectionImage, 'Preview, not stored: depth section of ' + name),
+    place(travelTimes, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name),
+  ].filter(Boolean);
+  releasePreviewUrls();
+  figures.blobUrls = urls;
+  markFiguresAsPreview(ui.figures, true);
+  ui.figures.hidden = false;
+  if (failures.length) setStatus('The preview figures could not be drawn: ' + failures[0].message);
 }
 
 function showFigure(image, url, altText) {
@@ -163,8 +225,11 @@ async function openStoredLine(id, shareUrlFromStore) {
   ui.unsavedNote.hidden = true;
 
   const urls = lineFileUrls(id);
+  newFigureRound();
   showFigure(ui.sectionImage, urls.section, 'Depth section of ' + name);
   showFigure(ui.travelTimesImage, urls.travelTimes, 'Time–distance plot of ' + name);
+  releasePreviewUrls();
+  markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
 
   const stem = fileStem(name);
@@ -229,7 +294,9 @@ async function interpretInput() {
   setBusy(true);
   setStatus('Interpreting…');
   const format = currentFormat();
-  const result = await interpretLine(ui.text.value, format);
+  // The previews are drawn from exactly the text that was interpreted, even if it is edited meanwhile.
+  const bodyText = ui.text.value;
+  const result = await interpretLine(bodyText, format);
   setBusy(false);
   if (!result.ok) {
     renderFailure(ui.errorBox, result.failure, parsedSurvey());
@@ -253,6 +320,7 @@ async function interpretInput() {
   const warningCount = Array.isArray(interpretation.qc?.warnings) ? interpretation.qc.warnings.length : 0;
   setStatus('Interpreted “' + name + '”: ' + stationCount + ' stations'
     + (warningCount ? ', ' + warningCount + ' warning' + (warningCount === 1 ? '' : 's') : '') + '.');
+  await showPreviews(bodyText, format, name);
 }
 
 async function storeInput() {

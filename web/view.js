@@ -156,3 +156,16 @@ export function renderFailure(box, failure, survey) {
   }
   box.hidden = false;
 }
+
+/**
+ * Marks the figures section as a preview of a line that is not stored (dashed frames, the
+ * "Not stored — preview" note and caption tags), or as the stored line's figures.
+ */
+export function markFiguresAsPreview(figures, preview) {
+  figures.classList.toggle('preview', preview);
+  for (const mark of figures.querySelectorAll('.preview-note, .preview-tag')) {
+    // Tags inside the note follow the note itself.
+    if (mark.parentElement?.classList.contains('preview-note')) continue;
+    mark.hidden = !preview;
+  }
+}

@@ -29,6 +29,22 @@ async function loadedWidth(page: Page, selector: string): Promise<number> {
   return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
 }
 
+/**
+ * How many of these URLs load as images in the page (a fresh Image each; fetch() cannot be
+ * used because the page's CSP allows blob: for images only).
+ */
+async function imagesThatLoad(page: Page, urls: (string | null)[]): Promise<number> {
+  return page.evaluate(async (list) => {
+    const loads = await Promise.all(list.map((url) => new Promise<boolean>((done) => {
+      const image = new Image();
+      image.onload = () => done(image.naturalWidth > 0);
+      image.onerror = () => done(false);
+      image.src = url ?? '';
+    })));
+    return loads.filter(Boolean).length;
+  }, urls);
+}
+
 function expectNoTrouble(trouble: PageTrouble, allowedConsole: RegExp[] = []): void {
   expect(trouble.pageErrors).toEqual([]);
   expect(trouble.cspViolations).toEqual([]);
@@ -126,10 +142,16 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await expect.poll(() => page.textContent('#format-name'), POLL).toContain('CSV');
 
     const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    const previewed = Promise.all(['section', 'traveltimes'].map((figure) =>
+      page.waitForResponse((r) => r.url().endsWith(`/api/v1/previews/${figure}.svg`) && r.request().method() === 'POST')));
     await page.click('#interpret-button');
     const response = await interpreted;
     expect(response.status()).toBe(200);
     const interpretation = (await response.json()) as { stations: { x: number }[] };
+    for (const preview of await previewed) {
+      expect(preview.status(), preview.url()).toBe(200);
+      expect(preview.headers()['content-type']).toMatch(/^image\/svg\+xml/);
+    }
 
     // One row per geophone, in order, with the geophone's x in the first column.
     const rows = page.locator('#station-body tr');
@@ -138,7 +160,28 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     const firstColumn = await page.locator('#station-body tr > th').allTextContents();
     expect(firstColumn.map(Number)).toEqual(flat.geophones.map((g) => g.x));
     expect(await page.isVisible('#unsaved-note')).toBe(true);
-    expect(await page.isVisible('#figures')).toBe(false);
+
+    // Before storing, both figures are drawn from the previews, shown from blob: URLs and marked.
+    await page.waitForSelector('#figures:not([hidden])');
+    expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
+    expect(await loadedWidth(page, '#traveltimes-image')).toBeGreaterThan(0);
+    const previewSrcs = [await page.getAttribute('#section-image', 'src'), await page.getAttribute('#traveltimes-image', 'src')];
+    for (const src of previewSrcs) expect(src).toMatch(/^blob:/);
+    expect(previewSrcs[0]).not.toBe(previewSrcs[1]);
+    expect(await page.isVisible('#preview-note')).toBe(true);
+    expect(await page.textContent('#preview-note')).toContain('Not stored — preview');
+    const captionTags = page.locator('#figures figcaption .preview-tag');
+    expect(await captionTags.count()).toBe(2);
+    for (const tag of await captionTags.all()) {
+      expect(await tag.isVisible()).toBe(true);
+      expect(await tag.textContent()).toBe('Not stored — preview');
+    }
+    expect(await page.getAttribute('#section-image', 'alt')).toContain(flat.name ?? '');
+    expect(await page.getAttribute('#section-image', 'alt')).toMatch(/not stored/i);
+    // Control for the revocation check after Store: while shown, the preview URLs load.
+    expect(await imagesThatLoad(page, previewSrcs)).toBe(2);
+    // Nothing was stored by interpreting and previewing: the stored list still holds only the demo line.
+    expect(await page.locator('#stored-list button[data-line-id]').count()).toBe(1);
     await page.screenshot({ path: join(SCREENSHOTS, 'flat-line-interpreted.png'), fullPage: true });
 
     const stored = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');
@@ -152,6 +195,14 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expect(shareLink).toBe(new URL(storeBody.shareUrl, baseUrl).href);
     await expect.poll(() => page.textContent('#line-title'), POLL).toBe(flat.name);
     expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
+    expect(await loadedWidth(page, '#traveltimes-image')).toBeGreaterThan(0);
+    // The stored figures replace the previews: served by the store, no preview marks.
+    expect(await page.getAttribute('#section-image', 'src')).toBe(`api/v1/surveys/${encodeURIComponent(storeBody.id)}/section.svg`);
+    expect(await page.getAttribute('#traveltimes-image', 'src')).toBe(`api/v1/surveys/${encodeURIComponent(storeBody.id)}/traveltimes.svg`);
+    expect(await page.isVisible('#preview-note')).toBe(false);
+    expect(await page.locator('#figures figcaption .preview-tag:visible').count()).toBe(0);
+    // The replaced preview blobs were revoked: their URLs no longer load.
+    expect(await imagesThatLoad(page, previewSrcs)).toBe(0);
     // The new line is in the stored list and marked as the open one.
     const current = page.locator('#stored-list button[aria-current="true"]');
     expect(await current.getAttribute('data-line-id')).toBe(String(storeBody.id));
@@ -163,7 +214,9 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await page.click('#copy-button');
     await expect.poll(() => page.textContent('#status'), POLL).toBe('Share link copied.');
     expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(shareLink);
-    expectNoTrouble(trouble);
+    // Chromium logs each refused load of a revoked blob: URL; exactly the two probed above are allowed.
+    expect(trouble.consoleErrors.filter((text) => /ERR_FILE_NOT_FOUND/.test(text))).toHaveLength(previewSrcs.length);
+    expectNoTrouble(trouble, [/ERR_FILE_NOT_FOUND/]);
 
     // A colleague opens the link with nothing in their browser: same line, a drawn section.
     const colleague = await launched.freshContext();
