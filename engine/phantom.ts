@@ -85,3 +85,49 @@ export function phantomArrivals(input: PhantomInput): PhantomResult | null {
 function isTime(value: number | null | undefined): value is number {
   return typeof value === 'number' && Number.isFinite(value);
 }
+
+/**
+ * Variance of one phantomed arrival, ms²: the source pick (σ²) plus the shift's variance,
+ * the larger of the noise of a difference of two picks (2σ²) and the measured scatter
+ * (parallelRmsMs²), over the overlap (standard error of a mean).
+ */
+export function phantomVarianceMs2(result: PhantomResult, pickSigmaMs: number): number {
+  const scatter = Math.max(2 * pickSigmaMs * pickSigmaMs, result.parallelRmsMs * result.parallelRmsMs);
+  return pickSigmaMs * pickSigmaMs + scatter / Math.max(1, result.overlapCount);
+}
+
+export interface MergedPhantom {
+  /** Inverse-variance mean of the phantomed arrivals of every source at each geophone, ms. */
+  timesMs: (number | null)[];
+  /** Its variance, ms²; null where nothing was phantomed. */
+  varianceMs2: (number | null)[];
+  /** Sources that gave a time at each geophone. */
+  sourceCount: number[];
+}
+
+/**
+ * Phantomed arrivals from several off-end shots merged into one set: at each geophone the
+ * inverse-variance mean of the sources that give a time there (each source already shifted
+ * onto the end shot's branch, so all estimate the same arrival).
+ */
+export function mergePhantoms(results: PhantomResult[], pickSigmaMs: number): MergedPhantom {
+  const n = results.length ? results[0].timesMs.length : 0;
+  const merged: MergedPhantom = { timesMs: [], varianceMs2: [], sourceCount: [] };
+  for (let i = 0; i < n; i++) {
+    let sw = 0;
+    let swt = 0;
+    let count = 0;
+    for (const r of results) {
+      const t = r.timesMs[i];
+      if (!isTime(t)) continue;
+      const w = 1 / phantomVarianceMs2(r, pickSigmaMs);
+      sw += w;
+      swt += w * t;
+      count++;
+    }
+    merged.timesMs.push(sw > 0 ? swt / sw : null);
+    merged.varianceMs2.push(sw > 0 ? 1 / sw : null);
+    merged.sourceCount.push(count);
+  }
+  return merged;
+}

@@ -94,6 +94,96 @@ export function combinePlusTimes(perPairPlusTimeMs: (number | null)[][], geophon
   return { plusTimeMs, pairCount };
 }
 
+export interface WeightedCombination {
+  /** Inverse-variance weighted mean at each geophone, ms; null where no pair covers it. */
+  valueMs: (number | null)[];
+  /** One standard deviation of that mean, 1/√(Σ w), ms; null where none. */
+  sigmaMs: (number | null)[];
+  /** Number of pairs that contributed at each geophone. */
+  pairCount: number[];
+  /**
+   * Consistency of the pairs at each geophone, χ² = Σ w_k·(v_k − mean)² with
+   * pairCount − 1 degrees of freedom; null with fewer than two pairs.
+   */
+  chiSquare: (number | null)[];
+}
+
+/**
+ * Combines per-pair values at each geophone (T+ of several opposing pairs, or T− with each
+ * pair's constant removed) by inverse-variance weighting: w_k = 1/var_k,
+ * mean = Σ w_k·v_k / Σ w_k, σ = 1/√(Σ w_k) (Bevington & Robinson, Data Reduction and Error
+ * Analysis, 3rd ed., 2003, ch. 4). Every pair estimates the same 2·aG (Hagedoorn 1959), so
+ * the weighting only decides how much each is trusted. A missing or non-positive variance
+ * leaves the value out.
+ */
+export function combineWeighted(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
+  const out: WeightedCombination = { valueMs: [], sigmaMs: [], pairCount: [], chiSquare: [] };
+  for (let i = 0; i < geophoneCount; i++) {
+    let sw = 0;
+    let swv = 0;
+    const used: [number, number][] = [];
+    values.forEach((pair, k) => {
+      const v = pair[i];
+      const variance = variances[k]?.[i];
+      if (!isTime(v) || !isTime(variance) || !(variance > 0)) return;
+      sw += 1 / variance;
+      swv += v / variance;
+      used.push([v, 1 / variance]);
+    });
+    const mean = sw > 0 ? swv / sw : null;
+    out.valueMs.push(mean);
+    out.sigmaMs.push(sw > 0 ? 1 / Math.sqrt(sw) : null);
+    out.pairCount.push(used.length);
+    out.chiSquare.push(mean !== null && used.length > 1 ? used.reduce((s, [v, w]) => s + w * (v - mean) ** 2, 0) : null);
+  }
+  return out;
+}
+
+/**
+ * Minus times of several pairs on one datum. T− of a pair is 2·∫slowness along the
+ * refractor + a constant set by its shots (Hagedoorn 1959), so two pairs differ by a
+ * constant wherever both are head waves, whatever the refractor velocity does. The pair
+ * covering most geophones is the reference; every other pair (most overlap first) is
+ * shifted by the weighted mean of its difference from the profile built so far over
+ * their common geophones, then all are combined by inverse-variance weighting. Pairs that
+ * share no geophone with the rest are left out.
+ */
+export function combineMinusTimes(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
+  const has = (k: number, i: number): boolean => isTime(values[k][i]) && isTime(variances[k][i]) && (variances[k][i] as number) > 0;
+  const count = (k: number): number => values[k].filter((_, i) => has(k, i)).length;
+  const order = values.map((_, k) => k).filter((k) => count(k) > 0).sort((p, q) => count(q) - count(p) || p - q);
+  if (order.length === 0) return combineWeighted([], [], geophoneCount);
+  const shifted: (number | null)[][] = [values[order[0]]];
+  const shiftedVar: (number | null)[][] = [variances[order[0]]];
+  const pending = order.slice(1);
+  while (pending.length > 0) {
+    const current = combineWeighted(shifted, shiftedVar, geophoneCount).valueMs;
+    let best = -1;
+    let bestOverlap = 0;
+    pending.forEach((k, j) => {
+      const overlap = current.filter((c, i) => c !== null && has(k, i)).length;
+      if (overlap > bestOverlap) {
+        bestOverlap = overlap;
+        best = j;
+      }
+    });
+    if (best < 0) break;
+    const k = pending.splice(best, 1)[0];
+    let sw = 0;
+    let swd = 0;
+    current.forEach((c, i) => {
+      if (c === null || !has(k, i)) return;
+      const w = 1 / (variances[k][i] as number);
+      sw += w;
+      swd += w * ((values[k][i] as number) - c);
+    });
+    const offset = swd / sw;
+    shifted.push(values[k].map((v) => (isTime(v) ? v - offset : null)));
+    shiftedVar.push(variances[k]);
+  }
+  return combineWeighted(shifted, shiftedVar, geophoneCount);
+}
+
 /**
  * Normal depth (depth measured perpendicular to the refractor) from a delay time, m:
  *   z = (delay/1000)·V1·V2 / sqrt(V2² − V1²)
