@@ -16,6 +16,8 @@
  *  - few-refracted-picks-side: a shot side with refracted arrivals on a branch, but fewer
  *    than MIN_PICKS_PER_BRANCH of them; few-refracted-picks: too few refracted picks on the
  *    whole line for a plus-minus interpretation.
+ *  - deeper-refractor-unreversed: branch assignment saw a faster, deeper branch from one
+ *    direction only and kept its picks on the first refractor.
  *  - v2-not-above-v1: interpret.ts already says it when the minus times give V2 ≤ V1; here
  *    only a station whose own refractor velocity is not above its own V1 adds it, and only
  *    when the line has no such warning yet.
@@ -137,6 +139,18 @@ function stationV2NotAboveV1(interp: Interpretation): Warning | null {
   };
 }
 
+/** A deeper refracted branch seen from one direction only, kept on the first refractor. */
+function unreversedDeeperBranch(interp: Interpretation): Warning | null {
+  const sides = interp.shots.flatMap((shot) =>
+    [shot.left, shot.right].filter((side) => side?.deeperBranchUnreversed).map((side) => `${shot.id} (${side!.side})`),
+  );
+  if (sides.length === 0) return null;
+  return {
+    code: 'deeper-refractor-unreversed',
+    message: `A bend toward a faster branch on ${sides.join(', ')} is not seen from the opposite direction over a common stretch of the line, so it was read as the first refractor bending (an undulating or laterally varying refractor) rather than as a deeper layer. If boreholes or the geology point to a deeper, faster layer, set the layer count to 3 and add longer off-end shots to reverse it.`,
+  };
+}
+
 /** The cautions this line's data call for (not yet present in `interp`). */
 export function dataCautions(survey: Survey, interp: Interpretation): Warning[] {
   const existing = interp.qc.warnings;
@@ -156,6 +170,7 @@ export function dataCautions(survey: Survey, interp: Interpretation): Warning[] 
   for (const w of sideInversions(interp)) add(w);
   for (const w of fewPickCautions(survey, interp)) add(w, w.code === 'few-refracted-picks');
   add(stationV2NotAboveV1(interp), true);
+  add(unreversedDeeperBranch(interp), true);
   return out;
 }
 

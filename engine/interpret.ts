@@ -41,7 +41,7 @@ import { topLayerVelocity } from './velocities/direct-velocity.js';
 import { theilSenSlope } from './velocities/theil-sen.js';
 import { opposingPairs } from './velocities/opposing-pairs.js';
 import { opposingPairVelocities } from './velocities/slope-intercept.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from './reciprocal.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, readingsVerifiable, reciprocalChecks } from './reciprocal.js';
 import { mergePhantoms, phantomArrivals, type PhantomResult } from './phantom.js';
 import { combineMinusTimes, combineWeighted, normalDepthFromDelayM, plusMinus } from './plus-minus.js';
 import type { MinusTimeVelocityResult } from './minus-time-velocity.js';
@@ -50,7 +50,6 @@ import { withResiduals } from './residuals.js';
 import { withSecondRefractor } from './second-refractor.js';
 import { withDataCautions } from './data-cautions.js';
 import { chiSquareQuantile } from './structure/quantiles.js';
-import { refineReciprocalChecks } from './local-reciprocal.js';
 import { geophoneSpacingM } from './branches/shot-geometry.js';
 import { localTopLayerVelocities, slownessStandardError, type DirectSide } from './lateral-v1.js';
 import {
@@ -111,8 +110,10 @@ interface PairWork {
   left: ShotAnalysis;
   right: ShotAnalysis;
   reciprocalTimeMs: number;
-  /** The pair's reciprocal times agree within the tolerance. */
+  /** The pair's reciprocal times agree within the tolerance (or the pair was tied to one that does). */
   reciprocalOk: boolean;
+  /** Variance of reciprocalTimeMs, ms². */
+  reciprocalVarianceMs2: number;
   plusTimeMs: (number | null)[];
   minusTimeMs: (number | null)[];
   /** Geophones where either shot's time was phantomed. */
@@ -182,9 +183,7 @@ export function interpret(survey: Survey): Interpretation {
     }
   }
   const toleranceMs = positiveOr(options.reciprocalToleranceMs, DEFAULT_RECIPROCAL_TOLERANCE_MS, true);
-  // Extrapolated reciprocal times are re-read from the picks nearest the other shot (local-reciprocal.ts).
-  const firstReading = reciprocalChecks(survey, analysed, toleranceMs);
-  const reciprocal = refineReciprocalChecks(survey, analysed, firstReading.checks, firstReading.warnings, geophoneSpacingM(survey.geophones), pickUncertaintyMs);
+  const reciprocal = reciprocalChecks(survey, analysed, toleranceMs);
   warnings.push(...reciprocal.warnings);
 
   // 3. Phantoming of the end shots from the off-end shots on their side.
@@ -238,7 +237,7 @@ export function interpret(survey: Survey): Interpretation {
     const tAB = (check.forwardMs + check.reverseMs) / 2;
     const left = headWaveTimes(survey, a, 'right', phantoms, pickUncertaintyMs);
     const right = headWaveTimes(survey, b, 'left', phantoms, pickUncertaintyMs);
-    const reciprocalVariance = reciprocalVarianceMs2(check, pickUncertaintyMs);
+    const reciprocalVariance = reciprocalVarianceMs2(check, pickUncertaintyMs, geophoneSpacingM(survey.geophones));
     const pm = plusMinus({
       leftShotXM: a.x,
       rightShotXM: b.x,
@@ -251,7 +250,10 @@ export function interpret(survey: Survey): Interpretation {
       left: a,
       right: b,
       reciprocalTimeMs: tAB,
-      reciprocalOk: check.ok,
+      // A misfit of long extrapolations proves nothing (reciprocal.ts): such a pair is
+      // trusted and its tAB left to the adjustment below.
+      reciprocalOk: check.ok || !readingsVerifiable(check.forwardGapM, check.reverseGapM, geophoneSpacingM(survey.geophones)),
+      reciprocalVarianceMs2: reciprocalVariance,
       ...pm,
       phantomUsed: geophoneX.map((_, i) => pm.plusTimeMs[i] !== null && (left.phantomed[i] || right.phantomed[i])),
       minusVarianceMs2: geophoneX.map((_, i) =>
@@ -262,6 +264,7 @@ export function interpret(survey: Survey): Interpretation {
       ),
     });
   }
+  adjustReciprocalTimes(pairWork.filter((p) => p.reciprocalOk));
   if (pairs.length === 0) {
     warnings.push({
       code: 'no-opposing-pair',
@@ -557,14 +560,108 @@ function reciprocalCheckOf(checks: ReciprocalCheck[], a: string, b: string): Rec
 }
 
 /**
- * Variance of a pair's reciprocal time tAB = (forward + reverse)/2, ms²: each reading
- * σ² when picked at a geophone, (2σ)² when extrapolated along a branch line (common
- * practice: an extrapolated time is about twice as uncertain), and at least (difference/2)²,
- * the misfit the two readings actually show.
+ * Adjusts the reciprocal times of all pairs together. A pair's reciprocal time tAB is one
+ * constant for all its geophones, and the delay time at a geophone is the same whichever
+ * pair measures it (Hagedoorn 1959), so where pairs overlap their T+ differ only by the
+ * errors of their tAB. Each pair gets a correction s_p by weighted least squares over
+ *   (T+_p,i − s_p) − (T+_q,i − s_q) = 0 at every shared geophone i (weight 1/(σ²_p,i + σ²_q,i), picks only),
+ *   s_p = 0 (weight 1/var(tAB_p), the pair's own reading, so the level is set by the
+ *   best-read reciprocal times: at a geophone or a short extrapolation),
+ * the same constant shift that phantoming applies to an off-end branch, here found for all
+ * pairs at once, as in a network adjustment. It replaces long extrapolations of curved
+ * branches to off-end shots (errors of several ms) by the misfit of measured picks.
+ * Only pairs whose reciprocal check passed (or could not be verified) take part: a pair
+ * with a proven misfit stays a fallback. Mutates `pairWork` in place.
  */
-function reciprocalVarianceMs2(check: ReciprocalCheck, pickSigmaMs: number): number {
-  const reading = (source: ReciprocalCheck['forwardSource']): number => (source === 'extrapolated' ? 4 : 1) * pickSigmaMs * pickSigmaMs;
-  const fromReadings = (reading(check.forwardSource) + reading(check.reverseSource)) / 4;
+function adjustReciprocalTimes(pairWork: PairWork[]): void {
+  const k = pairWork.length;
+  if (k < 2) return;
+  const a: number[][] = Array.from({ length: k }, () => new Array<number>(k).fill(0));
+  const b = new Array<number>(k).fill(0);
+  const pickVariance = (p: PairWork, i: number): number | null => {
+    const v = p.plusVarianceMs2[i];
+    return p.plusTimeMs[i] === null || v === null ? null : Math.max(v - p.reciprocalVarianceMs2, 1e-6);
+  };
+  pairWork.forEach((p, m) => (a[m][m] += 1 / Math.max(p.reciprocalVarianceMs2, 1e-6)));
+  let overlaps = 0;
+  for (let m = 0; m < k; m++) {
+    for (let n = m + 1; n < k; n++) {
+      const p = pairWork[m];
+      const q = pairWork[n];
+      p.plusTimeMs.forEach((tp, i) => {
+        const tq = q.plusTimeMs[i];
+        const vp = pickVariance(p, i);
+        const vq = pickVariance(q, i);
+        if (tp === null || tq === null || vp === null || vq === null) return;
+        // residual r = (tp − s_m) − (tq − s_n); minimising w·r² adds to the normal equations.
+        const w = 1 / (vp + vq);
+        const d = tp - tq;
+        a[m][m] += w;
+        a[n][n] += w;
+        a[m][n] -= w;
+        a[n][m] -= w;
+        b[m] += w * d;
+        b[n] -= w * d;
+        overlaps++;
+      });
+    }
+  }
+  if (overlaps === 0) return;
+  const shifts = solveSymmetric(a, b);
+  if (!shifts) return;
+  // Variance of each corrected tAB: the diagonal of the inverse normal matrix.
+  const inverseDiagonal = pairWork.map((_, m) => {
+    const e = new Array<number>(k).fill(0);
+    e[m] = 1;
+    return solveSymmetric(a, e)?.[m] ?? null;
+  });
+  pairWork.forEach((p, m) => {
+    const shift = shifts[m];
+    const variance = inverseDiagonal[m];
+    if (!Number.isFinite(shift) || variance === null || !(variance > 0)) return;
+    p.plusTimeMs = p.plusTimeMs.map((v) => (v === null ? null : v - shift));
+    p.reciprocalTimeMs += shift;
+    p.plusVarianceMs2 = p.plusVarianceMs2.map((v) => (v === null ? null : v - p.reciprocalVarianceMs2 + variance));
+    p.reciprocalVarianceMs2 = variance;
+  });
+}
+
+/** Solves a small symmetric positive-definite system by Gaussian elimination with partial pivoting; null if singular. */
+function solveSymmetric(matrix: number[][], rhs: number[]): number[] | null {
+  const n = rhs.length;
+  const m = matrix.map((row, i) => [...row, rhs[i]]);
+  for (let c = 0; c < n; c++) {
+    let pivot = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(m[r][c]) > Math.abs(m[pivot][c])) pivot = r;
+    if (!(Math.abs(m[pivot][c]) > 1e-12)) return null;
+    [m[c], m[pivot]] = [m[pivot], m[c]];
+    for (let r = c + 1; r < n; r++) {
+      const f = m[r][c] / m[c][c];
+      for (let j = c; j <= n; j++) m[r][j] -= f * m[c][j];
+    }
+  }
+  const x = new Array<number>(n).fill(0);
+  for (let r = n - 1; r >= 0; r--) {
+    let sum = m[r][n];
+    for (let j = r + 1; j < n; j++) sum -= m[r][j] * x[j];
+    x[r] = sum / m[r][r];
+  }
+  return x;
+}
+
+/**
+ * Variance of a pair's reciprocal time tAB = (forward + reverse)/2, ms²: each reading σ²
+ * at a geophone, growing with the square of the distance it is extrapolated, in units of
+ * two geophone spacings (σ²·(1 + (gap/2d)²); our choice, shaped like the variance of a
+ * line extrapolated beyond its data), and at least (difference/2)², the misfit the two
+ * readings actually show.
+ */
+function reciprocalVarianceMs2(check: ReciprocalCheck, pickSigmaMs: number, spacingM: number): number {
+  const reading = (gapM: number | undefined, source: ReciprocalCheck['forwardSource']): number => {
+    const gap = gapM ?? (source === 'extrapolated' ? 2 * spacingM : 0);
+    return pickSigmaMs * pickSigmaMs * (1 + (gap / (2 * spacingM)) ** 2);
+  };
+  const fromReadings = (reading(check.forwardGapM, check.forwardSource) + reading(check.reverseGapM, check.reverseSource)) / 4;
   return Math.max(fromReadings, (check.differenceMs / 2) ** 2);
 }
 

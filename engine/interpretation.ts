@@ -56,6 +56,11 @@ export interface SideBranches {
   crossoverDistance: number | null;
   /** True when options.branchOverrides fixed the split. */
   overridden: boolean;
+  /**
+   * True when a deeper refracted branch was seen on this side but not from the opposite
+   * direction over a common stretch, so its picks were kept on the first refractor.
+   */
+  deeperBranchUnreversed?: boolean;
 }
 
 export interface ShotAnalysis {
@@ -88,6 +93,9 @@ export interface ReciprocalCheck {
   /** Whether each time was read at a geophone or extrapolated along the refracted branch. */
   forwardSource?: 'geophone' | 'extrapolated';
   reverseSource?: 'geophone' | 'extrapolated';
+  /** Distance from each reading to the nearest pick it rests on, m (0 when read at a geophone). */
+  forwardGapM?: number;
+  reverseGapM?: number;
   toleranceMs?: number;
 }
 

@@ -27,7 +27,8 @@ export const DEFAULT_RECIPROCAL_TOLERANCE_MS = 3;
 /** A geophone counts as "at" a shot when within this fraction of the spacing. */
 const AT_SHOT_FRACTION_OF_SPACING = 0.25;
 
-type Reading = { timeMs: number; source: 'geophone' | 'extrapolated' };
+/** A time read at another shot's position; gapM is how far it lies from the nearest pick used. */
+type Reading = { timeMs: number; source: 'geophone' | 'extrapolated'; gapM: number };
 
 /** Time that shot `from` records at position `atX`, or null when it cannot be read. */
 function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | null {
@@ -40,16 +41,17 @@ function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | 
   });
   if (nearest >= 0 && Math.abs(survey.geophones[nearest].x - atX) <= limit) {
     const t = shot.times[nearest];
-    if (t !== null && t !== undefined && Number.isFinite(t)) return { timeMs: t, source: 'geophone' };
+    if (t !== null && t !== undefined && Number.isFinite(t)) return { timeMs: t, source: 'geophone', gapM: 0 };
   }
   const local = localExtrapolationMs(survey, shot.times, from, atX);
-  if (local !== null) return { timeMs: local, source: 'extrapolated' };
+  if (local !== null) return { timeMs: local.timeMs, source: 'extrapolated', gapM: local.gapM };
   const side = atX > from.x ? from.right : from.left;
   const lines = side?.refracted ?? [];
   if (lines.length === 0) return null;
   const offsetM = Math.abs(atX - from.x);
   const timeMs = Math.min(...lines.map((l) => timeOnBranchMs(l, offsetM)));
-  return Number.isFinite(timeMs) ? { timeMs, source: 'extrapolated' } : null;
+  const gapM = Math.min(...lines.map((l) => Math.min(Math.abs(l.fromX - atX), Math.abs(l.toX - atX))));
+  return Number.isFinite(timeMs) ? { timeMs, source: 'extrapolated', gapM } : null;
 }
 
 /** Least picks for a local fit, and the window's extra width in geophone spacings. */
@@ -60,7 +62,12 @@ const LOCAL_WINDOW_SPACINGS = 3;
  * Time at `atX` from a least-squares line through the refracted picks of `from` nearest
  * to `atX` on the side facing it; null with fewer than 3 such picks.
  */
-function localExtrapolationMs(survey: Survey, times: (number | null)[], from: ShotAnalysis, atX: number): number | null {
+function localExtrapolationMs(
+  survey: Survey,
+  times: (number | null)[],
+  from: ShotAnalysis,
+  atX: number,
+): { timeMs: number; gapM: number } | null {
   const facingRight = atX > from.x;
   const picks: { x: number; t: number; branch: number }[] = [];
   survey.geophones.forEach((g, i) => {
@@ -88,7 +95,19 @@ function localExtrapolationMs(survey: Survey, times: (number | null)[], from: Sh
   }
   if (!(sxx > 0)) return null;
   const timeMs = meanT + (sxt / sxx) * (atX - meanX);
-  return Number.isFinite(timeMs) ? timeMs : null;
+  return Number.isFinite(timeMs) ? { timeMs, gapM } : null;
+}
+
+/**
+ * A misfit points to a bad pick or trigger unless both readings are long extrapolations
+ * (beyond VERIFIABLE_GAP_SPACINGS geophone spacings from the picks they rest on), where a
+ * curved branch alone can explain it. Our choice.
+ */
+export const VERIFIABLE_GAP_SPACINGS = 2;
+
+export function readingsVerifiable(forwardGapM: number | undefined, reverseGapM: number | undefined, spacingM: number): boolean {
+  const limit = VERIFIABLE_GAP_SPACINGS * spacingM;
+  return (forwardGapM ?? 0) <= limit || (reverseGapM ?? 0) <= limit;
 }
 
 const ms = (v: number): string => v.toFixed(1);
@@ -100,6 +119,7 @@ export function reciprocalChecks(
 ): { checks: ReciprocalCheck[]; warnings: Warning[] } {
   const tolerance = Number.isFinite(toleranceMs) && toleranceMs >= 0 ? toleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
   const byX = [...shots].sort((a, b) => a.x - b.x);
+  const spacingM = geophoneSpacingM(survey.geophones);
   const checks: ReciprocalCheck[] = [];
   const warnings: Warning[] = [];
   for (let i = 0; i < byX.length; i++) {
@@ -128,9 +148,19 @@ export function reciprocalChecks(
         ok,
         forwardSource: forward.source,
         reverseSource: reverse.source,
+        forwardGapM: forward.gapM,
+        reverseGapM: reverse.gapM,
         toleranceMs: tolerance,
       });
-      if (!ok) {
+      if (!ok && !readingsVerifiable(forward.gapM, reverse.gapM, spacingM)) {
+        warnings.push({
+          code: 'reciprocal-unverified',
+          message:
+            `Reciprocal times of shots ${a.id} and ${b.id} differ by ${ms(differenceMs)} ms, but both readings are extrapolated ` +
+            `${ms(Math.min(forward.gapM, reverse.gapM))} m or more beyond the picks, where a curved branch alone can explain it; ` +
+            `the pair's reciprocal time is adjusted to the other pairs instead of being trusted as read.`,
+        });
+      } else if (!ok) {
         warnings.push({
           code: 'reciprocal-misfit',
           message:

@@ -158,6 +158,20 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
 
   if (forcedLayers !== 2) relabelFarOffEndSides(choices, (s, k) => sides[s][k].picks);
 
+  // Pass 4: unforced, a second refractor must be reversed: shot from both directions over
+  // a common stretch of the line. Undulations of one refractor bend a branch one way from
+  // one end and elsewhere from the other; a deeper layer is seen from both.
+  const suppressed = new Set<string>();
+  if (forcedLayers === undefined && !secondRefractorReversed(choices, sides)) {
+    choices.forEach((pair, s) =>
+      pair.forEach((c, k) => {
+        if (!c || c.overridden || !c.branchOfSidePick.includes(2)) return;
+        suppressed.add(`${s}:${k}`);
+        pair[k] = choose(sides[s][k], false);
+      }),
+    );
+  }
+
   return survey.shots.map((shot, s) => {
     const branchOfPick: (BranchIndex | null)[] = survey.geophones.map(() => null);
     survey.geophones.forEach((g, i) => {
@@ -174,6 +188,7 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
         refracted: choice.refracted,
         crossoverDistance: crossoverDistanceM(choice.direct, choice.refracted[0]),
         overridden: choice.overridden,
+        ...(suppressed.has(`${s}:${k}`) ? { deeperBranchUnreversed: true } : {}),
       };
       return result;
     });
@@ -187,6 +202,30 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
       branchOfPick,
     };
   });
+}
+
+/** Fewest geophones that branch-2 picks of both shooting directions must share. Our choice. */
+export const MIN_REVERSED_GEOPHONES = 3;
+
+/**
+ * True when no side holds a second-refractor branch, or when branch-2 picks of sides
+ * shooting toward +x and of sides shooting toward −x fall on at least
+ * MIN_REVERSED_GEOPHONES common geophones: a reversed profile of the deeper refractor,
+ * which the plus-minus method needs (Hagedoorn 1959) and without which its dip and
+ * velocity cannot be told apart (Kearey, Brooks & Hill 2002, ch. 5).
+ */
+function secondRefractorReversed(
+  choices: (SideChoice | null)[][],
+  sides: { picks: { geophone: number }[] }[][],
+): boolean {
+  const seen: [Set<number>, Set<number>] = [new Set(), new Set()];
+  choices.forEach((pair, s) =>
+    pair.forEach((c, k) => c?.branchOfSidePick.forEach((b, j) => b === 2 && seen[k].add(sides[s][k].picks[j].geophone))),
+  );
+  if (seen[0].size === 0 && seen[1].size === 0) return true;
+  let common = 0;
+  for (const g of seen[0]) if (seen[1].has(g)) common++;
+  return common >= MIN_REVERSED_GEOPHONES;
 }
 
 /**

@@ -82,9 +82,15 @@ describe('the second refractor in interpret', () => {
 
   it('warns that V3 is only apparent when branch 2 is shot one way only, and gives finite numbers', () => {
     // Shots only at and beyond the west end: every branch-2 arrival travels east.
-    const r = interpret(survey([['W-far', -12], ['W-end', -1]]));
+    // Found automatically, an unreversed deeper branch is not taken as a layer; forced, it is
+    // mapped with an apparent V3.
+    const found = interpret(survey([['W-far', -12], ['W-end', -1]]));
+    expect(found.qc.warnings.map((w) => w.code)).toContain('deeper-refractor-unreversed');
+    const base = survey([['W-far', -12], ['W-end', -1]]);
+    const r = interpret({ ...base, options: { ...base.options, layers: 3 } });
     const codes = r.qc.warnings.map((w) => w.code);
     expect(codes).toContain('second-refractor-one-way');
+    expect(JSON.parse(JSON.stringify(found))).toEqual(found);
     expect(JSON.parse(JSON.stringify(r))).toEqual(r);
   });
 });
