@@ -120,3 +120,52 @@ describe('reciprocalChecks', () => {
     expect(warnings[0].message).toContain('b');
   });
 });
+
+describe('reciprocalChecks: local readings', () => {
+  it('reads a curved branch from the picks nearest the other shot, not from a line through the whole branch', () => {
+    // A branch bending by 0.004 ms/m² (an undulating refractor does this): the time 1 m
+    // beyond the last geophone follows the local slope.
+    const curved = (x: number): number => 10 + x / 2.2 + 0.004 * (x - 10) ** 2;
+    const geophones = GEOPHONES;
+    const s: Survey = {
+      geophones,
+      shots: [
+        { id: 'W-end', x: -1, times: geophones.map((g) => curved(g.x)) },
+        { id: 'E-end', x: 47, times: geophones.map((g) => 5 + (47 - g.x) / 2.4) },
+      ],
+    };
+    const shots = assignBranches(s, { layers: 2 });
+    // Make every pick of both shots refracted so the rule under test is the only one at work.
+    for (const shot of shots) shot.branchOfPick = shot.branchOfPick.map((b) => (b === null ? null : 1));
+    const check = reciprocalChecks(s, shots, 3).checks[0];
+    expect(check.forwardSource).toBe('extrapolated');
+    expect(check.forwardGapM).toBeCloseTo(1, 9);
+    // The exact value lies between the local tangent and the curve; a least-squares line
+    // through all 24 picks misses it by over 1 ms.
+    const xs = geophones.map((g) => g.x);
+    const ts = xs.map(curved);
+    const mx = xs.reduce((a, v) => a + v, 0) / xs.length;
+    const mt = ts.reduce((a, v) => a + v, 0) / ts.length;
+    const slope = xs.reduce((a, x, i) => a + (x - mx) * (ts[i] - mt), 0) / xs.reduce((a, x) => a + (x - mx) ** 2, 0);
+    const wholeLine = mt + slope * (47 - mx);
+    expect(Math.abs(wholeLine - curved(47))).toBeGreaterThan(1);
+    expect(Math.abs(check.forwardMs - curved(47))).toBeLessThan(0.1);
+  });
+
+  it('calls a misfit of two long extrapolations unverified, and one with a short reading a misfit', () => {
+    const s = survey([
+      ['W-off', -30],
+      ['W-end', -1],
+      ['E-end', 47],
+      ['E-off', 76],
+    ]);
+    const eOff = s.shots.find((x) => x.id === 'E-off')!;
+    eOff.times = eOff.times.map((t) => (t === null ? null : t + 5));
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s, { layers: 2 }), 3);
+    const farPair = checks.find((c) => c.shots.join() === 'W-off,E-off')!;
+    expect(farPair.ok).toBe(false);
+    expect(Math.min(farPair.forwardGapM!, farPair.reverseGapM!)).toBeGreaterThan(4);
+    expect(warnings.some((w) => w.code === 'reciprocal-unverified' && w.message.includes('W-off and E-off'))).toBe(true);
+    expect(warnings.some((w) => w.code === 'reciprocal-misfit' && w.message.includes('W-end and E-off'))).toBe(true);
+  });
+});
