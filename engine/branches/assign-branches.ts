@@ -156,7 +156,6 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
     }
   }
 
-  if (forcedLayers !== 2) relabelFarOffEndSides(choices, (s, k) => sides[s][k].picks);
 
   // Pass 4: unforced, a second refractor must be reversed: shot from both directions over
   // a common stretch of the line. Undulations of one refractor bend a branch one way from
@@ -171,6 +170,9 @@ export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotA
       }),
     );
   }
+  // Only now, with the deeper refractor confirmed by sides that show both branches, may a
+  // far off-end side be read as wholly beyond the crossover (never to supply the reversal).
+  if (forcedLayers !== 2) relabelFarOffEndSides(choices, (s, k) => sides[s][k].picks);
 
   return survey.shots.map((shot, s) => {
     const branchOfPick: (BranchIndex | null)[] = survey.geophones.map(() => null);
