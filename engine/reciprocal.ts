@@ -112,6 +112,14 @@ export function readingsVerifiable(forwardGapM: number | undefined, reverseGapM:
 
 const ms = (v: number): string => v.toFixed(1);
 
+/** A sentence for a misfit whose one reading is a long extrapolation (which alone can cause it). */
+function longReadingNote(aId: string, bId: string, forwardGapM: number, reverseGapM: number, spacingM: number): string {
+  const limit = VERIFIABLE_GAP_SPACINGS * spacingM;
+  if (forwardGapM <= limit && reverseGapM <= limit) return '';
+  const [who, where, gap] = forwardGapM > reverseGapM ? [aId, bId, forwardGapM] : [bId, aId, reverseGapM];
+  return ` The time of ${who} at ${where}'s position is extrapolated ${ms(gap)} m beyond its picks, which alone can cause such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
+}
+
 export function reciprocalChecks(
   survey: Survey,
   shots: ShotAnalysis[],
@@ -166,7 +174,8 @@ export function reciprocalChecks(
           message:
             `Reciprocal times of shots ${a.id} and ${b.id} differ by ${ms(differenceMs)} ms ` +
             `(${a.id}→${b.id} ${ms(forward.timeMs)} ms, ${b.id}→${a.id} ${ms(reverse.timeMs)} ms; ` +
-            `tolerance ${ms(tolerance)} ms): check the picks near both shots and their trigger times.`,
+            `tolerance ${ms(tolerance)} ms): check the picks near both shots and their trigger times.` +
+            longReadingNote(a.id, b.id, forward.gapM, reverse.gapM, spacingM),
         });
       }
     }
