@@ -8,7 +8,7 @@
  * Deterministic and pure. The survey must already be valid (validateSurvey). Nothing is
  * rounded on the way; the output's own numbers are rounded once, in `OUTPUT_DECIMALS`.
  *
- * Choices (documented in .notes/readme-plus-minus.md and .notes/readme-structure-integration.md):
+ * Choices (documented in README.md, "What Arcline computes", and docs/developers/plus-minus.md):
  *  - T+ at a geophone is the inverse-variance weighted mean over every opposing pair that
  *    covers it; pairs whose reciprocal check fails are used only where no passing pair
  *    reaches; extrapolated reciprocal times are re-read from the nearest picks;
@@ -27,10 +27,12 @@
 import { linearRegression } from 'simple-statistics';
 import type { Survey } from './survey.js';
 import type {
+  BranchLine,
   Interpretation,
   OpposingPairVelocities,
   ReciprocalCheck,
   ShotAnalysis,
+  SideBranches,
   Station,
   VelocityAnalysis,
   Warning,
@@ -535,9 +537,9 @@ export function interpret(survey: Survey): Interpretation {
     layers,
     refractorVelocity,
     features,
-    qc: { reciprocal: reciprocal.checks, warnings },
-    shots,
-    velocityAnalysis,
+    qc: { reciprocal: reciprocal.checks.map(roundReciprocalCheck), warnings },
+    shots: shots.map(roundShotBranches),
+    velocityAnalysis: { ...velocityAnalysis, pairs: velocityAnalysis.pairs.map(roundPairVelocities) },
     cautions: [...CAUTIONS],
   };
   // Second refractor by layer stripping (engine/second-refractor.ts), then cautions from the data (engine/data-cautions.ts).
@@ -995,6 +997,49 @@ function roundTo(value: number, decimals: number): number {
   const r = Math.round(value * f) / f;
   return r === 0 ? 0 : r; // never −0
 }
+/** Output precision for the per-shot branch lines, the reciprocal checks and the pair velocities. */
+function roundBranchLine(line: BranchLine): BranchLine {
+  return { ...line, velocity: roundV(line.velocity), interceptMs: roundMs(line.interceptMs), fromX: roundM(line.fromX), toX: roundM(line.toX), rmsMs: roundMs(line.rmsMs) };
+}
+
+function roundSide(side: SideBranches | null): SideBranches | null {
+  if (!side) return null;
+  return {
+    ...side,
+    direct: side.direct ? roundBranchLine(side.direct) : null,
+    refracted: side.refracted.map(roundBranchLine),
+    crossoverDistance: side.crossoverDistance === null ? null : roundM(side.crossoverDistance),
+  };
+}
+
+function roundShotBranches(shot: ShotAnalysis): ShotAnalysis {
+  return { ...shot, left: roundSide(shot.left), right: roundSide(shot.right) };
+}
+
+function roundReciprocalCheck(c: ReciprocalCheck): ReciprocalCheck {
+  return {
+    ...c,
+    forwardMs: roundMs(c.forwardMs),
+    reverseMs: roundMs(c.reverseMs),
+    differenceMs: roundMs(c.differenceMs),
+    ...(c.forwardGapM !== undefined ? { forwardGapM: roundM(c.forwardGapM) } : {}),
+    ...(c.reverseGapM !== undefined ? { reverseGapM: roundM(c.reverseGapM) } : {}),
+  };
+}
+
+function roundPairVelocities(p: OpposingPairVelocities): OpposingPairVelocities {
+  return {
+    ...p,
+    downDipVelocity: roundV(p.downDipVelocity),
+    upDipVelocity: roundV(p.upDipVelocity),
+    trueVelocity: roundV(p.trueVelocity),
+    trueVelocityGentleDip: roundV(p.trueVelocityGentleDip),
+    dipDegrees: roundDeg(p.dipDegrees),
+    criticalAngleDegrees: roundDeg(p.criticalAngleDegrees),
+    depthUnderShots: p.depthUnderShots.map((d) => ({ ...d, normalDepth: roundM(d.normalDepth), verticalDepth: roundM(d.verticalDepth) })),
+  };
+}
+
 const roundM = (v: number): number => roundTo(v, OUTPUT_DECIMALS.metres);
 const roundMs = (v: number): number => roundTo(v, OUTPUT_DECIMALS.milliseconds);
 const roundV = (v: number): number => roundTo(v, OUTPUT_DECIMALS.velocity);

@@ -22,7 +22,7 @@
  *
  * Cost: one grid build and one solve per shot; the grid's cell is chosen in
  * interpretation-model.ts (≤ 0.5 m, ≤ spacing/6, capped in nodes). Measured in
- * .notes/dev-residuals.md.
+ * docs/developers/residuals.md.
  */
 import type { Survey } from './survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from './interpretation.js';

@@ -49,7 +49,7 @@ export const MIN_INIT_RADIUS_CELLS = 5;
 /**
  * Default radius of the straight-ray start, m. A start of fixed size in metres, not in
  * cells, keeps the source error shrinking at second order as the grid is refined; a start
- * of fixed cell count leaves first-order convergence (measured: .notes/dev-forward.md).
+ * of fixed cell count leaves first-order convergence (measured: docs/developers/forward.md).
  */
 export const DEFAULT_INIT_RADIUS_M = 2;
 

@@ -42,7 +42,7 @@ export const MODEL_DEPTH_BELOW_M = 2;
  * not below RESIDUAL_MIN_CELL_M, then coarsened until the grid holds at most
  * RESIDUAL_MAX_NODES nodes and the whole line at most RESIDUAL_MAX_NODE_SOLVES node-solves.
  * At 0.5 m the solver's head-wave error is about 0.05 ms over a flat refractor and 0.06–0.11
- * ms over a 5° dip (.notes/dev-forward.md), well under a pick's uncertainty.
+ * ms over a 5° dip (docs/developers/forward.md), well under a pick's uncertainty.
  */
 export const RESIDUAL_MAX_CELL_M = 0.5;
 export const RESIDUAL_MIN_CELL_M = 0.1;

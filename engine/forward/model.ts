@@ -18,7 +18,7 @@
  * (horizontal slowness s_min) crosses the cell vertically in the same time as across the
  * true interface, Σ f_m·h·√(s_m² − s_min²); it moves the modelled interface to its true
  * elevation inside the cell instead of to a node row, which cuts the head-wave error from
- * first order in the cell size to well below it (measured: .notes/dev-forward.md).
+ * first order in the cell size to well below it (measured: docs/developers/forward.md).
  * A cell that holds any ground is ground (its slowness from the ground part alone), and the
  * material at the surface continues GROUND_SKIN_CELLS cells up into the air, so a wave
  * along the surface never crosses air or a staircase of cut cells; cells above that are air.
@@ -73,7 +73,7 @@ export const MODEL_LIMITS = {
 /**
  * Thickness of the ground skin, in cells: the surface material is continued this far into
  * the air, so that straight rays along a sloping or curved surface run inside the solver's
- * ground instead of along a staircase of cut cells (measured: .notes/dev-forward.md).
+ * ground instead of along a staircase of cut cells (measured: docs/developers/forward.md).
  */
 export const GROUND_SKIN_CELLS = 2;
 

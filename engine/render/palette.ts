@@ -2,7 +2,7 @@
  * Arcline's colours, in one place. Chosen for this project (not taken from another
  * program's scheme) and checked for the two common red–green colour-vision deficiencies.
  *
- * How they were checked (numbers in .notes/readme-render.md, re-checked by
+ * How they were checked (numbers in README.md, "The drawings", re-checked by
  * tests/engine/render/palette.test.ts):
  * - Every line and marker colour has a contrast ratio of at least 3:1 against white, the
  *   WCAG 2.1 minimum for graphical objects (W3C, WCAG 2.1, success criterion 1.4.11),

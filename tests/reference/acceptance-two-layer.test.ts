@@ -28,7 +28,7 @@
  *
  * Closing the loop: an interpretation forward-modelled through its own section gives new
  * picks; interpreting those must leave residuals under 0.15 ms RMS: the solver's own error
- * on these grids is ≤ 0.06 ms over a 5° dip at 0.25–0.33 m cells (.notes/dev-forward.md),
+ * on these grids is ≤ 0.06 ms over a 5° dip at 0.25–0.33 m cells (docs/developers/forward.md),
  * picks and outputs are rounded to 0.01 ms / 0.01 m / 1 m/s (≤ 0.02 ms more), and the
  * interpretation of exact picks over a plane is exact to the 0.2 % above (≤ 0.05 ms).
  * Measured: 0.12 ms (flat) and 0.13 ms (dip +5°), starting from the noisy lines, whose

@@ -113,7 +113,7 @@ describe('eikonal solver against closed forms (Kearey et al. 2002 ch. 5; Telford
   });
 
   it('error falls as the grid is refined (3 halvings, 1 m to 0.125 m) at the observed order we claim', () => {
-    // Claim (measured, see .notes/dev-forward.md): second-order stencils and a source start of
+    // Claim (measured, see docs/developers/forward.md): second-order stencils and a source start of
     // fixed size in metres give about order 1.6 in a uniform medium and 2 over a flat refractor;
     // a dipping refractor cuts cells obliquely, where the cell mixing is only first-order
     // right, and converges at about order 1. Asserted with a margin: 1.4, 1.4 and 0.9.
