@@ -3,15 +3,14 @@
  * the demo section on load, a CSV line interpreted, stored and shared, errors in plain
  * words, keyboard reach, no console errors and no CSP violations.
  */
-import { mkdir, mkdtemp, readFile, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
+import { mkdir, readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { CAUTIONS } from '../../engine/cautions.js';
 import type { Survey } from '../../engine/survey.js';
-import { buildApp } from '../../server/app.js';
-import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, launchChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
+import { servePageInChromium, type ServedPage } from './served-page.js';
+import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 
 const SAMPLES = resolve(import.meta.dirname, '../../samples');
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
@@ -63,9 +62,8 @@ describe.skipIf(!browserTestsRun)('Chromium for the browser tests', () => {
 
 describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   let launched: LaunchedBrowser;
-  let app: Awaited<ReturnType<typeof buildApp>>;
+  let served: ServedPage;
   let baseUrl: string;
-  let dataDir: string;
   let demo: Survey;
   let flat: Survey;
 
@@ -73,17 +71,12 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await mkdir(SCREENSHOTS, { recursive: true });
     demo = await readSample('demo-line.json');
     flat = await readSample('flat-line.json');
-    dataDir = await mkdtemp(join(tmpdir(), 'arcline-e2e-'));
-    app = await buildApp({ dataDir, seedDemo: true });
-    const address = await app.listen({ port: 0, host: '127.0.0.1' });
-    baseUrl = address.endsWith('/') ? address : address + '/';
-    launched = await launchChromium();
+    served = await servePageInChromium({ seedDemo: true });
+    ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
 
   afterAll(async () => {
-    await launched?.close();
-    await app?.close();
-    if (dataDir) await rm(dataDir, { recursive: true, force: true });
+    await served?.close();
   }, BROWSER_TEST_TIMEOUT_MS);
 
   it('opens the stored demo line on load with its depth section and time–distance plot drawn', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {

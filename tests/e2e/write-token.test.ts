@@ -3,13 +3,12 @@
  * Store from the page until the token is entered, then accepts it; the token is kept for
  * the tab (sessionStorage) across a reload.
  */
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
+import { readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Survey } from '../../engine/survey.js';
-import { buildApp } from '../../server/app.js';
-import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, launchChromium, watchPage, type LaunchedBrowser } from './browser.js';
+import { servePageInChromium, type ServedPage } from './served-page.js';
+import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, watchPage, type LaunchedBrowser } from './browser.js';
 
 const SAMPLES = resolve(import.meta.dirname, '../../samples');
 // Invented for this test only.
@@ -17,26 +16,20 @@ const WRITE_TOKEN = 'e2e-token-4f9c2a71';
 
 describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
   let launched: LaunchedBrowser;
-  let app: Awaited<ReturnType<typeof buildApp>>;
+  let served: ServedPage;
   let baseUrl: string;
-  let dataDir: string;
   let demoText: string;
   let demo: Survey;
 
   beforeAll(async () => {
     demoText = await readFile(join(SAMPLES, 'demo-line.json'), 'utf8');
     demo = JSON.parse(demoText) as Survey;
-    dataDir = await mkdtemp(join(tmpdir(), 'arcline-e2e-token-'));
-    app = await buildApp({ dataDir, writeToken: WRITE_TOKEN });
-    const address = await app.listen({ port: 0, host: '127.0.0.1' });
-    baseUrl = address.endsWith('/') ? address : address + '/';
-    launched = await launchChromium();
+    served = await servePageInChromium({ writeToken: WRITE_TOKEN });
+    ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
 
   afterAll(async () => {
-    await launched?.close();
-    await app?.close();
-    if (dataDir) await rm(dataDir, { recursive: true, force: true });
+    await served?.close();
   }, BROWSER_TEST_TIMEOUT_MS);
 
   it('refuses Store without the token, stores with it, and keeps the token for the tab', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
