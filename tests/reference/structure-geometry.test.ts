@@ -10,30 +10,12 @@
  * Hill 2002, ch. 5). Tolerances: the issue "Structure under the line" (depth 5 %, dip 0.5°).
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
 import { elevationAt, type ModelPoint } from '../../engine/forward/polyline.js';
+import { CELL_M, LAYOUT, SEVEN_SHOTS, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
 import type { Survey } from '../../engine/survey.js';
 import type { Interpretation } from '../../engine/interpretation.js';
-
-const LAYOUT = { geophoneCount: 48, firstX: 0, spacing: 2 };
-const CELL_M = 0.25;
-const V1 = 600;
-const V2 = 2400;
-const level = (elevation: number): ModelPoint[] => [
-  { x: -1000, elevation },
-  { x: 1000, elevation },
-];
-
-/** The layer count is left to the engine (no third layer may be invented); residuals skipped (cost). */
-function run(survey: Survey): Interpretation {
-  return interpret({ ...survey, options: { residuals: false } });
-}
-
-function trueDepthM(model: LayeredModel, x: number): number {
-  return elevationAt(model.surface, x) - elevationAt(model.layers[1].top as ModelPoint[], x);
-}
 
 /** Relative depth errors at every station that has a depth, and how many have none. */
 function depthCheck(model: LayeredModel, result: Interpretation): { worst: number; covered: number; errors: { x: number; relative: number }[] } {
@@ -43,19 +25,6 @@ function depthCheck(model: LayeredModel, result: Interpretation): { worst: numbe
   return { worst: Math.max(...errors.map((e) => e.relative)), covered: errors.length, errors };
 }
 
-function report(name: string, values: Record<string, unknown>): void {
-  console.log(`[structure] ${name}: ${JSON.stringify(values)}`);
-}
-
-const SEVEN_SHOTS = [
-  { x: -24, id: 'W-off' },
-  { x: -1, id: 'W-end' },
-  { x: 23, id: 'S23' },
-  { x: 47, id: 'S47' },
-  { x: 71, id: 'S71' },
-  { x: 95, id: 'E-end' },
-  { x: 118, id: 'E-off' },
-];
 
 const ELEVEN_SHOTS = [
   { x: -44, id: 'W-off2' },

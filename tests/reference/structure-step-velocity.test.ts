@@ -14,46 +14,13 @@
  * "Structure under the line".
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import { layerVelocityAt, type LayeredModel } from '../../engine/forward/model.js';
 import { elevationAt, type ModelPoint } from '../../engine/forward/polyline.js';
+import { CELL_M, LAYOUT, SEVEN_SHOTS, SPACING_M, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
 import { seededUniform, standardNormal } from '../../engine/forward/seeded-random.js';
 import type { Survey } from '../../engine/survey.js';
 import type { Interpretation } from '../../engine/interpretation.js';
-
-const SPACING_M = 2;
-const LAYOUT = { geophoneCount: 48, firstX: 0, spacing: SPACING_M };
-const SEVEN_SHOTS = [
-  { x: -24, id: 'W-off' },
-  { x: -1, id: 'W-end' },
-  { x: 23, id: 'S23' },
-  { x: 47, id: 'S47' },
-  { x: 71, id: 'S71' },
-  { x: 95, id: 'E-end' },
-  { x: 118, id: 'E-off' },
-];
-const CELL_M = 0.25;
-const V1 = 600;
-const V2 = 2400;
-const level = (elevation: number): ModelPoint[] => [
-  { x: -1000, elevation },
-  { x: 1000, elevation },
-];
-
-/**
- * Two-layer models with the layer count left to the engine: a step, a velocity change or
- * inside shots must not be read as a third layer. Residuals are skipped (not under test
- * here, and they cost an eikonal run per shot).
- */
-function run(survey: Survey, extra: Record<string, unknown> = {}): Interpretation {
-  return interpret({ ...survey, options: { residuals: false, ...extra } });
-}
-
-/** Vertical depth of the model's first refractor below the ground at x, m. */
-function trueDepthM(model: LayeredModel, x: number): number {
-  return elevationAt(model.surface, x) - elevationAt(model.layers[1].top as ModelPoint[], x);
-}
 
 function depthErrors(model: LayeredModel, result: Interpretation, keep: (x: number) => boolean): { x: number; relative: number }[] {
   return result.stations
@@ -61,9 +28,6 @@ function depthErrors(model: LayeredModel, result: Interpretation, keep: (x: numb
     .map((s) => ({ x: s.x, relative: s.depth === null ? Infinity : Math.abs(s.depth - trueDepthM(model, s.x)) / trueDepthM(model, s.x) }));
 }
 
-function report(name: string, values: Record<string, unknown>): void {
-  console.log(`[structure] ${name}: ${JSON.stringify(values)}`);
-}
 
 describe('flat refractor: parallel branches, and no structure read from pick noise', () => {
   const model: LayeredModel = { surface: level(0), layers: [{ velocity: V1 }, { velocity: V2, top: level(-6) }] };
