@@ -43,7 +43,7 @@ import { topLayerVelocity } from './velocities/direct-velocity.js';
 import { theilSenSlope } from './velocities/theil-sen.js';
 import { opposingPairs } from './velocities/opposing-pairs.js';
 import { opposingPairVelocities } from './velocities/slope-intercept.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, readingsVerifiable, reciprocalChecks } from './reciprocal.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from './reciprocal.js';
 import { adjustReciprocalTimes } from './reciprocal-adjustment.js';
 import { mergePhantoms, phantomArrivals, type PhantomResult } from './phantom.js';
 import { combineMinusTimes, combineWeighted, normalDepthFromDelayM, plusMinus } from './plus-minus.js';
@@ -253,9 +253,8 @@ export function interpret(survey: Survey): Interpretation {
       left: a,
       right: b,
       reciprocalTimeMs: tAB,
-      // A misfit of long extrapolations proves nothing (reciprocal.ts): such a pair is
-      // trusted and its tAB left to the adjustment below.
-      reciprocalOk: check.ok || !readingsVerifiable(check.forwardGapM, check.reverseGapM, geophoneSpacingM(survey.geophones)),
+      // The check already widens its tolerance for long extrapolations (reciprocal.ts).
+      reciprocalOk: check.ok,
       reciprocalVarianceMs2: reciprocalVariance,
       ...pm,
       phantomUsed: geophoneX.map((_, i) => pm.plusTimeMs[i] !== null && (left.phantomed[i] || right.phantomed[i])),
@@ -566,8 +565,8 @@ function reciprocalCheckOf(checks: ReciprocalCheck[], a: string, b: string): Rec
  * Variance of a pair's reciprocal time tAB = (forward + reverse)/2, ms²: each reading σ²
  * at a geophone, growing with the square of the distance it is extrapolated, in units of
  * two geophone spacings (σ²·(1 + (gap/2d)²); our choice, shaped like the variance of a
- * line extrapolated beyond its data), and at least (difference/2)², the misfit the two
- * readings actually show.
+ * line extrapolated beyond its data), plus (difference/2)², the misfit the two readings
+ * actually show.
  */
 function reciprocalVarianceMs2(check: ReciprocalCheck, pickSigmaMs: number, spacingM: number): number {
   const reading = (gapM: number | undefined, source: ReciprocalCheck['forwardSource']): number => {
@@ -575,7 +574,7 @@ function reciprocalVarianceMs2(check: ReciprocalCheck, pickSigmaMs: number, spac
     return pickSigmaMs * pickSigmaMs * (1 + (gap / (2 * spacingM)) ** 2);
   };
   const fromReadings = (reading(check.forwardGapM, check.forwardSource) + reading(check.reverseGapM, check.reverseSource)) / 4;
-  return Math.max(fromReadings, (check.differenceMs / 2) ** 2);
+  return fromReadings + (check.differenceMs / 2) ** 2;
 }
 
 /**

@@ -96,6 +96,8 @@ export interface ReciprocalCheck {
   /** Distance from each reading to the nearest pick it rests on, m (0 when read at a geophone). */
   forwardGapM?: number;
   reverseGapM?: number;
+  /** Tolerance added to toleranceMs for readings extrapolated far beyond their picks, ms. */
+  extrapolationAllowanceMs?: number;
   toleranceMs?: number;
 }
 

@@ -99,25 +99,34 @@ function localExtrapolationMs(
 }
 
 /**
- * A misfit points to a bad pick or trigger unless both readings are long extrapolations
- * (beyond VERIFIABLE_GAP_SPACINGS geophone spacings from the picks they rest on), where a
- * curved branch alone can explain it. Our choice.
+ * Readings within this many geophone spacings of the picks they rest on count as measured;
+ * farther ones are extrapolations whose own error widens the tolerance. Our choice.
  */
 export const VERIFIABLE_GAP_SPACINGS = 2;
 
-export function readingsVerifiable(forwardGapM: number | undefined, reverseGapM: number | undefined, spacingM: number): boolean {
+/** Pick uncertainty assumed when the survey gives none, ms (as interpret assumes). */
+const DEFAULT_PICK_SIGMA_MS = 0.5;
+
+/**
+ * Extra tolerance for readings extrapolated far beyond their picks: two standard errors of
+ * a line extrapolated a distance gap, taken as σ·gap/(2d) per long reading (d the geophone
+ * spacing; the shape of the error of a line extrapolated beyond its data). Readings within
+ * VERIFIABLE_GAP_SPACINGS spacings add nothing. Our choice.
+ */
+export function extrapolationAllowanceMs(forwardGapM: number, reverseGapM: number, spacingM: number, pickSigmaMs: number): number {
   const limit = VERIFIABLE_GAP_SPACINGS * spacingM;
-  return (forwardGapM ?? 0) <= limit || (reverseGapM ?? 0) <= limit;
+  const one = (gap: number): number => (gap > limit ? (2 * pickSigmaMs * gap) / (2 * spacingM) : 0);
+  return one(forwardGapM) + one(reverseGapM);
 }
 
 const ms = (v: number): string => v.toFixed(1);
 
-/** A sentence for a misfit whose one reading is a long extrapolation (which alone can cause it). */
+/** A sentence for a misfit that rests on a long extrapolation (which can add to it). */
 function longReadingNote(aId: string, bId: string, forwardGapM: number, reverseGapM: number, spacingM: number): string {
   const limit = VERIFIABLE_GAP_SPACINGS * spacingM;
   if (forwardGapM <= limit && reverseGapM <= limit) return '';
   const [who, where, gap] = forwardGapM > reverseGapM ? [aId, bId, forwardGapM] : [bId, aId, reverseGapM];
-  return ` The time of ${who} at ${where}'s position is extrapolated ${ms(gap)} m beyond its picks, which alone can cause such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
+  return ` The time of ${who} at ${where}'s position is extrapolated ${ms(gap)} m beyond its picks, which can add to such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
 }
 
 export function reciprocalChecks(
@@ -128,6 +137,7 @@ export function reciprocalChecks(
   const tolerance = Number.isFinite(toleranceMs) && toleranceMs >= 0 ? toleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
   const byX = [...shots].sort((a, b) => a.x - b.x);
   const spacingM = geophoneSpacingM(survey.geophones);
+  const pickSigmaMs = survey.options?.pickUncertaintyMs ?? DEFAULT_PICK_SIGMA_MS;
   const checks: ReciprocalCheck[] = [];
   const warnings: Warning[] = [];
   for (let i = 0; i < byX.length; i++) {
@@ -147,7 +157,8 @@ export function reciprocalChecks(
         continue;
       }
       const differenceMs = Math.abs(forward.timeMs - reverse.timeMs);
-      const ok = differenceMs <= tolerance;
+      const allowanceMs = extrapolationAllowanceMs(forward.gapM, reverse.gapM, spacingM, pickSigmaMs);
+      const ok = differenceMs <= tolerance + allowanceMs;
       checks.push({
         shots: [a.id, b.id],
         forwardMs: forward.timeMs,
@@ -158,23 +169,16 @@ export function reciprocalChecks(
         reverseSource: reverse.source,
         forwardGapM: forward.gapM,
         reverseGapM: reverse.gapM,
+        ...(allowanceMs > 0 ? { extrapolationAllowanceMs: allowanceMs } : {}),
         toleranceMs: tolerance,
       });
-      if (!ok && !readingsVerifiable(forward.gapM, reverse.gapM, spacingM)) {
-        warnings.push({
-          code: 'reciprocal-unverified',
-          message:
-            `Reciprocal times of shots ${a.id} and ${b.id} differ by ${ms(differenceMs)} ms, but both readings are extrapolated ` +
-            `${ms(Math.min(forward.gapM, reverse.gapM))} m or more beyond the picks, where a curved branch alone can explain it; ` +
-            `the pair's reciprocal time is adjusted to the other pairs instead of being trusted as read.`,
-        });
-      } else if (!ok) {
+      if (!ok) {
         warnings.push({
           code: 'reciprocal-misfit',
           message:
             `Reciprocal times of shots ${a.id} and ${b.id} differ by ${ms(differenceMs)} ms ` +
             `(${a.id}→${b.id} ${ms(forward.timeMs)} ms, ${b.id}→${a.id} ${ms(reverse.timeMs)} ms; ` +
-            `tolerance ${ms(tolerance)} ms): check the picks near both shots and their trigger times.` +
+            `tolerance ${ms(tolerance + allowanceMs)} ms): check the picks near both shots and their trigger times.` +
             longReadingNote(a.id, b.id, forward.gapM, reverse.gapM, spacingM),
         });
       }
