@@ -45,6 +45,7 @@ import { opposingPairs } from './velocities/opposing-pairs.js';
 import { opposingPairVelocities } from './velocities/slope-intercept.js';
 import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from './reciprocal.js';
 import { adjustReciprocalTimes } from './reciprocal-adjustment.js';
+import { reciprocalTimeOf } from './weighted-plus-times.js';
 import { mergePhantoms, phantomArrivals, type PhantomResult } from './phantom.js';
 import { combineMinusTimes, combineWeighted, normalDepthFromDelayM, plusMinus } from './plus-minus.js';
 import type { MinusTimeVelocityResult } from './minus-time-velocity.js';
@@ -562,19 +563,18 @@ function reciprocalCheckOf(checks: ReciprocalCheck[], a: string, b: string): Rec
 }
 
 /**
- * Variance of a pair's reciprocal time tAB = (forward + reverse)/2, ms²: each reading σ²
- * at a geophone, growing with the square of the distance it is extrapolated, in units of
- * two geophone spacings (σ²·(1 + (gap/2d)²); our choice, shaped like the variance of a
- * line extrapolated beyond its data), plus (difference/2)², the misfit the two readings
- * actually show.
+ * Variance of a pair's reciprocal time tAB = (forward + reverse)/2, ms² (reciprocalTimeOf,
+ * engine/weighted-plus-times.ts). A reading without a recorded gap counts as at a geophone,
+ * or as two spacings out when extrapolated.
  */
 function reciprocalVarianceMs2(check: ReciprocalCheck, pickSigmaMs: number, spacingM: number): number {
-  const reading = (gapM: number | undefined, source: ReciprocalCheck['forwardSource']): number => {
-    const gap = gapM ?? (source === 'extrapolated' ? 2 * spacingM : 0);
-    return pickSigmaMs * pickSigmaMs * (1 + (gap / (2 * spacingM)) ** 2);
-  };
-  const fromReadings = (reading(check.forwardGapM, check.forwardSource) + reading(check.reverseGapM, check.reverseSource)) / 4;
-  return fromReadings + (check.differenceMs / 2) ** 2;
+  const gap = (gapM: number | undefined, source: ReciprocalCheck['forwardSource']): number =>
+    gapM ?? (source === 'extrapolated' ? 2 * spacingM : 0);
+  const readings = [
+    { timeMs: check.forwardMs, gapM: gap(check.forwardGapM, check.forwardSource) },
+    { timeMs: check.reverseMs, gapM: gap(check.reverseGapM, check.reverseSource) },
+  ];
+  return reciprocalTimeOf(readings, pickSigmaMs, spacingM)?.varianceMs2 ?? 0;
 }
 
 /**

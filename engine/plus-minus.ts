@@ -64,36 +64,6 @@ export function plusMinus(input: PlusMinusPairInput): PlusMinusPairResult {
   return { plusTimeMs, minusTimeMs };
 }
 
-export interface CombinedPlusTimes {
-  /** Mean T+ over the pairs that cover each geophone, ms; null where none does. */
-  plusTimeMs: (number | null)[];
-  /** Number of pairs that contributed at each geophone. */
-  pairCount: number[];
-}
-
-/**
- * Combines the plus times of several opposing pairs: the plain mean at each geophone of
- * every pair that covers it. (Every pair estimates the same 2·aG; equal weights for now.)
- */
-export function combinePlusTimes(perPairPlusTimeMs: (number | null)[][], geophoneCount: number): CombinedPlusTimes {
-  const plusTimeMs: (number | null)[] = [];
-  const pairCount: number[] = [];
-  for (let i = 0; i < geophoneCount; i++) {
-    let sum = 0;
-    let n = 0;
-    for (const pair of perPairPlusTimeMs) {
-      const t = pair[i];
-      if (isTime(t)) {
-        sum += t;
-        n++;
-      }
-    }
-    plusTimeMs.push(n > 0 ? sum / n : null);
-    pairCount.push(n);
-  }
-  return { plusTimeMs, pairCount };
-}
-
 export interface WeightedCombination {
   /** Inverse-variance weighted mean at each geophone, ms; null where no pair covers it. */
   valueMs: (number | null)[];

@@ -13,6 +13,9 @@
  *     arrival at the other shot may belong to another branch, which plus-minus must not use.
  *     A shot's missing branch-k arrivals are phantomed from a shot further out on the same
  *     side (engine/phantom.ts: the two branches are parallel, shifted by a constant).
+ *     The pairs' T+ are combined as in the two-layer section (engine/weighted-plus-times.ts):
+ *     variances from the picks, phantoms and reciprocal readings, a joint least-squares
+ *     adjustment of the trusted pairs' tAB, then the inverse-variance mean per geophone.
  *  2. "intercept" delay times where no opposing pair reaches (poor coverage): with one shot
  *     A only, delay(G) = tAG − |x_G − x_A|/V − tᵢ(A)/2, where the delay under the shot is
  *     taken as half its branch-k intercept time tᵢ(A) (flat layers under the shot:
@@ -41,8 +44,10 @@
  */
 import type { Survey } from './survey.js';
 import type { Interpretation, ShotAnalysis, Station, Warning } from './interpretation.js';
-import { phantomArrivals } from './phantom.js';
-import { combinePlusTimes, plusMinus } from './plus-minus.js';
+import { phantomArrivals, phantomVarianceMs2 } from './phantom.js';
+import { plusMinus } from './plus-minus.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, extrapolationAllowanceMs } from './reciprocal.js';
+import { reciprocalTimeOf, weightedPlusTimes, type ReciprocalReading, type WeightablePair } from './weighted-plus-times.js';
 import { minusTimeVelocity } from './minus-time-velocity.js';
 import { fitLine, type FitPoint } from './branches/segmented-fit.js';
 import { geophoneSpacingM } from './branches/shot-geometry.js';
@@ -83,6 +88,8 @@ interface OneWayTimes {
   side: Side;
   timesMs: (number | null)[];
   phantomed: boolean[];
+  /** Variance of each time, ms²: σ² for a pick, the phantom's variance (engine/phantom.ts) for a phantom. */
+  varianceMs2: (number | null)[];
   /** Branch-k picks of that side as a straight line (least squares), when ≥ 2 picks. */
   line: { velocity: number; interceptMs: number } | null;
 }
@@ -116,7 +123,7 @@ function branchLine(survey: Survey, shotX: number, timesMs: (number | null)[]): 
  * Branch-k arrivals of every shot toward one side, completed by phantoming from the shot
  * further out on the same side that fills most geophones (nearest first on ties).
  */
-function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: 1 | 2): OneWayTimes[] {
+function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: 1 | 2, pickSigmaMs: number): OneWayTimes[] {
   const own = shots.map((shot) => ({ shot, timesMs: branchTimes(survey, shot, side, k) }));
   return own.map(({ shot, timesMs }) => {
     const eligible = survey.geophones.map((g) => (side === 'right' ? g.x > shot.x : g.x < shot.x));
@@ -129,11 +136,13 @@ function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: 1 | 2
       if (r && r.phantomCount > 0 && (!best || r.phantomCount > best.phantomCount)) best = r;
     }
     const phantomed = timesMs.map((t, i) => t === null && !!best && best.timesMs[i] !== null);
+    const phantomVariance = best ? phantomVarianceMs2(best, pickSigmaMs) : null;
     return {
       shot,
       side,
       timesMs: timesMs.map((t, i) => (t !== null ? t : phantomed[i] ? best!.timesMs[i] : null)),
       phantomed,
+      varianceMs2: timesMs.map((t, i) => (t !== null ? pickSigmaMs * pickSigmaMs : phantomed[i] ? phantomVariance : null)),
       line: branchLine(survey, shot.x, timesMs),
     };
   });
@@ -141,38 +150,62 @@ function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: 1 | 2
 
 /**
  * One reading of the branch-k reciprocal time from a shot to `toX`: its branch-k pick at a
- * geophone within a quarter spacing of toX, else its branch-k line at that offset. (The
- * first arrival there may belong to another branch; plus-minus needs the same refractor.)
+ * geophone within a quarter spacing of toX (gap 0), else its branch-k line at that offset,
+ * with the gap to its nearest branch-k pick. (The first arrival there may belong to another
+ * branch; plus-minus needs the same refractor.)
  */
-function reciprocalReadingMs(survey: Survey, w: OneWayTimes, toX: number): number | null {
+function reciprocalReading(survey: Survey, w: OneWayTimes, toX: number): ReciprocalReading | null {
   const limit = 0.25 * geophoneSpacingM(survey.geophones);
   const i = survey.geophones.findIndex((g) => Math.abs(g.x - toX) <= limit);
-  if (i >= 0 && isNum(w.timesMs[i]) && !w.phantomed[i]) return w.timesMs[i];
-  return w.line ? w.line.interceptMs + (1000 * Math.abs(toX - w.shot.x)) / w.line.velocity : null;
+  if (i >= 0 && isNum(w.timesMs[i]) && !w.phantomed[i]) return { timeMs: w.timesMs[i] as number, gapM: 0 };
+  if (!w.line) return null;
+  const gaps = survey.geophones.filter((_, j) => isNum(w.timesMs[j]) && !w.phantomed[j]).map((g) => Math.abs(g.x - toX));
+  return { timeMs: w.line.interceptMs + (1000 * Math.abs(toX - w.shot.x)) / w.line.velocity, gapM: gaps.length > 0 ? Math.min(...gaps) : 0 };
 }
+
+/** Pick uncertainty σ assumed when the survey gives none, ms (as interpret and reciprocal.ts assume). */
+const DEFAULT_PICK_SIGMA_MS = 0.5;
 
 /** Delay times to refractor k (the top of layer k + 1) and the velocity below it (see the file comment). */
 export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: 1 | 2): RefractorDelays {
   const n = survey.geophones.length;
   const xs = survey.geophones.map((g) => g.x);
-  const toRight = oneWayTimes(survey, shots, 'right', k);
-  const toLeft = oneWayTimes(survey, shots, 'left', k);
+  const options = survey.options ?? {};
+  const pickSigmaMs = isNum(options.pickUncertaintyMs) && options.pickUncertaintyMs > 0 ? options.pickUncertaintyMs : DEFAULT_PICK_SIGMA_MS;
+  const toleranceMs = isNum(options.reciprocalToleranceMs) && options.reciprocalToleranceMs >= 0 ? options.reciprocalToleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
+  const spacingM = geophoneSpacingM(survey.geophones);
+  const toRight = oneWayTimes(survey, shots, 'right', k, pickSigmaMs);
+  const toLeft = oneWayTimes(survey, shots, 'left', k, pickSigmaMs);
 
-  // Plus-minus on every opposing pair with branch-k arrivals over a common stretch.
-  const pairs: { plus: (number | null)[]; minus: (number | null)[]; phantom: boolean[] }[] = [];
+  // Plus-minus on every opposing pair with branch-k arrivals over a common stretch, with
+  // the variances of the two-layer section (docs/developers/plus-minus.md, step 4).
+  const pairs: (WeightablePair & { minus: (number | null)[]; phantom: boolean[] })[] = [];
   for (const a of toRight) {
     for (const b of toLeft) {
       if (!(b.shot.x > a.shot.x)) continue;
       const overlap = xs.some((x, i) => x > a.shot.x && x < b.shot.x && a.timesMs[i] !== null && b.timesMs[i] !== null);
       if (!overlap) continue;
-      const readings = [reciprocalReadingMs(survey, a, b.shot.x), reciprocalReadingMs(survey, b, a.shot.x)].filter(isNum);
-      if (readings.length === 0) continue;
-      const tAB = readings.reduce((sum, v) => sum + v, 0) / readings.length;
-      const pm = plusMinus({ leftShotXM: a.shot.x, rightShotXM: b.shot.x, geophoneXM: xs, leftTimesMs: a.timesMs, rightTimesMs: b.timesMs, reciprocalTimeMs: tAB });
-      pairs.push({ plus: pm.plusTimeMs, minus: pm.minusTimeMs, phantom: xs.map((_, i) => pm.plusTimeMs[i] !== null && (a.phantomed[i] || b.phantomed[i])) });
+      const forward = reciprocalReading(survey, a, b.shot.x);
+      const reverse = reciprocalReading(survey, b, a.shot.x);
+      const tAB = reciprocalTimeOf([forward, reverse].filter((r): r is ReciprocalReading => r !== null), pickSigmaMs, spacingM);
+      if (tAB === null) continue;
+      // Trusted as in the reciprocal check (engine/reciprocal.ts): readings within the
+      // tolerance plus the allowance for long extrapolations; one reading cannot be checked.
+      const trusted = !forward || !reverse || Math.abs(forward.timeMs - reverse.timeMs) <= toleranceMs + extrapolationAllowanceMs(forward.gapM, reverse.gapM, spacingM, pickSigmaMs);
+      const pm = plusMinus({ leftShotXM: a.shot.x, rightShotXM: b.shot.x, geophoneXM: xs, leftTimesMs: a.timesMs, rightTimesMs: b.timesMs, reciprocalTimeMs: tAB.timeMs });
+      pairs.push({
+        plusTimeMs: pm.plusTimeMs,
+        plusVarianceMs2: xs.map((_, i) => (pm.plusTimeMs[i] === null ? null : (a.varianceMs2[i] ?? 0) + (b.varianceMs2[i] ?? 0) + tAB.varianceMs2)),
+        reciprocalTimeMs: tAB.timeMs,
+        reciprocalVarianceMs2: tAB.varianceMs2,
+        trusted,
+        minus: pm.minusTimeMs,
+        phantom: xs.map((_, i) => pm.plusTimeMs[i] !== null && (a.phantomed[i] || b.phantomed[i])),
+      });
     }
   }
-  const plus = combinePlusTimes(pairs.map((p) => p.plus), n).plusTimeMs;
+  const combined = weightedPlusTimes(pairs, n);
+  const plus = combined.plusTimeMs;
 
   // Velocity below the refractor.
   let velocity: number | null = null;
@@ -201,7 +234,7 @@ export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: 1 | 2)
   }
 
   const delayTimeMs: (number | null)[] = plus.map((t) => (t === null ? null : t / 2));
-  const delaySource: DelaySource[] = plus.map((t, i) => (t === null ? null : pairs.some((p) => p.plus[i] !== null && p.phantom[i]) ? 'phantom' : 'pair'));
+  const delaySource: DelaySource[] = plus.map((t, i) => (t === null ? null : combined.contributing[i].some((p) => pairs[p].phantom[i]) ? 'phantom' : 'pair'));
   if (velocity !== null) {
     // One-way "intercept" delays where no pair reaches.
     for (let i = 0; i < n; i++) {

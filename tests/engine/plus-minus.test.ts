@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { combinePlusTimes, normalDepthFromDelayM, plusMinus } from '../../engine/plus-minus.js';
+import { normalDepthFromDelayM, plusMinus } from '../../engine/plus-minus.js';
 
 describe('plusMinus', () => {
   // Delay-time form of head-wave times (Hagedoorn, Geophysical Prospecting 7, 1959):
@@ -47,20 +47,6 @@ describe('plusMinus', () => {
     });
     expect(r.plusTimeMs).toEqual([null, 4, null, 4, null, null]);
     expect(r.minusTimeMs).toEqual([null, -3, null, 1, null, null]);
-  });
-});
-
-describe('combinePlusTimes', () => {
-  it('averages the pairs that cover each geophone and counts them', () => {
-    const c = combinePlusTimes(
-      [
-        [10, 12, null],
-        [12, null, null],
-      ],
-      3,
-    );
-    expect(c.plusTimeMs).toEqual([11, 12, null]);
-    expect(c.pairCount).toEqual([2, 1, 0]);
   });
 });
 

@@ -3,6 +3,7 @@ import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { interpret } from '../../engine/interpret.js';
 import { refractorDelays } from '../../engine/second-refractor.js';
 import { flatLine } from '../../engine/samples/demo-lines.js';
+import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/weighted-plus-times.js';
 import type { Survey } from '../../engine/survey.js';
 
 /**
@@ -22,10 +23,10 @@ function firstArrivalMs(offsetM: number): number {
 
 const GEOPHONES = Array.from({ length: 48 }, (_, i) => ({ x: 2 * i }));
 
-function survey(shots: [string, number][], options?: Survey['options']): Survey {
+function survey(shots: [string, number][], options?: Survey['options'], triggerErrorMs: Record<string, number> = {}): Survey {
   return {
     geophones: GEOPHONES,
-    shots: shots.map(([id, x]) => ({ id, x, times: GEOPHONES.map((g) => firstArrivalMs(Math.abs(g.x - x))) })),
+    shots: shots.map(([id, x]) => ({ id, x, times: GEOPHONES.map((g) => firstArrivalMs(Math.abs(g.x - x)) + (triggerErrorMs[id] ?? 0)) })),
     ...(options ? { options } : {}),
   };
 }
@@ -58,6 +59,35 @@ describe('refractorDelays on branch 2 (plus-minus, Hagedoorn 1959; delay form of
     const known = first.delayTimeMs.filter((d): d is number => d !== null);
     expect(known.length).toBeGreaterThan(10);
     for (const d of known) expect(d).toBeCloseTo(DELAY_MS[0], 6);
+  });
+});
+
+describe('weighted plus times of refractor k (variances and joint reciprocal adjustment as in the two-layer section)', () => {
+  it('gives a reciprocal time the variance σ²·(1 + (gap/2d)²) per reading, /m² for the mean, plus (difference/2)²', () => {
+    // σ = 0.5 ms, d = 2 m: a reading at a geophone 0.25 ms², one extrapolated 8 m 0.25·(1 + 4) = 1.25 ms².
+    expect(readingVarianceMs2(0, 0.5, 2)).toBeCloseTo(0.25, 12);
+    expect(readingVarianceMs2(8, 0.5, 2)).toBeCloseTo(1.25, 12);
+    const two = reciprocalTimeOf([{ timeMs: 30, gapM: 0 }, { timeMs: 31, gapM: 8 }], 0.5, 2);
+    expect(two?.timeMs).toBeCloseTo(30.5, 12);
+    expect(two?.varianceMs2).toBeCloseTo((0.25 + 1.25) / 4 + 0.25, 12);
+    expect(reciprocalTimeOf([{ timeMs: 30, gapM: 8 }], 0.5, 2)?.varianceMs2).toBeCloseTo(1.25, 12);
+    expect(reciprocalTimeOf([], 0.5, 2)).toBeNull();
+  });
+
+  // A trigger error e on one shot delays all its times, its reciprocal readings too, so every
+  // pair with that shot has tAB off by e/2 and T+ off by e/2 (Hagedoorn 1959). Measured: the
+  // plain mean of the pairs is then up to e/8 off (0.25 ms for e = 2 ms, 0.63 ms for 5 ms);
+  // the adjustment finds the shift through the overlaps with the other pairs.
+  it.each([
+    ['W-end', 2, 0.1],
+    ['E-off', 2, 0.05],
+    ['W-end', 5, 0.05],
+  ])('a %s trigger error of %f ms moves the pair-covered δ2 by under %f ms', (shot, errorMs, limitMs) => {
+    const s = survey(FIVE, undefined, { [shot]: errorMs });
+    const second = refractorDelays(s, assignBranches(s), 2);
+    const covered = second.delaySource.map((k, i) => (k === 'pair' || k === 'phantom' ? i : -1)).filter((i) => i >= 0);
+    expect(covered.length).toBeGreaterThan(GEOPHONES.length / 2);
+    for (const i of covered) expect(Math.abs((second.delayTimeMs[i] as number) - DELAY_MS[1]), `x = ${GEOPHONES[i].x}`).toBeLessThan(limitMs);
   });
 });
 
