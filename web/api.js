@@ -95,12 +95,27 @@ export function interpretLine(bodyText, format) {
   });
 }
 
-/** POST /api/v1/surveys — stores the line; sends the write token when one is set. */
-export function storeLine(bodyText, format) {
+/** Headers of a write: the body's type, and the write token when one is set. */
+function writeHeaders(format) {
   const headers = { 'Content-Type': contentTypeOf(format) };
   const token = readWriteToken();
   if (token) headers.Authorization = 'Bearer ' + token;
-  return request('api/v1/surveys', { method: 'POST', headers, body: bodyText });
+  return headers;
+}
+
+/** POST /api/v1/surveys — stores the line; sends the write token when one is set. */
+export function storeLine(bodyText, format) {
+  return request('api/v1/surveys', { method: 'POST', headers: writeHeaders(format), body: bodyText });
+}
+
+/**
+ * POST /api/v1/surveys/:id/revisions — stores the corrected line as the next revision of a
+ * stored line (nothing is overwritten); sends the write token when one is set.
+ */
+export function storeRevision(id, bodyText, format) {
+  return request('api/v1/surveys/' + encodeURIComponent(id) + '/revisions', {
+    method: 'POST', headers: writeHeaders(format), body: bodyText,
+  });
 }
 
 /** GET /api/v1/surveys — [{id, name, createdAt}]. */
@@ -108,19 +123,25 @@ export function listLines() {
   return request('api/v1/surveys', { method: 'GET' });
 }
 
-/** GET /api/v1/surveys/:id — {survey, interpretation, ...}. */
-export function fetchLine(id) {
-  return request('api/v1/surveys/' + encodeURIComponent(id), { method: 'GET' });
+/** `?revision=N` for a revision number, '' for the latest. */
+function revisionQuery(revision) {
+  return Number.isInteger(revision) && revision >= 1 ? '?revision=' + revision : '';
 }
 
-/** Relative URLs of the files of a stored line. */
-export function lineFileUrls(id) {
+/** GET /api/v1/surveys/:id[?revision=N] — {survey, interpretation, revision, latestRevision, revisions, ...}. */
+export function fetchLine(id, revision) {
+  return request('api/v1/surveys/' + encodeURIComponent(id) + revisionQuery(revision), { method: 'GET' });
+}
+
+/** Relative URLs of the files of a stored line; of one revision when `revision` is given. */
+export function lineFileUrls(id, revision) {
   const base = 'api/v1/surveys/' + encodeURIComponent(id) + '/';
+  const query = revisionQuery(revision);
   return {
-    section: base + 'section.svg',
-    travelTimes: base + 'traveltimes.svg',
-    stations: base + 'stations.csv',
-    interpretation: base + 'interpretation.json',
+    section: base + 'section.svg' + query,
+    travelTimes: base + 'traveltimes.svg' + query,
+    stations: base + 'stations.csv' + query,
+    interpretation: base + 'interpretation.json' + query,
   };
 }
 

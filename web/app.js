@@ -3,6 +3,7 @@
 
 import {
   fetchLine, interpretLine, lineFileUrls, listLines, previewFigure, readWriteToken, saveWriteToken, storeLine,
+  storeRevision,
 } from './api.js';
 import { detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import { el, markFiguresAsPreview, renderFailure, renderStationTable, renderSummary, renderWarnings } from './view.js';
@@ -19,6 +20,7 @@ const ui = {
   formatName: $('format-name'),
   interpretButton: $('interpret-button'),
   storeButton: $('store-button'),
+  reviseButton: $('revise-button'),
   token: $('write-token'),
   status: $('status'),
   errorBox: $('error-box'),
@@ -28,6 +30,10 @@ const ui = {
   title: $('line-title'),
   meta: $('line-meta'),
   badge: $('line-badge'),
+  revisionRow: $('revision-row'),
+  revisionText: $('revision-text'),
+  revisionPicker: $('revision-picker'),
+  revisionSelect: $('revision-select'),
   filesPanel: $('files-panel'),
   sharePanel: $('share-panel'),
   shareUrl: $('share-url'),
@@ -51,6 +57,15 @@ const ui = {
 const input = { fileName: '' };
 /** Id of the stored line on show, or null for an unsaved interpretation / nothing. */
 let openLineId = null;
+/**
+ * The stored line opened last ({ id, name } of its latest revision), still known while a newly
+ * loaded line is interpreted: that line can then be stored as its next revision.
+ */
+let revisionBase = null;
+/** Exactly what was interpreted last ({ bodyText, format }), until the input is changed. */
+let interpreted = null;
+/** Counts stored-line openings, so an answer for an earlier one (a quick change of revision) is dropped. */
+let openRound = 0;
 /**
  * Figures on show: which round of drawing they belong to (a preview that answers after a
  * newer interpretation or a stored line took over is dropped), and the blob: URLs of
@@ -91,7 +106,24 @@ function parsedSurvey() {
 function setBusy(busy) {
   ui.interpretButton.disabled = busy;
   ui.storeButton.disabled = busy;
+  ui.reviseButton.disabled = busy;
   document.body.classList.toggle('busy', busy);
+}
+
+/**
+ * "Store as revision of …" is offered only while an interpretation of loaded text is on show
+ * and a stored line was open before it.
+ */
+function updateReviseButton() {
+  const offer = revisionBase !== null && interpreted !== null && openLineId === null;
+  ui.reviseButton.hidden = !offer;
+  if (offer) ui.reviseButton.textContent = 'Store as revision of ' + revisionBase.name;
+}
+
+/** The input changed after Interpret: what would be stored is no longer what is on show. */
+function forgetInterpreted() {
+  interpreted = null;
+  updateReviseButton();
 }
 
 function lineName(survey, interpretation, fallback) {
@@ -133,6 +165,7 @@ function hideStoredParts() {
   ui.travelTimesImage.removeAttribute('src');
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
+  ui.revisionRow.hidden = true;
 }
 
 function showFigureFailed(image) {
@@ -202,10 +235,33 @@ function markOpenInList() {
   }
 }
 
-/** Opens a stored line: its interpretation, figures, downloads and share link. */
-async function openStoredLine(id, shareUrlFromStore) {
+/**
+ * Shows "revision N of M" and, when there is more than one, a select of all revisions
+ * (option text built with textContent: names and dates come from the service).
+ */
+function showRevisions(shown, latest, revisions) {
+  ui.revisionText.textContent = 'revision ' + shown + ' of ' + latest;
+  ui.revisionRow.hidden = false;
+  const list = Array.isArray(revisions) ? revisions.filter((r) => r && Number.isInteger(r.revision)) : [];
+  ui.revisionPicker.hidden = latest <= 1 || list.length <= 1;
+  ui.revisionSelect.replaceChildren(...list.map((r) => {
+    const option = el('option', '', 'Revision ' + r.revision + (r.revision === latest ? ' (latest)' : '')
+      + (r.createdAt ? ' · ' + when(r.createdAt) : ''));
+    option.value = String(r.revision);
+    option.selected = r.revision === shown;
+    return option;
+  }));
+}
+
+/**
+ * Opens a stored line: its interpretation, figures, downloads and share link; the latest
+ * revision, or the one asked for.
+ */
+async function openStoredLine(id, shareUrlFromStore, revision) {
+  const round = ++openRound;
   setStatus('Opening the stored line…');
-  const result = await fetchLine(id);
+  const result = await fetchLine(id, revision);
+  if (round !== openRound) return false;
   if (!result.ok) {
     renderFailure(ui.errorBox, result.failure);
     setStatus('Could not open the line.');
@@ -215,6 +271,13 @@ async function openStoredLine(id, shareUrlFromStore) {
   const { survey, interpretation } = result.data ?? {};
   const name = lineName(survey, interpretation, 'Stored line ' + id);
   openLineId = id;
+  const shown = Number.isInteger(result.data?.revision) ? result.data.revision : 1;
+  const latest = Number.isInteger(result.data?.latestRevision) ? result.data.latestRevision : shown;
+  const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
+  const latestName = revisions.find((r) => r?.revision === latest)?.name;
+  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name };
+  interpreted = null;
+  updateReviseButton();
   const stationCount = Array.isArray(interpretation?.stations) ? interpretation.stations.length : 0;
   const shotCount = Array.isArray(survey?.shots) ? survey.shots.length : 0;
   const created = result.data?.createdAt ? ' · stored ' + when(result.data.createdAt) : '';
@@ -223,8 +286,12 @@ async function openStoredLine(id, shareUrlFromStore) {
   ui.badge.className = 'badge stored';
   ui.badge.hidden = false;
   ui.unsavedNote.hidden = true;
+  showRevisions(shown, latest, revisions);
 
-  const urls = lineFileUrls(id);
+  // Once a line has several revisions its files name the one on show, so a later revision
+  // stored meanwhile cannot swap the figures under the header.
+  const several = latest > 1;
+  const urls = lineFileUrls(id, several ? shown : undefined);
   newFigureRound();
   showFigure(ui.sectionImage, urls.section, 'Depth section of ' + name);
   showFigure(ui.travelTimesImage, urls.travelTimes, 'Time–distance plot of ' + name);
@@ -232,7 +299,7 @@ async function openStoredLine(id, shareUrlFromStore) {
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
 
-  const stem = fileStem(name);
+  const stem = fileStem(name) + (several ? '-r' + shown : '');
   setDownload('download-section', urls.section, stem + '-section.svg');
   setDownload('download-traveltimes', urls.travelTimes, stem + '-traveltimes.svg');
   setDownload('download-stations', urls.stations, stem + '-stations.csv');
@@ -241,8 +308,8 @@ async function openStoredLine(id, shareUrlFromStore) {
 
   showShareLink(shareUrlFromStore ?? result.data?.shareUrl);
   markOpenInList();
-  history.replaceState(null, '', '#line=' + encodeURIComponent(id));
-  setStatus('Opened “' + name + '”.');
+  history.replaceState(null, '', '#line=' + encodeURIComponent(id) + (shown !== latest ? '&revision=' + shown : ''));
+  setStatus('Opened “' + name + '”' + (several ? ', revision ' + shown + ' of ' + latest : '') + '.');
   return true;
 }
 
@@ -308,6 +375,8 @@ async function interpretInput() {
   const fromTable = format === 'csv' ? pickTableName(ui.text.value) : '';
   const name = lineName(parsedSurvey(), interpretation, fromTable || input.fileName || 'Pasted line');
   openLineId = null;
+  // Offered for storing as a revision only while the input still holds what was interpreted.
+  interpreted = ui.text.value === bodyText ? { bodyText, format } : null;
   markOpenInList();
   const stationCount = Array.isArray(interpretation.stations) ? interpretation.stations.length : 0;
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + formatLabel(format));
@@ -315,6 +384,7 @@ async function interpretInput() {
   ui.badge.className = 'badge unsaved';
   ui.badge.hidden = false;
   hideStoredParts();
+  updateReviseButton();
   ui.unsavedNote.hidden = false;
   history.replaceState(null, '', window.location.pathname + window.location.search);
   const warningCount = Array.isArray(interpretation.qc?.warnings) ? interpretation.qc.warnings.length : 0;
@@ -343,6 +413,27 @@ async function storeInput() {
   await refreshList();
   const opened = await openStoredLine(String(id), result.data?.shareUrl);
   if (opened) setStatus('Stored. The share link is ready to copy.');
+}
+
+/** Stores exactly the text that was interpreted as the next revision of the line opened before. */
+async function reviseInput() {
+  const base = revisionBase;
+  const sent = interpreted;
+  if (!base || !sent) return;
+  setBusy(true);
+  setStatus('Storing as a revision of “' + base.name + '”…');
+  const result = await storeRevision(base.id, sent.bodyText, sent.format);
+  setBusy(false);
+  if (!result.ok) {
+    renderFailure(ui.errorBox, result.failure, parsedSurvey());
+    setStatus('The revision was not stored.');
+    return;
+  }
+  clearError();
+  const revision = Number.isInteger(result.data?.revision) ? result.data.revision : undefined;
+  await refreshList();
+  const opened = await openStoredLine(base.id, result.data?.shareUrl, revision);
+  if (opened) setStatus('Stored as revision ' + (revision ?? '') + ' of “' + base.name + '”.');
 }
 
 async function copyShareLink() {
@@ -376,14 +467,19 @@ async function loadChosenFile() {
     return;
   }
   input.fileName = file.name;
+  forgetInterpreted();
   clearError();
   updateFormatHint();
   setStatus('Loaded ' + file.name + ' (' + formatLabel(currentFormat()) + '). Press Interpret or Store.');
 }
 
-function lineIdFromHash() {
-  const match = /^#line=(.+)$/.exec(window.location.hash);
-  return match ? decodeURIComponent(match[1]) : null;
+/** The line (and revision, if one is named) in the address: `#line=<id>[&revision=<n>]`. */
+function lineFromHash() {
+  const params = new URLSearchParams(window.location.hash.replace(/^#/, ''));
+  const id = params.get('line');
+  if (!id) return null;
+  const revision = Number(params.get('revision'));
+  return { id, revision: Number.isInteger(revision) && revision >= 1 ? revision : undefined };
 }
 
 function imageFailed(event) {
@@ -400,9 +496,15 @@ function wire() {
     // Edited text is judged by its content, not by the name of the file it came from.
     input.fileName = '';
     updateFormatHint();
+    forgetInterpreted();
   });
   ui.interpretButton.addEventListener('click', () => { void interpretInput(); });
   ui.storeButton.addEventListener('click', () => { void storeInput(); });
+  ui.reviseButton.addEventListener('click', () => { void reviseInput(); });
+  ui.revisionSelect.addEventListener('change', () => {
+    const revision = Number(ui.revisionSelect.value);
+    if (openLineId && Number.isInteger(revision)) void openStoredLine(openLineId, undefined, revision);
+  });
   ui.refreshButton.addEventListener('click', () => { void refreshList(); });
   ui.copyButton.addEventListener('click', () => { void copyShareLink(); });
   ui.token.value = readWriteToken();
@@ -415,9 +517,9 @@ function wire() {
 async function start() {
   wire();
   const lines = await refreshList();
-  const wanted = lineIdFromHash();
-  const first = wanted ?? lines[0]?.id;
-  if (first) await openStoredLine(first);
+  const wanted = lineFromHash();
+  const first = wanted?.id ?? lines[0]?.id;
+  if (first) await openStoredLine(first, undefined, wanted?.revision);
   else setStatus('No stored lines yet. Load a pick file to begin.');
   document.body.dataset.ready = 'true';
 }
