@@ -53,7 +53,7 @@ export const MIN_INIT_RADIUS_CELLS = 5;
  */
 export const DEFAULT_INIT_RADIUS_M = 2;
 
-const FAR = 0;
+// Node states; a new Uint8Array starts every node at 0, far (not yet reached).
 const TRIAL = 1;
 const ACCEPTED = 2;
 

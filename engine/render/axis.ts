@@ -29,14 +29,18 @@ export interface AxisResult {
 
 const TICK_MM = 1.2;
 
-/** Horizontal axis below a plot: ticks downward, labels under them, title centred below. */
-export function bottomAxis(parent: Container, scale: LinearScale, options: AxisOptions): AxisResult {
+/** Tick step and values (1, 2, 5 × 10ⁿ) over a scale's domain, and the axis group. */
+function axisTicks(parent: Container, scale: LinearScale, options: AxisOptions): AxisResult & { group: ReturnType<Container['group']> } {
   const [d0, d1] = scale.domain;
   const lo = Math.min(d0, d1);
   const hi = Math.max(d0, d1);
   const step = niceStep(hi - lo, options.maxTicks);
-  const values = tickValues(lo, hi, step);
-  const group = parent.group().attr('data-role', `${options.role}-axis`);
+  return { step, values: tickValues(lo, hi, step), group: parent.group().attr('data-role', `${options.role}-axis`) };
+}
+
+/** Horizontal axis below a plot: ticks downward, labels under them, title centred below. */
+export function bottomAxis(parent: Container, scale: LinearScale, options: AxisOptions): AxisResult {
+  const { step, values, group } = axisTicks(parent, scale, options);
   const [r0, r1] = scale.range;
   const y = round3(options.atMm);
   group.line(round3(Math.min(r0, r1)), y, round3(Math.max(r0, r1)), y).attr({ stroke: INK.frame, 'stroke-width': 0.3 });
@@ -58,12 +62,7 @@ export function bottomAxis(parent: Container, scale: LinearScale, options: AxisO
 
 /** Vertical axis left of a plot: ticks leftward, labels right-aligned, title rotated. */
 export function leftAxis(parent: Container, scale: LinearScale, options: AxisOptions & { titleXMm: number }): AxisResult {
-  const [d0, d1] = scale.domain;
-  const lo = Math.min(d0, d1);
-  const hi = Math.max(d0, d1);
-  const step = niceStep(hi - lo, options.maxTicks);
-  const values = tickValues(lo, hi, step);
-  const group = parent.group().attr('data-role', `${options.role}-axis`);
+  const { step, values, group } = axisTicks(parent, scale, options);
   const [r0, r1] = scale.range;
   const x = round3(options.atMm);
   group.line(x, round3(Math.min(r0, r1)), x, round3(Math.max(r0, r1))).attr({ stroke: INK.frame, 'stroke-width': 0.3 });

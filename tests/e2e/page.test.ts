@@ -3,30 +3,16 @@
  * the demo section on load, a CSV line interpreted, stored and shared, errors in plain
  * words, keyboard reach, no console errors and no CSP violations.
  */
-import { mkdir, readFile } from 'node:fs/promises';
+import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { CAUTIONS } from '../../engine/cautions.js';
 import type { Survey } from '../../engine/survey.js';
-import { servePageInChromium, type ServedPage } from './served-page.js';
+import { loadedWidth, openArcline, readSample, SAMPLES_DIR, servePageInChromium, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 
-const SAMPLES = resolve(import.meta.dirname, '../../samples');
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
-
-async function readSample(name: string): Promise<Survey> {
-  return JSON.parse(await readFile(join(SAMPLES, name), 'utf8')) as Survey;
-}
-
-/** Waits until an <img> has finished loading and reports its intrinsic width (0 = failed). */
-async function loadedWidth(page: Page, selector: string): Promise<number> {
-  await page.waitForFunction((sel) => {
-    const img = document.querySelector<HTMLImageElement>(sel);
-    return !!img && !!img.getAttribute('src') && img.complete;
-  }, selector);
-  return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
-}
 
 /**
  * How many of these URLs load as images in the page (a fresh Image each; fetch() cannot be
@@ -80,11 +66,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   }, BROWSER_TEST_TIMEOUT_MS);
 
   it('opens the stored demo line on load with its depth section and time–distance plot drawn', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
 
     await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);
     expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
@@ -125,13 +107,9 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   });
 
   it('interprets flat-line.csv from the file input, stores it, and the share link shows the same line in a fresh context', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
 
-    await page.setInputFiles('#file-input', join(SAMPLES, 'flat-line.csv'));
+    await page.setInputFiles('#file-input', join(SAMPLES_DIR, 'flat-line.csv'));
     await expect.poll(() => page.textContent('#format-name'), POLL).toContain('CSV');
 
     const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
@@ -234,11 +212,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   });
 
   it('lists every problem of a rejected survey in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
 
     // Two faults: geophones out of order, and a negative first-break time.
     const bad = structuredClone(flat);
@@ -278,11 +252,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   });
 
   it('is usable from the keyboard: Tab reaches the file input and the buttons in order, with a visible focus ring', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
 
     const reached: string[] = [];
     for (let i = 0; i < 12; i += 1) {

@@ -4,15 +4,13 @@
  * then says "revision 2 of 2" and a select brings back revision 1 with its own figures,
  * table and downloads. No console errors, no CSP violations.
  */
-import { mkdir, readFile } from 'node:fs/promises';
+import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
 import type { Survey } from '../../engine/survey.js';
-import { servePageInChromium, type ServedPage } from './served-page.js';
-import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, watchPage, type LaunchedBrowser } from './browser.js';
+import { loadedWidth, openArcline, readSample, servePageInChromium, type ServedPage } from './served-page.js';
+import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
-const SAMPLES = resolve(import.meta.dirname, '../../samples');
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
 
 interface StoredLineBody {
@@ -23,15 +21,6 @@ interface StoredLineBody {
   survey: Survey;
 }
 
-/** Waits until an <img> has finished loading and reports its intrinsic width (0 = failed). */
-async function loadedWidth(page: Page, selector: string): Promise<number> {
-  await page.waitForFunction((sel) => {
-    const img = document.querySelector<HTMLImageElement>(sel);
-    return !!img && !!img.getAttribute('src') && img.complete;
-  }, selector);
-  return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
-}
-
 describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', () => {
   let launched: LaunchedBrowser;
   let served: ServedPage;
@@ -40,7 +29,7 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
 
   beforeAll(async () => {
     await mkdir(SCREENSHOTS, { recursive: true });
-    demo = JSON.parse(await readFile(join(SAMPLES, 'demo-line.json'), 'utf8')) as Survey;
+    demo = await readSample('demo-line.json');
     served = await servePageInChromium({ seedDemo: true });
     ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
@@ -50,11 +39,7 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
   }, BROWSER_TEST_TIMEOUT_MS);
 
   it('stores a corrected pasted line as revision 2 of the open line and shows revision 1 again on request', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
 
     // The seeded demo line opens with one revision: no select, nothing to store as a revision yet.
     await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);

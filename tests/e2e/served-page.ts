@@ -1,12 +1,15 @@
 /**
  * One service on a free loopback port (its own temporary store) and one headless Chromium,
- * started together for a browser test file and stopped together.
+ * started together for a browser test file and stopped together; and the few steps every
+ * browser test takes on the page.
  */
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
+import type { BrowserContext, Page } from 'playwright-core';
+import type { Survey } from '../../engine/survey.js';
 import { buildApp, type AppOptions } from '../../server/app.js';
-import { launchChromium, type LaunchedBrowser } from './browser.js';
+import { launchChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 
 export interface ServedPage {
   /** The page's address, ending in '/'. */
@@ -29,4 +32,30 @@ export async function servePageInChromium(options: Omit<AppOptions, 'dataDir'>):
       await rm(dataDir, { recursive: true, force: true });
     },
   };
+}
+
+/** The invented sample lines shipped in samples/. */
+export const SAMPLES_DIR = resolve(import.meta.dirname, '../../samples');
+
+export async function readSample(name: string): Promise<Survey> {
+  return JSON.parse(await readFile(join(SAMPLES_DIR, name), 'utf8')) as Survey;
+}
+
+/** Opens the page in a new empty browser context, watched for errors, once it has loaded its first line. */
+export async function openArcline(launched: LaunchedBrowser, baseUrl: string): Promise<{ context: BrowserContext; page: Page; trouble: PageTrouble }> {
+  const context = await launched.freshContext();
+  const page = await context.newPage();
+  const trouble = await watchPage(page);
+  await page.goto(baseUrl);
+  await page.waitForSelector('body[data-ready="true"]');
+  return { context, page, trouble };
+}
+
+/** Waits until an <img> has finished loading and reports its intrinsic width (0 = failed). */
+export async function loadedWidth(page: Page, selector: string): Promise<number> {
+  await page.waitForFunction((sel) => {
+    const img = document.querySelector<HTMLImageElement>(sel);
+    return !!img && !!img.getAttribute('src') && img.complete;
+  }, selector);
+  return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
 }

@@ -4,13 +4,12 @@
  * the tab (sessionStorage) across a reload.
  */
 import { readFile } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Survey } from '../../engine/survey.js';
-import { servePageInChromium, type ServedPage } from './served-page.js';
-import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, watchPage, type LaunchedBrowser } from './browser.js';
+import { openArcline, SAMPLES_DIR, servePageInChromium, type ServedPage } from './served-page.js';
+import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
-const SAMPLES = resolve(import.meta.dirname, '../../samples');
 // Invented for this test only.
 const WRITE_TOKEN = 'e2e-token-4f9c2a71';
 
@@ -22,7 +21,7 @@ describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
   let demo: Survey;
 
   beforeAll(async () => {
-    demoText = await readFile(join(SAMPLES, 'demo-line.json'), 'utf8');
+    demoText = await readFile(join(SAMPLES_DIR, 'demo-line.json'), 'utf8');
     demo = JSON.parse(demoText) as Survey;
     served = await servePageInChromium({ writeToken: WRITE_TOKEN });
     ({ baseUrl, launched } = served);
@@ -33,11 +32,7 @@ describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
   }, BROWSER_TEST_TIMEOUT_MS);
 
   it('refuses Store without the token, stores with it, and keeps the token for the tab', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    const context = await launched.freshContext();
-    const page = await context.newPage();
-    const trouble = await watchPage(page);
-    await page.goto(baseUrl);
-    await page.waitForSelector('body[data-ready="true"]');
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
     // An empty store says so.
     expect(await page.isVisible('#stored-empty')).toBe(true);
 

@@ -139,7 +139,6 @@ describe('local reciprocal readings', () => {
   it('reads a shot’s time at the other shot’s position from its nearest refracted picks (closed form to 0.01 ms)', () => {
     const survey = planarSurvey(model, fiveShotLayout());
     const shots = assignBranches(survey);
-    const west = shots.find((s) => s.id === 'W-end')!;
     const east = survey.shots.find((s) => s.id === 'E-end')!;
     const check = reciprocalChecks(survey, shots, 3).checks.find((c) => c.shots[0] === 'W-end' && c.shots[1] === 'E-end')!;
     expect(check.forwardSource).toBe('extrapolated');

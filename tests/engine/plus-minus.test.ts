@@ -11,28 +11,20 @@ describe('plusMinus', () => {
   const delays = [3, 5, 7, 6, 4, 2];
   const t = (s: { x: number; delayMs: number }, i: number) => s.delayMs + delays[i] + (1000 * Math.abs(xs[i] - s.x)) / v2;
   const tAB = shotA.delayMs + shotB.delayMs + (1000 * (shotB.x - shotA.x)) / v2;
+  const r = plusMinus({
+    leftShotXM: shotA.x,
+    rightShotXM: shotB.x,
+    geophoneXM: xs,
+    leftTimesMs: xs.map((_, i) => t(shotA, i)),
+    rightTimesMs: xs.map((_, i) => t(shotB, i)),
+    reciprocalTimeMs: tAB,
+  });
 
   it('gives T+ = 2 × the delay time at each geophone, whatever the shot delays', () => {
-    const r = plusMinus({
-      leftShotXM: shotA.x,
-      rightShotXM: shotB.x,
-      geophoneXM: xs,
-      leftTimesMs: xs.map((_, i) => t(shotA, i)),
-      rightTimesMs: xs.map((_, i) => t(shotB, i)),
-      reciprocalTimeMs: tAB,
-    });
     r.plusTimeMs.forEach((p, i) => expect(p).toBeCloseTo(2 * delays[i], 10));
   });
 
   it('gives T− = tAG − tBG', () => {
-    const r = plusMinus({
-      leftShotXM: shotA.x,
-      rightShotXM: shotB.x,
-      geophoneXM: xs,
-      leftTimesMs: xs.map((_, i) => t(shotA, i)),
-      rightTimesMs: xs.map((_, i) => t(shotB, i)),
-      reciprocalTimeMs: tAB,
-    });
     r.minusTimeMs.forEach((m, i) => expect(m).toBeCloseTo(t(shotA, i) - t(shotB, i), 10));
   });
 

@@ -238,3 +238,18 @@ export function parseSvg(svgText: string): Element {
 export function byRole(root: Element, role: string): Element[] {
   return Array.from(root.querySelectorAll(`[data-role="${role}"]`));
 }
+
+/** Linear map between data values and plot units, recovered from the first and last axis ticks of a drawing. */
+export function axisMap(root: Element, role: 'x-tick' | 'y-tick'): { toPlot: (v: number) => number; toData: (p: number) => number; plotPerUnit: number } {
+  const ticks = byRole(root, role);
+  if (ticks.length < 2) throw new Error(`axisMap: the drawing has ${ticks.length} ${role} tick(s), two are needed`);
+  const attr = role === 'x-tick' ? 'x1' : 'y1';
+  const first = ticks[0];
+  const last = ticks[ticks.length - 1];
+  const v0 = Number(first.getAttribute('data-value'));
+  const v1 = Number(last.getAttribute('data-value'));
+  const p0 = Number(first.getAttribute(attr));
+  const p1 = Number(last.getAttribute(attr));
+  const plotPerUnit = (p1 - p0) / (v1 - v0);
+  return { toPlot: (v) => p0 + (v - v0) * plotPerUnit, toData: (p) => v0 + (p - p0) / plotPerUnit, plotPerUnit };
+}

@@ -12,9 +12,8 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
-import { elevationAt, type ModelPoint } from '../../engine/forward/polyline.js';
+import { elevationAt } from '../../engine/forward/polyline.js';
 import { CELL_M, LAYOUT, SEVEN_SHOTS, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
-import type { Survey } from '../../engine/survey.js';
 import type { Interpretation } from '../../engine/interpretation.js';
 
 /** Relative depth errors at every station that has a depth, and how many have none. */

@@ -16,7 +16,6 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import { layerVelocityAt, type LayeredModel } from '../../engine/forward/model.js';
-import { elevationAt, type ModelPoint } from '../../engine/forward/polyline.js';
 import { CELL_M, LAYOUT, SEVEN_SHOTS, SPACING_M, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
 import { seededUniform, standardNormal } from '../../engine/forward/seeded-random.js';
 import type { Survey } from '../../engine/survey.js';

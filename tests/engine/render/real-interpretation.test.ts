@@ -2,17 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { renderSection, renderTravelTimes } from '../../../engine/render/index.js';
 import { interpret } from '../../../engine/interpret.js';
 import { demoLine, flatLine } from '../../../engine/samples/demo-lines.js';
-import { byRole, parseSvg } from '../../helpers/render-fixture.js';
-
-function axisMap(root: Element, role: 'x-tick' | 'y-tick'): (plot: number) => number {
-  const ticks = byRole(root, role);
-  const attr = role === 'x-tick' ? 'x1' : 'y1';
-  const v0 = Number(ticks[0].getAttribute('data-value'));
-  const v1 = Number(ticks[ticks.length - 1].getAttribute('data-value'));
-  const p0 = Number(ticks[0].getAttribute(attr));
-  const p1 = Number(ticks[ticks.length - 1].getAttribute(attr));
-  return (p) => v0 + ((p - p0) * (v1 - v0)) / (p1 - p0);
-}
+import { axisMap, byRole, parseSvg } from '../../helpers/render-fixture.js';
 
 describe('rendering the engine’s own interpretation of the demo lines', () => {
   for (const [label, make] of [['demo A (dipping)', demoLine], ['demo B (flat)', flatLine]] as const) {
@@ -20,8 +10,8 @@ describe('rendering the engine’s own interpretation of the demo lines', () => 
       const survey = make();
       const interpretation = interpret(survey);
       const root = parseSvg(renderSection(survey, interpretation));
-      const toX = axisMap(root, 'x-tick');
-      const toZ = axisMap(root, 'y-tick');
+      const toX = axisMap(root, 'x-tick').toData;
+      const toZ = axisMap(root, 'y-tick').toData;
       const byX = new Map(interpretation.stations.map((s) => [s.x, s.refractorElevation]));
       const vertices = byRole(root, 'refractor').flatMap((l) =>
         (l.getAttribute('points') ?? '').trim().split(/\s+/).map((p) => p.split(',').map(Number)),

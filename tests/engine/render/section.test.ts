@@ -1,22 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { renderSection } from '../../../engine/render/index.js';
-import { byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
+import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
 import { CAUTIONS } from '../../../engine/cautions.js';
-
-/** Linear map from data value to plot unit, recovered from two axis ticks of the drawing. */
-function axisMap(root: Element, role: 'x-tick' | 'y-tick'): { toPlot: (v: number) => number; toData: (p: number) => number; plotPerUnit: number } {
-  const ticks = byRole(root, role);
-  expect(ticks.length).toBeGreaterThanOrEqual(2);
-  const attr = role === 'x-tick' ? 'x1' : 'y1';
-  const first = ticks[0];
-  const last = ticks[ticks.length - 1];
-  const v0 = Number(first.getAttribute('data-value'));
-  const v1 = Number(last.getAttribute('data-value'));
-  const p0 = Number(first.getAttribute(attr));
-  const p1 = Number(last.getAttribute(attr));
-  const plotPerUnit = (p1 - p0) / (v1 - v0);
-  return { toPlot: (v) => p0 + (v - v0) * plotPerUnit, toData: (p) => v0 + (p - p0) / plotPerUnit, plotPerUnit };
-}
 
 function points(el: Element): [number, number][] {
   return (el.getAttribute('points') ?? '')

@@ -1,16 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { renderTravelTimes } from '../../../engine/render/index.js';
-import { byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
-
-function axisMap(root: Element, role: 'x-tick' | 'y-tick'): (plot: number) => number {
-  const ticks = byRole(root, role);
-  const attr = role === 'x-tick' ? 'x1' : 'y1';
-  const v0 = Number(ticks[0].getAttribute('data-value'));
-  const v1 = Number(ticks[ticks.length - 1].getAttribute('data-value'));
-  const p0 = Number(ticks[0].getAttribute(attr));
-  const p1 = Number(ticks[ticks.length - 1].getAttribute(attr));
-  return (p) => v0 + ((p - p0) * (v1 - v0)) / (p1 - p0);
-}
+import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
 
 function textOf(el: Element): string {
   const texts = el.nodeName.toLowerCase() === 'text' ? [el] : Array.from(el.querySelectorAll('text'));
@@ -33,8 +23,8 @@ describe('renderTravelTimes', () => {
   it('plots picks with time increasing upward, at their x and time', () => {
     const { survey, interpretation } = renderFixture();
     const root = parseSvg(renderTravelTimes(survey, interpretation));
-    const toX = axisMap(root, 'x-tick');
-    const toT = axisMap(root, 'y-tick');
+    const toX = axisMap(root, 'x-tick').toData;
+    const toT = axisMap(root, 'y-tick').toData;
     const ticks = byRole(root, 'y-tick');
     // Larger times sit higher on the page (smaller y).
     expect(Number(ticks[ticks.length - 1].getAttribute('y1'))).toBeLessThan(Number(ticks[0].getAttribute('y1')));
@@ -49,8 +39,8 @@ describe('renderTravelTimes', () => {
   it('draws one line per fitted branch, over its extent, with its apparent velocity written', () => {
     const { survey, interpretation } = renderFixture();
     const root = parseSvg(renderTravelTimes(survey, interpretation));
-    const toX = axisMap(root, 'x-tick');
-    const toT = axisMap(root, 'y-tick');
+    const toX = axisMap(root, 'x-tick').toData;
+    const toT = axisMap(root, 'y-tick').toData;
     const branches = byRole(root, 'branch');
     let expected = 0;
     for (const a of interpretation.shots) {

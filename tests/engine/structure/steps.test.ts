@@ -135,11 +135,6 @@ const DOWN_RIGHT: SteppedModel = { v1: 1000, v2: 2500, xs: 47, zL: 5, zR: 9 };
 const DOWN_LEFT: SteppedModel = { v1: 1000, v2: 2500, xs: 47, zL: 9, zR: 5 };
 const SLOW_TOP: SteppedModel = { v1: 600, v2: 3000, xs: 61, zL: 4, zR: 7 };
 
-function expectedJumpMs(m: SteppedModel): number {
-  const ic = Math.asin(m.v1 / m.v2);
-  return (1000 * (m.zR - m.zL) * Math.cos(ic)) / m.v1;
-}
-
 describe('stepped-refractor synthetic (Fermat by Dijkstra)', () => {
   it('reproduces the flat-refractor head-wave formula away from the step (Kearey et al. 2002 ch. 5)', () => {
     const flat: SteppedModel = { v1: 1000, v2: 2500, xs: 1000, zL: 6, zR: 6 };
