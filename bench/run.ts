@@ -9,10 +9,10 @@ import { cpus, loadavg } from 'node:os';
 import { solveFirstArrivals } from '../engine/forward/eikonal.js';
 import { buildVelocityGrid, type LayeredModel } from '../engine/forward/model.js';
 import { syntheticSurvey } from '../engine/forward/synthetic.js';
-import { interpret } from '../engine/interpret.js';
-import { withResiduals } from '../engine/residuals.js';
+import { interpret } from '../engine/pipeline/interpret.js';
+import { withResiduals } from '../engine/qc/residuals.js';
 import { demoLine } from '../engine/samples/demo-lines.js';
-import type { Survey } from '../engine/survey.js';
+import type { Survey } from '../engine/survey/survey.js';
 
 const model: LayeredModel = {
   surface: [

@@ -7,7 +7,7 @@
  * and is logged with its stack.
  */
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
-import type { Problem } from '../engine/problem.js';
+import type { Problem } from '../engine/survey/problem.js';
 
 interface CatalogueEntry {
   status: number;

@@ -2,8 +2,8 @@
  * Demo seeding: an empty store gets the invented demo line as its first survey, so a
  * fresh `npm start` shows something. The demo module is loaded only when seeding.
  */
-import { interpret } from '../engine/interpret.js';
-import { validateSurvey } from '../engine/validate.js';
+import { interpret } from '../engine/pipeline/interpret.js';
+import { validateSurvey } from '../engine/survey/validate.js';
 import type { SurveyStore } from './store.js';
 
 /** Stores demoLine() when the store is empty; returns the new id, or null when nothing was stored. */

@@ -5,8 +5,8 @@
  * of user text goes through escapeHtml. The page's Content-Security-Policy (SHARE_PAGE_CSP)
  * forbids scripts, so even a hostile string that slipped through could not run.
  */
-import type { Interpretation, Station } from '../engine/interpretation.js';
-import type { Survey } from '../engine/survey.js';
+import type { Interpretation, Station } from '../engine/output/interpretation.js';
+import type { Survey } from '../engine/survey/survey.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";

@@ -5,7 +5,7 @@
  * (depth_to_refractor_1_m, …). Null or absent values are empty cells. Fields the engine
  * adds later appear after the known ones, named in snake_case.
  */
-import type { Interpretation, Station } from '../engine/interpretation.js';
+import type { Interpretation, Station } from '../engine/output/interpretation.js';
 
 interface Column {
   header: string;

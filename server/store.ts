@@ -8,8 +8,8 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import Database from 'better-sqlite3';
-import type { Survey } from '../engine/survey.js';
-import type { Interpretation } from '../engine/interpretation.js';
+import type { Survey } from '../engine/survey/survey.js';
+import type { Interpretation } from '../engine/output/interpretation.js';
 
 export const STORE_FILE_NAME = 'arcline.sqlite';
 

@@ -4,9 +4,9 @@
  * importPickTable and then validateSurvey as well, so both doors check the same rules.
  */
 import type { FastifyRequest } from 'fastify';
-import { validateSurvey } from '../engine/validate.js';
-import { importPickTable } from '../engine/csv-import.js';
-import type { Survey } from '../engine/survey.js';
+import { validateSurvey } from '../engine/survey/validate.js';
+import { importPickTable } from '../engine/survey/csv-import.js';
+import type { Survey } from '../engine/survey/survey.js';
 import { AppError, problemsError } from './errors.js';
 
 /** The media type of the request without parameters, lower case ('' when absent). */

@@ -36,8 +36,8 @@
  * options.branchOverrides replace the automatic split exactly (overridden: true).
  */
 import { median } from 'simple-statistics';
-import type { BranchOverride, Survey } from '../survey.js';
-import type { BranchLine, ShotAnalysis, SideBranches } from '../interpretation.js';
+import type { BranchOverride, Survey } from '../survey/survey.js';
+import type { BranchLine, ShotAnalysis, SideBranches } from '../output/interpretation.js';
 import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
 import { branchLineFromSegment, crossoverDistanceM } from './branch-line.js';

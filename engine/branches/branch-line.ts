@@ -2,7 +2,7 @@
  * Straight branches of a time–distance curve, t_ms = interceptMs + 1000·offset/velocity
  * (Kearey, Brooks & Hill 2002, ch. 5), and the crossover distance between two of them.
  */
-import type { BranchLine } from '../interpretation.js';
+import type { BranchLine } from '../output/interpretation.js';
 import type { SidePick } from './side-picks.js';
 import type { SegmentLine } from './segmented-fit.js';
 

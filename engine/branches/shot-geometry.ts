@@ -2,8 +2,8 @@
  * Where a shot sits on the spread: its elevation, its position class (off an end, at an
  * end, inside) and the nominal geophone spacing used for those decisions. Units: m.
  */
-import type { Geophone, Shot } from '../survey.js';
-import type { ShotAnalysis } from '../interpretation.js';
+import type { Geophone, Shot } from '../survey/survey.js';
+import type { ShotAnalysis } from '../output/interpretation.js';
 
 /** Median spacing between neighbouring geophones, m (0 for a single geophone). */
 export function geophoneSpacingM(geophones: Geophone[]): number {

@@ -3,7 +3,7 @@
  * Offset is the horizontal distance along the line, |x − shot x| in m: elevation
  * differences are ignored here (the plus-minus step deals with topography).
  */
-import type { Survey } from '../survey.js';
+import type { Survey } from '../survey/survey.js';
 
 export type Side = 'left' | 'right';
 

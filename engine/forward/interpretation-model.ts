@@ -24,8 +24,8 @@
  *
  * Units: m, m/s. Pure; never throws for an interpretation without depths (it says why).
  */
-import type { Survey } from '../survey.js';
-import type { Interpretation } from '../interpretation.js';
+import type { Survey } from '../survey/survey.js';
+import type { Interpretation } from '../output/interpretation.js';
 import type { GridExtent, LateralVelocity, LayeredModel, ModelLayer } from './model.js';
 import { GROUND_SKIN_CELLS, MODEL_LIMITS, layerVelocityAt } from './model.js';
 import { elevationAt, type ModelPoint } from './polyline.js';

@@ -25,7 +25,7 @@
  */
 import { elevationAt, type ModelPoint } from './polyline.js';
 import { GridError, MAX_GRID_NODES, checkGridSize, nodesAlong, type VelocityGrid } from './velocity-grid.js';
-import type { Problem } from '../problem.js';
+import type { Problem } from '../survey/problem.js';
 
 export type { ModelPoint } from './polyline.js';
 

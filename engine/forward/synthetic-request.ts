@@ -25,8 +25,8 @@
 import { checkModel, type LayeredModel } from './model.js';
 import { MAX_GRID_NODES, nodesAlong } from './velocity-grid.js';
 import { DEFAULT_CELL_M, syntheticGridExtent, syntheticSurvey, type SyntheticLayout, type SyntheticOptions } from './synthetic.js';
-import { SURVEY_LIMITS, type Survey } from '../survey.js';
-import type { Problem } from '../problem.js';
+import { SURVEY_LIMITS, type Survey } from '../survey/survey.js';
+import type { Problem } from '../survey/problem.js';
 
 export interface SyntheticRequest {
   model: LayeredModel;

@@ -10,13 +10,13 @@
  * clipped at 0, rounded to 0.01 ms. Dead traces give null picks: listed geophones in every
  * shot, and a seeded share of all shot–geophone traces.
  */
-import type { Survey, Shot } from '../survey.js';
+import type { Survey, Shot } from '../survey/survey.js';
 import { solveFirstArrivals, sampleTime } from './eikonal.js';
 import { buildVelocityGrid, GROUND_SKIN_CELLS, type GridExtent, type LayeredModel } from './model.js';
 import { elevationAt } from './polyline.js';
 import { seededUniform, standardNormal } from './seeded-random.js';
 import { checkSyntheticInputs } from './synthetic-request.js';
-import type { Problem } from '../problem.js';
+import type { Problem } from '../survey/problem.js';
 
 export interface SyntheticLayout {
   /** Number of geophones, 1–1024. */

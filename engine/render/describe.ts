@@ -2,8 +2,8 @@
  * Words and positions both plots share: the line's name, the method in words, where each
  * shot is drawn, and a one-line summary of the checks.
  */
-import type { MethodName, Survey } from '../survey.js';
-import type { Interpretation } from '../interpretation.js';
+import type { MethodName, Survey } from '../survey/survey.js';
+import type { Interpretation } from '../output/interpretation.js';
 import type { ShotPlacement } from './section-markers.js';
 import { formatMs } from './format.js';
 

@@ -4,7 +4,7 @@
  * Positions come from the interpretation; labels are placed so they do not overprint.
  */
 import type { Container } from '@svgdotjs/svg.js';
-import type { Step, VelocityChange } from '../interpretation.js';
+import type { Step, VelocityChange } from '../output/interpretation.js';
 import type { SectionFrame } from './section-frame.js';
 import type { ProfilePoint } from './refractor-path.js';
 import { elevationOnProfile } from './refractor-path.js';

@@ -4,7 +4,7 @@
  * the refractor down to the foot of the plot, so deeper layers overlay shallower ones.
  */
 import type { Container } from '@svgdotjs/svg.js';
-import type { Station } from '../interpretation.js';
+import type { Station } from '../output/interpretation.js';
 import type { SectionFrame } from './section-frame.js';
 import type { ProfilePoint } from './refractor-path.js';
 import { pointsAttr } from './refractor-path.js';

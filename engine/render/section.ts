@@ -5,9 +5,9 @@
  * The one sum it does — elevation of the second refractor = station elevation − depths[1] —
  * is the definition the API states for refractorElevation, applied to the deeper refractor.
  */
-import type { Survey } from '../survey.js';
-import type { Interpretation, Station } from '../interpretation.js';
-import { CAUTIONS } from '../cautions.js';
+import type { Survey } from '../survey/survey.js';
+import type { Interpretation, Station } from '../output/interpretation.js';
+import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM } from './page.js';
 import { INK, SECTION_COLOURS } from './palette.js';

@@ -6,9 +6,9 @@
  * lines the interpretation reports — t = interceptMs + 1000·|x − shotX| / velocity over
  * fromX..toX (BranchLine in engine/interpretation.ts) — and fits nothing itself.
  */
-import type { Survey } from '../survey.js';
-import type { BranchLine, Interpretation, ShotAnalysis } from '../interpretation.js';
-import { CAUTIONS } from '../cautions.js';
+import type { Survey } from '../survey/survey.js';
+import type { BranchLine, Interpretation, ShotAnalysis } from '../output/interpretation.js';
+import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM, textWidthMm } from './page.js';
 import { INK, SHOT_COLOURS } from './palette.js';

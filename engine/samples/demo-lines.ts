@@ -11,7 +11,7 @@
  * model that made them.
  */
 import { firstArrivalMs, type PlanarRefractorModel, type SurfacePoint } from '../forward/planar-refractor.js';
-import type { Survey } from '../survey.js';
+import type { Survey } from '../survey/survey.js';
 
 /** A demo line's model: the refractor, the ground and the layout that made its picks. */
 export interface DemoLineModel {

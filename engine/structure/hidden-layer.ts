@@ -20,7 +20,7 @@
  * interpreted velocities is itself a sign of a wrong branch assignment.
  * Units: m, m/s (times internally in s).
  */
-import type { Warning } from '../interpretation.js';
+import type { Warning } from '../output/interpretation.js';
 import { StructureInputError } from './structure-input.js';
 
 export interface HiddenLayerInput {

@@ -9,8 +9,8 @@ export { findDelayTimeSteps, findBranchSteps, correctStepPosition, combineStepEv
 export type { DelayTimeStep, BranchStep, StepDetectorOptions, BranchStepOptions, CombineStepOptions } from './steps.js';
 export { planarDip, localDips } from './planar-dip.js';
 export type { PlanarDipFit, LocalDip } from './planar-dip.js';
-export { stripLayers, thicknessesFromInterceptTimes } from './layer-stripping.js';
-export type { StrippedLayers } from './layer-stripping.js';
+export { stripLayers, thicknessesFromInterceptTimes } from '../depth/layer-stripping.js';
+export type { StrippedLayers } from '../depth/layer-stripping.js';
 export { maxHiddenLayerThickness, isLayerHidden, hiddenLayerWarning, velocityInversion } from './hidden-layer.js';
 export type { HiddenLayerInput, HiddenLayerBound, HiddenLayerWarningInput } from './hidden-layer.js';
 export { robustNoiseSigma } from './noise-level.js';

@@ -23,7 +23,7 @@
  *
  * Units: x, z in m; times in ms; velocities in m/s.
  */
-import type { Step } from '../interpretation.js';
+import type { Step } from '../output/interpretation.js';
 import { scanForJumps } from './jump-scan.js';
 import { robustNoiseSigma } from './noise-level.js';
 import { checkPositions, checkPositive, checkValues, presentPoints, StructureInputError } from './structure-input.js';

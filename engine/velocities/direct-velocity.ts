@@ -6,8 +6,8 @@
  * Offsets are horizontal distances along the line (elevation ignored). Units: m, ms, m/s.
  */
 import { median } from 'simple-statistics';
-import type { Survey } from '../survey.js';
-import type { ShotAnalysis } from '../interpretation.js';
+import type { Survey } from '../survey/survey.js';
+import type { ShotAnalysis } from '../output/interpretation.js';
 import { theilSenSlope } from './theil-sen.js';
 
 export function topLayerVelocity(

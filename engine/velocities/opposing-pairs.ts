@@ -4,7 +4,7 @@
  * left side (toward −x), and the x extents of those two first-refractor branches overlap,
  * so both branches see the same stretch of refractor.
  */
-import type { ShotAnalysis } from '../interpretation.js';
+import type { ShotAnalysis } from '../output/interpretation.js';
 
 /** All such pairs, ordered by the x of A, then of B. Inputs are not changed. */
 export function opposingPairs(shots: ShotAnalysis[]): [ShotAnalysis, ShotAnalysis][] {

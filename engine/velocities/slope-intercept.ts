@@ -8,7 +8,7 @@
  *   perpendicular depth under a shot h = V1·ti / (2 cos ic), vertical depth h / cos θ
  * Units: m/s, ms (intercepts), m, degrees out.
  */
-import type { OpposingPairVelocities, ShotAnalysis } from '../interpretation.js';
+import type { OpposingPairVelocities, ShotAnalysis } from '../output/interpretation.js';
 
 export interface SlopeInterceptDip {
   /** True refractor velocity V2, m/s. */

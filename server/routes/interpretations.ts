@@ -4,7 +4,7 @@
  * token even on the office network.
  */
 import type { FastifyInstance } from 'fastify';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { surveyFromRequest } from '../survey-input.js';
 
 export async function interpretationRoutes(app: FastifyInstance): Promise<void> {

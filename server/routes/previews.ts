@@ -11,10 +11,10 @@
  * in an <img>, and an SVG document in an image runs no script and needs no escaping.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
-import type { Interpretation } from '../../engine/interpretation.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { surveyFromRequest } from '../survey-input.js';
 
 type Renderer = (survey: Survey, interpretation: Interpretation) => string;

@@ -6,7 +6,7 @@
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
-import { CAUTIONS } from '../../engine/cautions.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
 import type { SurveyStore } from '../store.js';
 import { requireShared } from '../lookup.js';
 import { renderSharePage, SHARE_PAGE_CSP } from '../share-page.js';

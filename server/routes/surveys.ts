@@ -4,7 +4,7 @@
  * Every write validates the whole body before the store is touched.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
 import { AppError } from '../errors.js';

@@ -21,9 +21,9 @@
  */
 import type { FastifyInstance } from 'fastify';
 import { AppError } from '../errors.js';
-import { interpret } from '../../engine/interpret.js';
-import type { Problem } from '../../engine/problem.js';
-import type { Survey } from '../../engine/survey.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import type { Problem } from '../../engine/survey/problem.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import {
   SYNTHETIC_LIMITS,
   syntheticSurveyFromRequest,

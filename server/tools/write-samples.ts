@@ -10,8 +10,8 @@ import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { demoLine, flatLine } from '../../engine/samples/demo-lines.js';
-import { surveyToPickTable } from '../../engine/csv-import.js';
-import type { Survey } from '../../engine/survey.js';
+import { surveyToPickTable } from '../../engine/survey/csv-import.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 /** The project root: the nearest folder above this file that holds package.json (works from dist/ or source). */
 function projectRoot(): string {

@@ -7,8 +7,8 @@ import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { CAUTIONS } from '../../engine/cautions.js';
-import type { Survey } from '../../engine/survey.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { loadedWidth, openArcline, readSample, SAMPLES_DIR, servePageInChromium, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 

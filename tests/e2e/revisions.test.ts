@@ -7,7 +7,7 @@
 import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { loadedWidth, openArcline, readSample, servePageInChromium, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 

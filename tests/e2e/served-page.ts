@@ -7,7 +7,7 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { buildApp, type AppOptions } from '../../server/app.js';
 import { launchChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 

@@ -7,7 +7,7 @@ import {
 import { bicScore, robustSegmentedFit } from '../../engine/branches/segmented-fit.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 /**
  * Evidence a second refractor needs before assignBranches keeps it unforced: a bend

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
-import type { Geophone, Survey } from '../../engine/survey.js';
+import type { Geophone, Survey } from '../../engine/survey/survey.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
 
 /**

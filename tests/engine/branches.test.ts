@@ -6,7 +6,7 @@ import {
   headWaveTimeMs,
   type PlanarRefractorModel,
 } from '../../engine/forward/planar-refractor.js';
-import type { Geophone, Survey } from '../../engine/survey.js';
+import type { Geophone, Survey } from '../../engine/survey/survey.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
 
 // Invented test line: 24 geophones at 2 m, flat ground, five shots as in a usual field layout.

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { importPickTable, surveyToPickTable, MAX_PICK_TABLE_BYTES, MAX_PICK_TABLE_ROWS } from '../../engine/csv-import.js';
-import { SURVEY_LIMITS, type Survey } from '../../engine/survey.js';
-import type { Problem } from '../../engine/problem.js';
+import { importPickTable, surveyToPickTable, MAX_PICK_TABLE_BYTES, MAX_PICK_TABLE_ROWS } from '../../engine/survey/csv-import.js';
+import { SURVEY_LIMITS, type Survey } from '../../engine/survey/survey.js';
+import type { Problem } from '../../engine/survey/problem.js';
 import { demoLine, flatLine } from '../../engine/samples/demo-lines.js';
 
 const HEADER = 'shot_id,shot_x_m,shot_elevation_m,geophone_x_m,geophone_elevation_m,time_ms';

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
-import { dataCautions, MIN_PICKS_PER_BRANCH } from '../../engine/data-cautions.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { dataCautions, MIN_PICKS_PER_BRANCH } from '../../engine/qc/data-cautions.js';
 import { isLayerHidden } from '../../engine/structure/hidden-layer.js';
 import { demoLine, flatLine, flatLineModel } from '../../engine/samples/demo-lines.js';
-import type { Interpretation } from '../../engine/interpretation.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 const GEOPHONES = Array.from({ length: 48 }, (_, i) => ({ x: 2 * i }));
 

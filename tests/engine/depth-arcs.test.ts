@@ -5,7 +5,7 @@ import {
   lowerArcElevationM,
   verticalDepthsFromArcsM,
   type DepthArc,
-} from '../../engine/depth-arcs.js';
+} from '../../engine/depth/depth-arcs.js';
 import {
   perpendicularDistanceToRefractor,
   verticalDepthToRefractor,

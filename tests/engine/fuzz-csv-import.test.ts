@@ -6,8 +6,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { importPickTable } from '../../engine/csv-import.js';
-import { validateSurvey } from '../../engine/validate.js';
+import { importPickTable } from '../../engine/survey/csv-import.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
 import { mulberry32 } from '../helpers/random.js';
 
 const demoCsv = readFileSync(new URL('../../samples/demo-line.csv', import.meta.url), 'utf8');

@@ -8,10 +8,10 @@
  * valid and are interpreted. FUZZ_SEEDS=400 runs more (400 passed when written).
  */
 import { describe, expect, it } from 'vitest';
-import { validateSurvey } from '../../engine/validate.js';
-import { interpret } from '../../engine/interpret.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { demoLine } from '../../engine/samples/demo-lines.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { mulberry32 } from '../helpers/random.js';
 
 type Rng = () => number;

@@ -6,12 +6,12 @@
  * line is needed (engine/forward/planar-refractor.ts; Kearey, Brooks & Hill 2002, ch. 5).
  */
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
-import { combineMinusTimes, combineWeighted } from '../../engine/plus-minus.js';
-import { mergePhantoms, phantomVarianceMs2 } from '../../engine/phantom.js';
-import { localTopLayerVelocities } from '../../engine/lateral-v1.js';
-import { bendZones, joinMaskedMinusTimes, mergeZones, stepFromRampCentreM } from '../../engine/structure-features.js';
-import { reciprocalChecks } from '../../engine/reciprocal.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { combineMinusTimes, combineWeighted } from '../../engine/plus-minus/plus-minus.js';
+import { mergePhantoms, phantomVarianceMs2 } from '../../engine/plus-minus/phantom.js';
+import { localTopLayerVelocities } from '../../engine/velocities/lateral-v1.js';
+import { bendZones, joinMaskedMinusTimes, mergeZones, stepFromRampCentreM } from '../../engine/structure/structure-features.js';
+import { reciprocalChecks } from '../../engine/reciprocal/reciprocal-checks.js';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { headWaveTimeMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
 import { fiveShotLayout, planarSurvey } from '../helpers/planar-survey.js';

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
-import { CAUTIONS } from '../../engine/cautions.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
 import { headWaveTimeMs, verticalDepthToRefractor, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
-import type { Survey } from '../../engine/survey.js';
-import type { Interpretation } from '../../engine/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
 import { fiveShotLayout, planarSurvey } from '../helpers/planar-survey.js';
 import { mulberry32 } from '../helpers/random.js';
 

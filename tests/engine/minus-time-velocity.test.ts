@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { linearRegression } from 'simple-statistics';
-import { minusTimeVelocity } from '../../engine/minus-time-velocity.js';
+import { minusTimeVelocity } from '../../engine/velocities/minus-time-velocity.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
 
 describe('minusTimeVelocity', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { phantomArrivals } from '../../engine/phantom.js';
+import { phantomArrivals } from '../../engine/plus-minus/phantom.js';
 
 describe('phantomArrivals', () => {
   it('shifts the off-end arrivals by the mean difference where both shots are refracted', () => {

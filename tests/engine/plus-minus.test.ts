@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { normalDepthFromDelayM, plusMinus } from '../../engine/plus-minus.js';
+import { normalDepthFromDelayM, plusMinus } from '../../engine/plus-minus/plus-minus.js';
 
 describe('plusMinus', () => {
   // Delay-time form of head-wave times (Hagedoorn, Geophysical Prospecting 7, 1959):

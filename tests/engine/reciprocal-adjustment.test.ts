@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { adjustReciprocalTimes, type AdjustablePair } from '../../engine/reciprocal-adjustment.js';
+import { adjustReciprocalTimes, type AdjustablePair } from '../../engine/reciprocal/reciprocal-adjustment.js';
 
 /**
  * The delay time at a geophone is the same whichever opposing pair measures it (Hagedoorn,

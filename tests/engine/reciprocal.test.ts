@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from '../../engine/reciprocal.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from '../../engine/reciprocal/reciprocal-checks.js';
 import { firstArrivalMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
-import type { Geophone, Survey } from '../../engine/survey.js';
+import type { Geophone, Survey } from '../../engine/survey/survey.js';
 
 // Invented test line; closed-form first arrivals over a dipping planar refractor
 // (Kearey, Brooks & Hill 2002, ch. 5), which obey reciprocity exactly.

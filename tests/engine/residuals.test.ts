@@ -1,10 +1,10 @@
 // Residuals: first arrivals modelled through an interpreted section (engine/residuals.ts)
 // and the section as a model (engine/forward/interpretation-model.ts).
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
-import type { Interpretation } from '../../engine/interpretation.js';
-import type { Survey } from '../../engine/survey.js';
-import { computeResiduals, withResiduals, RESIDUALS_HIGH_FACTOR } from '../../engine/residuals.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import { computeResiduals, withResiduals, RESIDUALS_HIGH_FACTOR } from '../../engine/qc/residuals.js';
 import { modelFromInterpretation, residualGridExtent, RESIDUAL_MAX_CELL_M } from '../../engine/forward/interpretation-model.js';
 import { elevationAt } from '../../engine/forward/polyline.js';
 import { flatLine, flatLineModel } from '../../engine/samples/demo-lines.js';

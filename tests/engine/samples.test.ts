@@ -2,10 +2,10 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { demoLine, demoLineModel, flatLine, flatLineModel, type DemoLineModel } from '../../engine/samples/demo-lines.js';
-import { importPickTable, surveyToPickTable } from '../../engine/csv-import.js';
-import { validateSurvey } from '../../engine/validate.js';
+import { importPickTable, surveyToPickTable } from '../../engine/survey/csv-import.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
 import { directWaveTimeMs, firstArrivalMs, headWaveTimeMs, perpendicularDistanceToRefractor, verticalDepthToRefractor } from '../../engine/forward/planar-refractor.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 const samplesDir = fileURLToPath(new URL('../../samples/', import.meta.url));
 const readSample = (name: string): string => readFileSync(samplesDir + name, 'utf8');

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
-import { interpret } from '../../engine/interpret.js';
-import { refractorDelays } from '../../engine/second-refractor.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { refractorDelays } from '../../engine/depth/second-refractor.js';
 import { flatLine } from '../../engine/samples/demo-lines.js';
-import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/weighted-plus-times.js';
-import type { Survey } from '../../engine/survey.js';
+import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/plus-minus/weighted-plus-times.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 /**
  * Three flat layers (invented test model); closed-form first arrivals and delay times,

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { validateSurvey, MAX_PROBLEMS } from '../../engine/validate.js';
-import { SURVEY_LIMITS } from '../../engine/survey.js';
-import type { Problem } from '../../engine/problem.js';
+import { validateSurvey, MAX_PROBLEMS } from '../../engine/survey/validate.js';
+import { SURVEY_LIMITS } from '../../engine/survey/survey.js';
+import type { Problem } from '../../engine/survey/problem.js';
 
 // Invented test data: six geophones at 2 m, a shot off each end. Times are plausible, not modelled.
 function goodSurvey(): Record<string, any> {

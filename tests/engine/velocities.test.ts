@@ -5,8 +5,8 @@ import { theilSenSlope } from '../../engine/velocities/theil-sen.js';
 import { opposingPairs } from '../../engine/velocities/opposing-pairs.js';
 import { opposingPairVelocities, slopeInterceptDip } from '../../engine/velocities/slope-intercept.js';
 import { firstArrivalMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
-import type { ShotAnalysis, SideBranches } from '../../engine/interpretation.js';
-import type { Geophone, Survey } from '../../engine/survey.js';
+import type { ShotAnalysis, SideBranches } from '../../engine/output/interpretation.js';
+import type { Geophone, Survey } from '../../engine/survey/survey.js';
 
 // Invented test line: 24 geophones at 2 m, five shots; closed-form times (Kearey, Brooks & Hill 2002, ch. 5).
 const GEOPHONES: Geophone[] = Array.from({ length: 24 }, (_, i) => ({ x: 2 * i }));

@@ -5,7 +5,7 @@
  * and a seeded generator are given.
  */
 import { firstArrivalMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { gaussian } from './random.js';
 
 export interface PlanarLayout {

@@ -18,7 +18,7 @@ import {
   type PlanarRefractorModel,
   type SurfacePoint,
 } from '../../engine/forward/planar-refractor.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import type {
   BranchLine,
   Interpretation,
@@ -28,8 +28,8 @@ import type {
   Station,
   Step,
   VelocityChange,
-} from '../../engine/interpretation.js';
-import { CAUTIONS } from '../../engine/cautions.js';
+} from '../../engine/output/interpretation.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
 
 export const FIXTURE_MODEL: PlanarRefractorModel = { v1: 610, v2: 2450, refractorElevationAtZero: 37.6, dipDegrees: 4.2 };
 

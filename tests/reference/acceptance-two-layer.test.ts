@@ -36,9 +36,9 @@
  * roughness, which is most of what remains (from the noise-free lines: 0.01 and 0.09 ms).
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
-import type { Interpretation } from '../../engine/interpretation.js';
-import type { Survey } from '../../engine/survey.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
 import { syntheticSurvey, type SyntheticLayout } from '../../engine/forward/synthetic.js';
 import type { LayeredModel, ModelPoint } from '../../engine/forward/model.js';
 import { elevationAt } from '../../engine/forward/polyline.js';

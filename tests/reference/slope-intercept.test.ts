@@ -17,7 +17,7 @@ import {
   verticalDepthToRefractor,
   type PlanarRefractorModel,
 } from '../../engine/forward/planar-refractor.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 const DIPS = [-8, -4, -1, 0, 1, 4, 8];
 const rad = (d: number): number => (d * Math.PI) / 180;

@@ -14,7 +14,7 @@ import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
 import { elevationAt } from '../../engine/forward/polyline.js';
 import { CELL_M, LAYOUT, SEVEN_SHOTS, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
-import type { Interpretation } from '../../engine/interpretation.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
 
 /** Relative depth errors at every station that has a depth, and how many have none. */
 function depthCheck(model: LayeredModel, result: Interpretation): { worst: number; covered: number; errors: { x: number; relative: number }[] } {

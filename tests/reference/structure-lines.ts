@@ -3,11 +3,11 @@
  * geophones at 2 m, x = 0–94 m), the two-layer velocities, and how they interpret a line
  * and measure its depths against the model.
  */
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
 import { elevationAt, type ModelPoint } from '../../engine/forward/polyline.js';
-import type { Survey } from '../../engine/survey.js';
-import type { Interpretation } from '../../engine/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
 
 export const SPACING_M = 2;
 export const LAYOUT = { geophoneCount: 48, firstX: 0, spacing: SPACING_M };

@@ -18,8 +18,8 @@ import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import { layerVelocityAt, type LayeredModel } from '../../engine/forward/model.js';
 import { CELL_M, LAYOUT, SEVEN_SHOTS, SPACING_M, V1, V2, level, report, run, trueDepthM } from './structure-lines.js';
 import { seededUniform, standardNormal } from '../../engine/forward/seeded-random.js';
-import type { Survey } from '../../engine/survey.js';
-import type { Interpretation } from '../../engine/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
 
 function depthErrors(model: LayeredModel, result: Interpretation, keep: (x: number) => boolean): { x: number; relative: number }[] {
   return result.stations

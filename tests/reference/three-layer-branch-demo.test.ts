@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { demoLine, demoLineModel } from '../../engine/samples/demo-lines.js';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { verticalDepthToRefractor } from '../../engine/forward/planar-refractor.js';
 

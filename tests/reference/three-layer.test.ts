@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
-import type { Interpretation } from '../../engine/interpretation.js';
-import type { Survey } from '../../engine/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 /**
  * Three flat layers (invented test model). Closed-form first arrivals, Kearey, Brooks &

@@ -13,7 +13,7 @@
  * depth, V2 within 2 %, and the dip within 0.5°.
  */
 import { describe, expect, it } from 'vitest';
-import { interpret } from '../../engine/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
 import {
   headWaveTimeMs,
   verticalDepthToRefractor,

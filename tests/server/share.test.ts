@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import type { FastifyInstance } from 'fastify';
 import { buildApp } from '../../server/app.js';
-import { CAUTIONS } from '../../engine/cautions.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
 import { escapeHtml } from '../../server/share-page.js';
 
 const demoJsonText = readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8');

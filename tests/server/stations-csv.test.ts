@@ -3,9 +3,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { csvCell, downloadName, stationsCsv } from '../../server/stations-csv.js';
-import { interpret } from '../../engine/interpret.js';
-import { validateSurvey } from '../../engine/validate.js';
-import type { Interpretation, Station } from '../../engine/interpretation.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
+import type { Interpretation, Station } from '../../engine/output/interpretation.js';
 
 function parseRows(csv: string): string[][] {
   expect(csv.endsWith('\r\n')).toBe(true);

@@ -6,9 +6,9 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import Database from 'better-sqlite3';
 import { SCHEMA_VERSION, STORE_FILE_NAME, SurveyStore, newShareToken } from '../../server/store.js';
-import { interpret } from '../../engine/interpret.js';
-import { validateSurvey } from '../../engine/validate.js';
-import type { Survey } from '../../engine/survey.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 const demo = (): Survey => {
   const { survey } = validateSurvey(JSON.parse(readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8')));

@@ -5,7 +5,7 @@ import request from 'supertest';
 import type { FastifyInstance } from 'fastify';
 import { buildApp } from '../../server/app.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
-import { validateSurvey } from '../../engine/validate.js';
+import { validateSurvey } from '../../engine/survey/validate.js';
 import type { SyntheticRequest } from '../../engine/forward/synthetic-request.js';
 
 let app: FastifyInstance;

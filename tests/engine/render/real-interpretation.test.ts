@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { renderSection, renderTravelTimes } from '../../../engine/render/index.js';
-import { interpret } from '../../../engine/interpret.js';
+import { interpret } from '../../../engine/pipeline/interpret.js';
 import { demoLine, flatLine } from '../../../engine/samples/demo-lines.js';
 import { axisMap, byRole, parseSvg } from '../../helpers/render-fixture.js';
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { renderSection } from '../../../engine/render/index.js';
 import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
-import { CAUTIONS } from '../../../engine/cautions.js';
+import { CAUTIONS } from '../../../engine/qc/cautions.js';
 
 function points(el: Element): [number, number][] {
   return (el.getAttribute('points') ?? '')

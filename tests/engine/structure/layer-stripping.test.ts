@@ -10,7 +10,7 @@
  * same intercept as Σ 2·h_i·cos θ_i/V_i; the first test checks that identity numerically.
  */
 import { describe, expect, it } from 'vitest';
-import { stripLayers, thicknessesFromInterceptTimes } from '../../../engine/structure/layer-stripping.js';
+import { stripLayers, thicknessesFromInterceptTimes } from '../../../engine/depth/layer-stripping.js';
 import { velocityInversion } from '../../../engine/structure/hidden-layer.js';
 
 /** Intercept time (ms) of the head wave along refractor n (1-based) from ray path lengths. */

@@ -24,9 +24,9 @@
  * A warning whose code interpret (or another step) has already given for the same place is
  * not repeated.
  */
-import type { Survey } from './survey.js';
-import type { Interpretation, ShotAnalysis, Warning } from './interpretation.js';
-import { hiddenLayerWarning, velocityInversion } from './structure/hidden-layer.js';
+import type { Survey } from '../survey/survey.js';
+import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
+import { hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
 
 /** Fewest picks that show a straight branch (two fix a line, a third tests it). Common practice. */
 export const MIN_PICKS_PER_BRANCH = 3;

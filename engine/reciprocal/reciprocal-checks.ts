@@ -16,10 +16,10 @@
  * With fewer than 3 refracted picks the fitted branch line(s) are used. Offsets are
  * horizontal distances.
  */
-import type { Survey } from './survey.js';
-import type { ReciprocalCheck, ShotAnalysis, Warning } from './interpretation.js';
-import { geophoneSpacingM } from './branches/shot-geometry.js';
-import { timeOnBranchMs } from './branches/branch-line.js';
+import type { Survey } from '../survey/survey.js';
+import type { ReciprocalCheck, ShotAnalysis, Warning } from '../output/interpretation.js';
+import { geophoneSpacingM } from '../branches/shot-geometry.js';
+import { timeOnBranchMs } from '../branches/branch-line.js';
 
 /** Default tolerance between reciprocal times, ms — common practice ("a few ms"). */
 export const DEFAULT_RECIPROCAL_TOLERANCE_MS = 3;

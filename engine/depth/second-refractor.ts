@@ -42,16 +42,16 @@
  * The velocities and the fallback first-refractor depths are read from the rounded
  * interpretation (1 m/s, 0.01 m): their rounding moves the depths by under 0.1 %.
  */
-import type { Survey } from './survey.js';
-import type { Interpretation, ShotAnalysis, Station, Warning } from './interpretation.js';
-import { phantomArrivals, phantomVarianceMs2 } from './phantom.js';
-import { plusMinus } from './plus-minus.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, extrapolationAllowanceMs } from './reciprocal.js';
-import { reciprocalTimeOf, weightedPlusTimes, type ReciprocalReading, type WeightablePair } from './weighted-plus-times.js';
-import { minusTimeVelocity } from './minus-time-velocity.js';
-import { fitLine, type FitPoint } from './branches/segmented-fit.js';
-import { geophoneSpacingM } from './branches/shot-geometry.js';
-import { stripLayers } from './structure/layer-stripping.js';
+import type { Survey } from '../survey/survey.js';
+import type { Interpretation, ShotAnalysis, Station, Warning } from '../output/interpretation.js';
+import { phantomArrivals, phantomVarianceMs2 } from '../plus-minus/phantom.js';
+import { plusMinus } from '../plus-minus/plus-minus.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, extrapolationAllowanceMs } from '../reciprocal/reciprocal-checks.js';
+import { reciprocalTimeOf, weightedPlusTimes, type ReciprocalReading, type WeightablePair } from '../plus-minus/weighted-plus-times.js';
+import { minusTimeVelocity } from '../velocities/minus-time-velocity.js';
+import { fitLine, type FitPoint } from '../branches/segmented-fit.js';
+import { geophoneSpacingM } from '../branches/shot-geometry.js';
+import { stripLayers } from './layer-stripping.js';
 
 /** How a station's delay time to a refractor was found. */
 export type DelaySource = 'pair' | 'phantom' | 'intercept' | 'interpolated' | null;

@@ -24,12 +24,12 @@
  * interpretation-model.ts (≤ 0.5 m, ≤ spacing/6, capped in nodes). Measured in
  * docs/developers/residuals.md.
  */
-import type { Survey } from './survey.js';
-import type { Interpretation, ShotAnalysis, Warning } from './interpretation.js';
-import { buildVelocityGrid } from './forward/model.js';
-import { sampleTime, solveFirstArrivals } from './forward/eikonal.js';
-import { elevationAt } from './forward/polyline.js';
-import { modelFromInterpretation, residualGridExtent } from './forward/interpretation-model.js';
+import type { Survey } from '../survey/survey.js';
+import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
+import { buildVelocityGrid } from '../forward/model.js';
+import { sampleTime, solveFirstArrivals } from '../forward/eikonal.js';
+import { elevationAt } from '../forward/polyline.js';
+import { modelFromInterpretation, residualGridExtent } from '../forward/interpretation-model.js';
 
 /** Pick uncertainty assumed when options.pickUncertaintyMs is absent, ms (interpret's default). */
 export const DEFAULT_PICK_UNCERTAINTY_MS = 0.5;

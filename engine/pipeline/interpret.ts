@@ -25,7 +25,7 @@
  *    cancel out of T+ through the reciprocal time, so they need no correction.
  */
 import { linearRegression } from 'simple-statistics';
-import type { Survey } from './survey.js';
+import type { Survey } from '../survey/survey.js';
 import type {
   BranchLine,
   Interpretation,
@@ -36,26 +36,26 @@ import type {
   Station,
   VelocityAnalysis,
   Warning,
-} from './interpretation.js';
-import { CAUTIONS } from './cautions.js';
-import { assignBranches } from './branches/assign-branches.js';
-import { topLayerVelocity } from './velocities/direct-velocity.js';
-import { theilSenSlope } from './velocities/theil-sen.js';
-import { opposingPairs } from './velocities/opposing-pairs.js';
-import { opposingPairVelocities } from './velocities/slope-intercept.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from './reciprocal.js';
-import { adjustReciprocalTimes } from './reciprocal-adjustment.js';
-import { reciprocalTimeOf } from './weighted-plus-times.js';
-import { mergePhantoms, phantomArrivals, type PhantomResult } from './phantom.js';
-import { combineMinusTimes, combineWeighted, normalDepthFromDelayM, plusMinus } from './plus-minus.js';
-import type { MinusTimeVelocityResult } from './minus-time-velocity.js';
-import { arcFootPointsM, verticalDepthsFromArcsM } from './depth-arcs.js';
-import { withResiduals } from './residuals.js';
-import { withSecondRefractor } from './second-refractor.js';
-import { withDataCautions } from './data-cautions.js';
-import { chiSquareQuantile } from './structure/quantiles.js';
-import { geophoneSpacingM } from './branches/shot-geometry.js';
-import { localTopLayerVelocities, slownessStandardError, type DirectSide } from './lateral-v1.js';
+} from '../output/interpretation.js';
+import { CAUTIONS } from '../qc/cautions.js';
+import { assignBranches } from '../branches/assign-branches.js';
+import { topLayerVelocity } from '../velocities/direct-velocity.js';
+import { theilSenSlope } from '../velocities/theil-sen.js';
+import { opposingPairs } from '../velocities/opposing-pairs.js';
+import { opposingPairVelocities } from '../velocities/slope-intercept.js';
+import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from '../reciprocal/reciprocal-checks.js';
+import { adjustReciprocalTimes } from '../reciprocal/reciprocal-adjustment.js';
+import { reciprocalTimeOf } from '../plus-minus/weighted-plus-times.js';
+import { mergePhantoms, phantomArrivals, type PhantomResult } from '../plus-minus/phantom.js';
+import { combineMinusTimes, combineWeighted, normalDepthFromDelayM, plusMinus } from '../plus-minus/plus-minus.js';
+import type { MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
+import { arcFootPointsM, verticalDepthsFromArcsM } from '../depth/depth-arcs.js';
+import { withResiduals } from '../qc/residuals.js';
+import { withSecondRefractor } from '../depth/second-refractor.js';
+import { withDataCautions } from '../qc/data-cautions.js';
+import { chiSquareQuantile } from '../structure/quantiles.js';
+import { geophoneSpacingM } from '../branches/shot-geometry.js';
+import { localTopLayerVelocities, slownessStandardError, type DirectSide } from '../velocities/lateral-v1.js';
 import {
   bendZones,
   findSteps,
@@ -69,7 +69,7 @@ import {
   type FoundStep,
   type RefractedBranch,
   type RefractorVelocitySegment,
-} from './structure-features.js';
+} from '../structure/structure-features.js';
 
 /** Decimals kept in the output: 0.01 m, 0.01 ms, 1 m/s, 0.01°. The one place rounding is decided. */
 export const OUTPUT_DECIMALS = { metres: 2, milliseconds: 2, velocity: 0, degrees: 2 } as const;

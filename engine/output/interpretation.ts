@@ -2,7 +2,7 @@
  * The interpretation: what the engine says about a line. Plain JSON, shape fixed by
  * api-v1.md (fields may be added, never renamed). Units: m, ms, m/s, degrees.
  */
-import type { MethodName } from './survey.js';
+import type { MethodName } from '../survey/survey.js';
 
 export interface Station {
   x: number;

@@ -15,7 +15,7 @@
  * Kearey, Brooks & Hill 2002 ch. 5 for delay times and steps). Units: x, z in m; times in
  * ms; velocities in m/s.
  */
-import type { Step } from './interpretation.js';
+import type { Step } from '../output/interpretation.js';
 import {
   combineStepEvidence,
   findBranchSteps,
@@ -27,8 +27,8 @@ import {
   type DelayTimeStep,
   type LocalDip,
   type PlanarDipFit,
-} from './structure/index.js';
-import { minusTimeVelocity, type MinusTimeVelocityResult } from './minus-time-velocity.js';
+} from './index.js';
+import { minusTimeVelocity, type MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
 
 /** A refracted branch of one shot on one side of it (its own picks only, never phantomed). */
 export interface RefractedBranch {

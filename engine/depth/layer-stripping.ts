@@ -17,7 +17,7 @@
  * the critical angle does not exist) or a negative thickness (delay times that no set of
  * flat layers with these velocities produces). hidden-layer.ts words the warnings.
  */
-import { StructureInputError } from './structure-input.js';
+import { StructureInputError } from '../structure/structure-input.js';
 
 export interface StrippedLayers {
   /** Thickness of layers 1..n above each refractor, top first, m. */

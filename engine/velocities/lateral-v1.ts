@@ -16,7 +16,7 @@
  * least MIN_LATERAL_V1_CHANGE (common practice: smaller lateral changes are not resolved).
  * Units: x in m, velocities in m/s, times in ms.
  */
-import { chiSquareQuantile } from './structure/quantiles.js';
+import { chiSquareQuantile } from '../structure/quantiles.js';
 
 /**
  * Level of the agreement test. Strict (99.9 %) because a lateral V1 read from noise moves

@@ -13,7 +13,7 @@
  * Every pair estimates the same 2·delay at a geophone (Hagedoorn, Geophysical Prospecting 7,
  * 1959). Units: ms, ms², m.
  */
-import { adjustReciprocalTimes, type AdjustablePair } from './reciprocal-adjustment.js';
+import { adjustReciprocalTimes, type AdjustablePair } from '../reciprocal/reciprocal-adjustment.js';
 import { combineWeighted, type WeightedCombination } from './plus-minus.js';
 
 /** One reading of a reciprocal time: how far (m) it lies from the picks it rests on (0 at a geophone). */
