@@ -2,6 +2,7 @@
  * The app factory: checks its options, opens the store, wires plugins and returns the
  * Fastify instance without listening (server/main.ts listens; tests inject).
  */
+import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import Fastify, { type FastifyInstance } from 'fastify';
 import fastifyStatic from '@fastify/static';
 import { ConfigError } from './config.js';
@@ -17,6 +18,7 @@ import { surveyRoutes } from './routes/surveys.js';
 import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
 import { previewRoutes } from './routes/previews.js';
+import { ComputePool, type ComputePoolOptions } from './compute/pool.js';
 
 export interface AppOptions {
   /** Folder of the SQLite store, or ':memory:' (tests). */
@@ -33,17 +35,31 @@ export interface AppOptions {
   bodyLimitBytes?: number;
   /** Folder served at /. Default: the project's web/ folder. */
   webRoot?: string | null;
+  /** Worker threads, queue length and time limit of the compute pool (server/compute/pool.ts). */
+  compute?: ComputePoolOptions;
+  /**
+   * The whole request (headers and body) must arrive within this, ms; a client trickling
+   * its body is cut off. Default DEFAULT_REQUEST_TIMEOUT_MS.
+   */
+  requestTimeoutMs?: number;
 }
+
+/**
+ * Default time for a request to arrive, ms: a 5 MiB body over a slow office link takes a
+ * few seconds; 30 s leaves room and still frees a connection held by a trickle. Our choice.
+ */
+export const DEFAULT_REQUEST_TIMEOUT_MS = 30_000;
 
 export const DEFAULT_BODY_LIMIT_BYTES = 5 * 1024 * 1024;
 
 declare module 'fastify' {
   interface FastifyInstance {
     store: SurveyStore;
+    compute: ComputePool;
   }
 }
 
-function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToken' | 'webRoot'>> & Pick<AppOptions, 'writeToken'> {
+function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToken' | 'webRoot' | 'compute'>> & Pick<AppOptions, 'writeToken'> {
   if (options === null || typeof options !== 'object') throw new ConfigError('buildApp needs an options object.');
   if (typeof options.dataDir !== 'string' || options.dataDir.trim() === '') {
     throw new ConfigError('dataDir must name a folder for the store (or be ":memory:").');
@@ -53,6 +69,10 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
   const bodyLimitBytes = options.bodyLimitBytes ?? DEFAULT_BODY_LIMIT_BYTES;
   if (!Number.isInteger(bodyLimitBytes) || bodyLimitBytes < 1024) {
     throw new ConfigError(`bodyLimitBytes must be a whole number of at least 1024; got ${String(options.bodyLimitBytes)}.`);
+  }
+  const requestTimeoutMs = options.requestTimeoutMs ?? DEFAULT_REQUEST_TIMEOUT_MS;
+  if (!Number.isInteger(requestTimeoutMs) || requestTimeoutMs < 100) {
+    throw new ConfigError(`requestTimeoutMs must be a whole number of at least 100; got ${String(options.requestTimeoutMs)}.`);
   }
   const writeToken = options.writeToken === '' ? undefined : options.writeToken;
   if (writeToken !== undefined && (typeof writeToken !== 'string' || /\s/.test(writeToken))) {
@@ -71,15 +91,46 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
     seedDemo: options.seedDemo ?? false,
     logger: options.logger ?? false,
     bodyLimitBytes,
+    requestTimeoutMs,
   };
 }
+
+/**
+ * The HTTP server with its clocks set: a request (headers and body) must arrive whole
+ * within `requestTimeoutMs` (Node answers 408 and closes: a trickled body is cut off; it
+ * checks every CONNECTION_CHECK_MS, so the cut comes at most that much later), and an
+ * idle socket is closed after that plus the compute time limit (a socket is idle while
+ * its answer is computed).
+ */
+function timedServer(handler: (req: IncomingMessage, res: ServerResponse) => void, requestTimeoutMs: number, timeLimitMs: number): Server {
+  const server = createServer(
+    {
+      requestTimeout: requestTimeoutMs,
+      headersTimeout: Math.min(requestTimeoutMs, HEADERS_TIMEOUT_MS),
+      connectionsCheckingInterval: CONNECTION_CHECK_MS,
+      keepAliveTimeout: KEEP_ALIVE_TIMEOUT_MS,
+    },
+    handler,
+  );
+  server.setTimeout(requestTimeoutMs + timeLimitMs);
+  return server;
+}
+
+/** Headers must arrive within this, ms (Node's own default is 60 s). Our choice. */
+const HEADERS_TIMEOUT_MS = 10_000;
+/** How often Node checks request and header timeouts, ms (its default, 30 s, would let a trickle last that long). */
+const CONNECTION_CHECK_MS = 1_000;
+/** An idle keep-alive connection is closed after this, ms. Node's default. */
+const KEEP_ALIVE_TIMEOUT_MS = 5_000;
 
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const checked = checkOptions(options);
   const store = new SurveyStore(checked.dataDir);
+  const compute = new ComputePool(options.compute);
   const app = Fastify({
     logger: checked.logger,
     bodyLimit: checked.bodyLimitBytes,
+    serverFactory: (handler) => timedServer(handler, checked.requestTimeoutMs, compute.timeLimitMs),
     // Errors Fastify meets before routing (a badly encoded URL) get the same coded body and headers.
     frameworkErrors: (error, request, reply) => {
       void addSecurityHeaders(request, reply, undefined);
@@ -88,6 +139,10 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   });
   try {
     app.decorate('store', store);
+    app.decorate('compute', compute);
+    // Workers stop first, so requests still waiting on them answer at once (503) and the
+    // server can close within a second even while a long line is being computed.
+    app.addHook('preClose', async () => compute.close());
     app.addHook('onClose', async () => store.close());
     app.setErrorHandler(handleError);
     app.setNotFoundHandler(handleNotFound);
@@ -122,12 +177,13 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     }
 
     if (checked.seedDemo) {
-      const id = await seedDemoLine(store);
+      const id = await seedDemoLine(store, compute);
       if (id !== null) app.log.info({ id }, 'stored the demo line in the empty store');
     }
     return app;
   } catch (error) {
     await app.close();
+    await compute.close();
     throw error;
   }
 }

@@ -5,6 +5,10 @@
  *   DATA_DIR             folder of the SQLite store, default ./data
  *   ARCLINE_WRITE_TOKEN  bearer token for write routes; required when HOST is not loopback
  *   ARCLINE_SEED_DEMO    "0"/"false" stops the demo line being stored into an empty store
+ *   ARCLINE_THREADS      compute worker threads, default one per core
+ *   ARCLINE_QUEUE        computations that may wait for a thread before 503, default 4 per thread
+ *   ARCLINE_TIME_LIMIT_MS  a computation running longer is stopped, default 10000
+ *   ARCLINE_REQUEST_TIMEOUT_MS  a request (headers and body) must arrive within this, default 30000
  */
 
 /** A configuration mistake: main prints the message and exits 1. */
@@ -21,6 +25,10 @@ export interface ServiceConfig {
   dataDir: string;
   writeToken: string | undefined;
   seedDemo: boolean;
+  threads: number | undefined;
+  maxQueued: number | undefined;
+  timeLimitMs: number | undefined;
+  requestTimeoutMs: number | undefined;
 }
 
 export const CONFIG_DEFAULTS = { host: '127.0.0.1', port: 8080, dataDir: './data' } as const;
@@ -43,6 +51,17 @@ function readFlag(name: string, raw: string | undefined, fallback: boolean): boo
   throw new ConfigError(`${name} must be true or false (1/0); got "${raw}".`);
 }
 
+/** A whole number within [min, max] from the environment, or undefined (use the default). */
+function readWhole(name: string, raw: string | undefined, min: number, max: number): number | undefined {
+  if (raw === undefined || raw.trim() === '') return undefined;
+  const text = raw.trim();
+  const value = Number(text);
+  if (!/^\d+$/.test(text) || value < min || value > max) {
+    throw new ConfigError(`${name} must be a whole number from ${min} to ${max}; got "${raw}".`);
+  }
+  return value;
+}
+
 /** Reads and checks the environment; throws ConfigError with a message a person can act on. */
 export function readConfig(env: NodeJS.ProcessEnv): ServiceConfig {
   const host = env.HOST?.trim() || CONFIG_DEFAULTS.host;
@@ -62,5 +81,9 @@ export function readConfig(env: NodeJS.ProcessEnv): ServiceConfig {
     dataDir,
     writeToken,
     seedDemo: readFlag('ARCLINE_SEED_DEMO', env.ARCLINE_SEED_DEMO, true),
+    threads: readWhole('ARCLINE_THREADS', env.ARCLINE_THREADS, 1, 256),
+    maxQueued: readWhole('ARCLINE_QUEUE', env.ARCLINE_QUEUE, 0, 10_000),
+    timeLimitMs: readWhole('ARCLINE_TIME_LIMIT_MS', env.ARCLINE_TIME_LIMIT_MS, 100, 3_600_000),
+    requestTimeoutMs: readWhole('ARCLINE_REQUEST_TIMEOUT_MS', env.ARCLINE_REQUEST_TIMEOUT_MS, 100, 3_600_000),
   };
 }

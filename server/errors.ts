@@ -37,10 +37,19 @@ export const ERROR_CATALOGUE = {
   survey_not_found: { status: 404, message: 'No stored survey has this id.' },
   revision_not_found: { status: 404, message: 'This survey has no such revision.' },
   share_not_found: { status: 404, message: 'This share link does not exist or has been revoked.' },
+  service_busy: {
+    status: 503,
+    message: 'The service is busy with other computations and its queue is full; try again in a few seconds.',
+  },
+  compute_time_limit: { status: 422, message: "The computation took longer than this service's time limit and was stopped; nothing was stored." },
+  client_closed: { status: 499, message: 'The client closed the connection; the computation was stopped.' },
   internal_error: { status: 500, message: 'Something went wrong on the server; the error has been logged.' },
 } as const satisfies Record<string, CatalogueEntry>;
 
 export type ErrorCode = keyof typeof ERROR_CATALOGUE;
+
+/** Retry-After of a 503 from a full compute queue, s: about one demo-line batch. Our choice. */
+export const RETRY_AFTER_S = 2;
 
 /**
  * The contract's error body. `problems` (every problem found, not only the first) is
@@ -156,6 +165,7 @@ export function handleError(error: unknown, request: FastifyRequest, reply: Fast
   if (appError.code === 'write_token_required' || appError.code === 'write_token_invalid') {
     reply.header('WWW-Authenticate', 'Bearer realm="arcline"');
   }
+  if (appError.code === 'service_busy') reply.header('Retry-After', String(RETRY_AFTER_S));
   reply.status(appError.statusCode).type('application/json; charset=utf-8').send(appError.toBody());
 }
 

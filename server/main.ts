@@ -2,12 +2,17 @@
 import { ConfigError } from './config.js';
 import { startService } from './start.js';
 
+/** Longest wait for answers in flight after SIGTERM or SIGINT, ms. Our choice. */
+const SHUTDOWN_GRACE_MS = 1_000;
+
 async function main(): Promise<void> {
   try {
     const { app, url } = await startService(process.env);
     app.log.info(`Arcline is serving on ${url}`);
     const stop = (signal: string): void => {
       app.log.info(`${signal}: closing`);
+      // Closing waits for answers in flight; never longer than this, whatever is running.
+      setTimeout(() => process.exit(1), SHUTDOWN_GRACE_MS).unref();
       app.close().then(
         () => process.exit(0),
         () => process.exit(1),

@@ -13,6 +13,8 @@ export async function startService(env: NodeJS.ProcessEnv, options: { logger?: b
     host: config.host,
     writeToken: config.writeToken,
     seedDemo: config.seedDemo,
+    compute: { threads: config.threads, maxQueued: config.maxQueued, timeLimitMs: config.timeLimitMs },
+    requestTimeoutMs: config.requestTimeoutMs,
     logger: options.logger ?? true,
   });
   try {

@@ -4,12 +4,12 @@
  * token even on the office network.
  */
 import type { FastifyInstance } from 'fastify';
-import { interpret } from '../../engine/pipeline/interpret.js';
 import { surveyFromRequest } from '../survey-input.js';
+import { clientGone } from '../compute/client-gone.js';
 
 export async function interpretationRoutes(app: FastifyInstance): Promise<void> {
-  app.post('/api/v1/interpretations', async (request) => {
+  app.post('/api/v1/interpretations', async (request, reply) => {
     const survey = surveyFromRequest(request);
-    return interpret(survey);
+    return app.compute.run('interpret', { survey }, clientGone(reply));
   });
 }

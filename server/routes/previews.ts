@@ -11,17 +11,13 @@
  * in an <img>, and an SVG document in an image runs no script and needs no escaping.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { interpret } from '../../engine/pipeline/interpret.js';
-import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
-import type { Interpretation } from '../../engine/output/interpretation.js';
-import type { Survey } from '../../engine/survey/survey.js';
 import { surveyFromRequest } from '../survey-input.js';
+import { clientGone } from '../compute/client-gone.js';
+import type { Figure } from '../compute/tasks.js';
 
-type Renderer = (survey: Survey, interpretation: Interpretation) => string;
-
-const PREVIEWS: ReadonlyArray<{ path: string; render: Renderer }> = [
-  { path: '/api/v1/previews/section.svg', render: (survey, interpretation) => renderSection(survey, interpretation) },
-  { path: '/api/v1/previews/traveltimes.svg', render: (survey, interpretation) => renderTravelTimes(survey, interpretation) },
+const PREVIEWS: ReadonlyArray<{ path: string; figure: Figure }> = [
+  { path: '/api/v1/previews/section.svg', figure: 'section' },
+  { path: '/api/v1/previews/traveltimes.svg', figure: 'traveltimes' },
 ];
 
 function svgReply(reply: FastifyReply, svg: string): string {
@@ -32,10 +28,11 @@ function svgReply(reply: FastifyReply, svg: string): string {
 }
 
 export async function previewRoutes(app: FastifyInstance): Promise<void> {
-  for (const { path, render } of PREVIEWS) {
+  for (const { path, figure } of PREVIEWS) {
     app.post(path, async (request, reply) => {
       const survey = surveyFromRequest(request);
-      return svgReply(reply, render(survey, interpret(survey)));
+      const { sectionSvg, travelTimesSvg } = await app.compute.run('preview', { survey }, clientGone(reply));
+      return svgReply(reply, figure === 'section' ? sectionSvg : travelTimesSvg);
     });
   }
 }

@@ -5,7 +5,7 @@
  * Responses are not cached, so a revoked link stops working at once.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import { clientGone } from '../compute/client-gone.js';
 import { CAUTIONS } from '../../engine/qc/cautions.js';
 import type { SurveyStore } from '../store.js';
 import { requireShared } from '../lookup.js';
@@ -27,14 +27,19 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
   app.get<{ Params: TokenParams }>('/share/:token', async (request, reply) => {
     const { token } = request.params;
     const { stored } = requireShared(store, token);
+    const { sectionSvg, travelTimesSvg } = await app.compute.run(
+      'drawings',
+      { survey: stored.survey, interpretation: stored.interpretation },
+      clientGone(reply),
+    );
     const html = renderSharePage({
       survey: stored.survey,
       interpretation: stored.interpretation,
       name: stored.name,
       revision: stored.revision,
       storedAt: stored.createdAt,
-      sectionSvg: renderSection(stored.survey, stored.interpretation),
-      travelTimesSvg: renderTravelTimes(stored.survey, stored.interpretation),
+      sectionSvg,
+      travelTimesSvg,
       cautions: CAUTIONS,
       stationsCsvUrl: `/share/${token}/stations.csv`,
     });
@@ -48,14 +53,14 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
     const { stored } = requireShared(store, request.params.token);
     privateResponse(reply);
     reply.type('image/svg+xml; charset=utf-8');
-    return renderSection(stored.survey, stored.interpretation);
+    return app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
   });
 
   app.get<{ Params: TokenParams }>('/share/:token/traveltimes.svg', async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);
     privateResponse(reply);
     reply.type('image/svg+xml; charset=utf-8');
-    return renderTravelTimes(stored.survey, stored.interpretation);
+    return app.compute.run('drawing', { figure: 'traveltimes', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
   });
 
   app.get<{ Params: TokenParams }>('/share/:token/stations.csv', async (request, reply) => {

@@ -4,8 +4,7 @@
  * Every write validates the whole body before the store is touched.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { interpret } from '../../engine/pipeline/interpret.js';
-import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import { clientGone } from '../compute/client-gone.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
 import { AppError } from '../errors.js';
 import { surveyFromRequest } from '../survey-input.js';
@@ -71,7 +70,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
 
   app.post('/api/v1/surveys', { onRequest: guard }, async (request, reply) => {
     const survey = surveyFromRequest(request);
-    const interpretation = interpret(survey);
+    const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
     const { summary, revision } = store.createSurvey(survey, interpretation);
     reply.status(201).header('Location', `/api/v1/surveys/${summary.id}`);
     return {
@@ -115,7 +114,8 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     { schema: { querystring: revisionQuerySchema } },
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
-      return setSvg(reply, renderSection(stored.survey, stored.interpretation));
+      const svg = await app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      return setSvg(reply, svg);
     },
   );
 
@@ -124,7 +124,8 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     { schema: { querystring: revisionQuerySchema } },
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
-      return setSvg(reply, renderTravelTimes(stored.survey, stored.interpretation));
+      const svg = await app.compute.run('drawing', { figure: 'traveltimes', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      return setSvg(reply, svg);
     },
   );
 
@@ -152,7 +153,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     const { id } = request.params;
     const summary = requireSurvey(store, id);
     const survey = surveyFromRequest(request);
-    const interpretation = interpret(survey);
+    const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
     const stored = store.addRevision(id, survey, interpretation);
     if (stored === null) throw new AppError('survey_not_found');
     reply.status(201).header('Location', `/api/v1/surveys/${id}?revision=${stored.revision}`);

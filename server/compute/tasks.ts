@@ -1,0 +1,58 @@
+/**
+ * The computations the service hands to its worker threads, by name: everything that costs
+ * more than reading or writing a stored record (interpreting a line, drawing a figure,
+ * making a synthetic line). Pure functions of their input, so a worker can run any of
+ * them and the main thread never does.
+ */
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
+import { refractorVisibility, visibilityNotes, type RefractorVisibility, type SyntheticNote } from '../../engine/forward/refractor-visibility.js';
+
+export type Figure = 'section' | 'traveltimes';
+
+/** Each task's input and result, by name. */
+export interface TaskTable {
+  interpret: { input: { survey: Survey }; result: Interpretation };
+  /** One interpretation and both drawings of it. */
+  preview: { input: { survey: Survey }; result: { interpretation: Interpretation; sectionSvg: string; travelTimesSvg: string } };
+  drawing: { input: { figure: Figure; survey: Survey; interpretation: Interpretation }; result: string };
+  drawings: { input: { survey: Survey; interpretation: Interpretation }; result: { sectionSvg: string; travelTimesSvg: string } };
+  synthetic: {
+    input: { request: SyntheticRequest; interpret: boolean };
+    result: { survey: Survey; interpretation: Interpretation | null; refractors: RefractorVisibility[]; notes: SyntheticNote[] };
+  };
+}
+
+export type TaskName = keyof TaskTable;
+export type TaskMessage = { [K in TaskName]: { name: K; input: TaskTable[K]['input'] } }[TaskName];
+
+function drawing(figure: Figure, survey: Survey, interpretation: Interpretation): string {
+  return figure === 'section' ? renderSection(survey, interpretation) : renderTravelTimes(survey, interpretation);
+}
+
+const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['result'] } = {
+  interpret: ({ survey }) => interpret(survey),
+  preview: ({ survey }) => {
+    const interpretation = interpret(survey);
+    return { interpretation, ...TASKS.drawings({ survey, interpretation }) };
+  },
+  drawing: ({ figure, survey, interpretation }) => drawing(figure, survey, interpretation),
+  drawings: ({ survey, interpretation }) => ({
+    sectionSvg: renderSection(survey, interpretation),
+    travelTimesSvg: renderTravelTimes(survey, interpretation),
+  }),
+  synthetic: ({ request, interpret: withInterpretation }) => {
+    const survey = syntheticSurveyFromRequest(request);
+    const refractors = refractorVisibility(request);
+    return { survey, interpretation: withInterpretation ? interpret(survey) : null, refractors, notes: visibilityNotes(refractors) };
+  },
+};
+
+/** Runs one task here, in this thread (the worker's entry calls this). */
+export function runTask(message: TaskMessage): unknown {
+  const task = TASKS[message.name] as (input: unknown) => unknown;
+  return task(message.input);
+}
