@@ -28,53 +28,25 @@ export interface AdjustablePair {
  * branches to off-end shots (errors of several ms) by the misfit of measured picks.
  * Only pairs whose reciprocal check passed (or could not be verified) take part: a pair
  * with a proven misfit stays a fallback. Mutates `pairWork` in place.
+ *
+ * Cost for k pairs over G geophones: building the normal equations O(Σ_i k_i²) ≤ O(k²·G),
+ * one Cholesky factorisation k³/6 multiply-adds, the shifts O(k²) and the variances
+ * (diagonal of the inverse) k³/6 from the same factor: O(k³) in all, O(k²) memory.
  */
 export function adjustReciprocalTimes(pairWork: AdjustablePair[]): void {
   const k = pairWork.length;
   if (k < 2) return;
-  const a: number[][] = Array.from({ length: k }, () => new Array<number>(k).fill(0));
-  const b = new Array<number>(k).fill(0);
-  const pickVariance = (p: AdjustablePair, i: number): number | null => {
-    const v = p.plusVarianceMs2[i];
-    return p.plusTimeMs[i] === null || v === null ? null : Math.max(v - p.reciprocalVarianceMs2, 1e-6);
-  };
-  pairWork.forEach((p, m) => (a[m][m] += 1 / Math.max(p.reciprocalVarianceMs2, 1e-6)));
-  let overlaps = 0;
-  for (let m = 0; m < k; m++) {
-    for (let n = m + 1; n < k; n++) {
-      const p = pairWork[m];
-      const q = pairWork[n];
-      p.plusTimeMs.forEach((tp, i) => {
-        const tq = q.plusTimeMs[i];
-        const vp = pickVariance(p, i);
-        const vq = pickVariance(q, i);
-        if (tp === null || tq === null || vp === null || vq === null) return;
-        // residual r = (tp − s_m) − (tq − s_n); minimising w·r² adds to the normal equations.
-        const w = 1 / (vp + vq);
-        const d = tp - tq;
-        a[m][m] += w;
-        a[n][n] += w;
-        a[m][n] -= w;
-        a[n][m] -= w;
-        b[m] += w * d;
-        b[n] -= w * d;
-        overlaps++;
-      });
-    }
-  }
-  if (overlaps === 0) return;
-  const shifts = solveSymmetric(a, b);
-  if (!shifts) return;
-  // Variance of each corrected tAB: the diagonal of the inverse normal matrix.
-  const inverseDiagonal = pairWork.map((_, m) => {
-    const e = new Array<number>(k).fill(0);
-    e[m] = 1;
-    return solveSymmetric(a, e)?.[m] ?? null;
-  });
+  const system = normalEquations(pairWork);
+  if (!system) return;
+  const factor = choleskyFactor(system.matrix, k);
+  if (!factor) return;
+  const shifts = choleskySolve(factor, k, system.rhs);
+  // Variance of each corrected tAB: the diagonal of the inverse normal matrix, from the same factor.
+  const inverseDiagonal = choleskyInverseDiagonal(factor, k);
   pairWork.forEach((p, m) => {
     const shift = shifts[m];
     const variance = inverseDiagonal[m];
-    if (!Number.isFinite(shift) || variance === null || !(variance > 0)) return;
+    if (!Number.isFinite(shift) || !(variance > 0)) return;
     p.plusTimeMs = p.plusTimeMs.map((v) => (v === null ? null : v - shift));
     p.reciprocalTimeMs += shift;
     p.plusVarianceMs2 = p.plusVarianceMs2.map((v) => (v === null ? null : v - p.reciprocalVarianceMs2 + variance));
@@ -82,25 +54,118 @@ export function adjustReciprocalTimes(pairWork: AdjustablePair[]): void {
   });
 }
 
-/** Solves a small symmetric positive-definite system by Gaussian elimination with partial pivoting; null if singular. */
-function solveSymmetric(matrix: number[][], rhs: number[]): number[] | null {
-  const n = rhs.length;
-  const m = matrix.map((row, i) => [...row, rhs[i]]);
-  for (let c = 0; c < n; c++) {
-    let pivot = c;
-    for (let r = c + 1; r < n; r++) if (Math.abs(m[r][c]) > Math.abs(m[pivot][c])) pivot = r;
-    if (!(Math.abs(m[pivot][c]) > 1e-12)) return null;
-    [m[c], m[pivot]] = [m[pivot], m[c]];
-    for (let r = c + 1; r < n; r++) {
-      const f = m[r][c] / m[c][c];
-      for (let j = c; j <= n; j++) m[r][j] -= f * m[c][j];
+/**
+ * The normal equations N·s = b of the adjustment above, N dense k×k row-major (every two
+ * pairs that share a geophone are coupled), or null when no two pairs share a geophone.
+ * Built geophone by geophone from the pairs with a pick there: O(k·G + Σ_i k_i²) for G
+ * geophones and k_i pairs at geophone i (at most O(k²·G)), O(k²) memory.
+ */
+export function normalEquations(pairWork: readonly AdjustablePair[]): { matrix: Float64Array; rhs: Float64Array } | null {
+  const k = pairWork.length;
+  const matrix = new Float64Array(k * k);
+  const rhs = new Float64Array(k);
+  for (let m = 0; m < k; m++) matrix[m * k + m] += 1 / Math.max(pairWork[m].reciprocalVarianceMs2, 1e-6);
+  const geophones = pairWork.reduce((g, p) => Math.max(g, p.plusTimeMs.length), 0);
+  // Pairs with a usable T+ at the current geophone: index, T+, pick variance (reused).
+  const at = new Int32Array(k);
+  const time = new Float64Array(k);
+  const variance = new Float64Array(k);
+  let overlaps = 0;
+  for (let i = 0; i < geophones; i++) {
+    let count = 0;
+    for (let m = 0; m < k; m++) {
+      const p = pairWork[m];
+      const t = p.plusTimeMs[i];
+      const v = p.plusVarianceMs2[i];
+      if (t === null || t === undefined || v === null || v === undefined) continue;
+      at[count] = m;
+      time[count] = t;
+      variance[count] = Math.max(v - p.reciprocalVarianceMs2, 1e-6);
+      count++;
+    }
+    for (let a = 0; a < count; a++) {
+      const m = at[a];
+      for (let c = a + 1; c < count; c++) {
+        const n = at[c];
+        // residual r = (tp − s_m) − (tq − s_n); minimising w·r² adds to the normal equations.
+        const w = 1 / (variance[a] + variance[c]);
+        const d = time[a] - time[c];
+        matrix[m * k + m] += w;
+        matrix[n * k + n] += w;
+        matrix[m * k + n] -= w;
+        matrix[n * k + m] -= w;
+        rhs[m] += w * d;
+        rhs[n] -= w * d;
+        overlaps++;
+      }
     }
   }
-  const x = new Array<number>(n).fill(0);
-  for (let r = n - 1; r >= 0; r--) {
-    let sum = m[r][n];
-    for (let j = r + 1; j < n; j++) sum -= m[r][j] * x[j];
-    x[r] = sum / m[r][r];
+  return overlaps === 0 ? null : { matrix, rhs };
+}
+
+/**
+ * Cholesky factor L (lower triangle, row-major k×k) of a symmetric positive-definite
+ * matrix, N = L·Lᵀ (Golub & Van Loan, Matrix Computations, 4th ed., 2013, §4.2); null when
+ * a pivot is not above 1e-12 (the bound the former elimination used: numerically
+ * singular). Cost k³/6 multiply-adds, O(k²) memory; reads only the lower triangle.
+ */
+export function choleskyFactor(matrix: Float64Array, k: number): Float64Array | null {
+  const l = new Float64Array(k * k);
+  for (let j = 0; j < k; j++) {
+    const rowJ = j * k;
+    let d = matrix[rowJ + j];
+    for (let c = 0; c < j; c++) d -= l[rowJ + c] * l[rowJ + c];
+    if (!(d > 1e-12)) return null;
+    const ljj = Math.sqrt(d);
+    l[rowJ + j] = ljj;
+    for (let r = j + 1; r < k; r++) {
+      const rowR = r * k;
+      let s = matrix[rowR + j];
+      for (let c = 0; c < j; c++) s -= l[rowR + c] * l[rowJ + c];
+      l[rowR + j] = s / ljj;
+    }
+  }
+  return l;
+}
+
+/** Solves L·Lᵀ·x = b by forward and back substitution. Cost O(k²). */
+export function choleskySolve(l: Float64Array, k: number, rhs: Float64Array): Float64Array {
+  const y = new Float64Array(k);
+  for (let r = 0; r < k; r++) {
+    let s = rhs[r];
+    for (let c = 0; c < r; c++) s -= l[r * k + c] * y[c];
+    y[r] = s / l[r * k + r];
+  }
+  const x = new Float64Array(k);
+  for (let r = k - 1; r >= 0; r--) {
+    let s = y[r];
+    for (let c = r + 1; c < k; c++) s -= l[c * k + r] * x[c];
+    x[r] = s / l[r * k + r];
   }
   return x;
+}
+
+/**
+ * Diagonal of N⁻¹ from the Cholesky factor: N⁻¹ = L⁻ᵀ·L⁻¹, so (N⁻¹)_mm = Σ_j (L⁻¹)_jm²,
+ * the squared norm of column m of L⁻¹ (Golub & Van Loan 2013, §3.1 for the triangular
+ * inverse). L⁻¹ is built column by column by forward substitution into one reused
+ * vector: k³/6 multiply-adds, O(k) extra memory; no k×k system is solved k times.
+ */
+export function choleskyInverseDiagonal(l: Float64Array, k: number): Float64Array {
+  const diagonal = new Float64Array(k);
+  const column = new Float64Array(k);
+  for (let m = 0; m < k; m++) {
+    // Column m of L⁻¹: zero above row m, 1/L_mm at m, then forward substitution.
+    column[m] = 1 / l[m * k + m];
+    let sum = column[m] * column[m];
+    for (let r = m + 1; r < k; r++) {
+      const row = r * k;
+      let s = 0;
+      for (let c = m; c < r; c++) s -= l[row + c] * column[c];
+      column[r] = s / l[row + r];
+      sum += column[r] * column[r];
+    }
+    diagonal[m] = sum;
+  }
+  return diagonal;
 }

@@ -23,7 +23,8 @@
  * delay-time profile). A ramp that wide is, by plus-minus, indistinguishable from a
  * smeared vertical step; a wider one is two changes of dip, not a step.
  */
-import { combinationVariance, leastSquares } from './least-squares.js';
+import { leastSquares } from './least-squares.js';
+import { addColumn, bestKinkRss, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from './window-fits.js';
 import { normalQuantile } from './quantiles.js';
 
 export interface JumpDetection {
@@ -50,11 +51,6 @@ export interface JumpScanOptions {
   widthFactors?: readonly number[];
 }
 
-interface Evaluated extends Omit<JumpDetection, 'threshold' | 'rampWidthM'> {
-  halfWidth: number;
-  scanCentre: number;
-}
-
 /**
  * Smooth ramp from 0 to 1 with its steepest slope 1/width at u = 0: the logistic
  * 1/(1 + e^(−4u/width)). Its tails stand for the slow diffraction tails of a real step.
@@ -64,37 +60,45 @@ function ramp(u: number, width: number): number {
   return 1 / (1 + Math.exp((-4 * u) / width));
 }
 
-function evaluate(x: readonly number[], y: readonly number[], c: number, width: number, opts: JumpScanOptions, spacing: number): Evaluated | null {
+/** Work space of one scan, allocated once: O(n) memory for n points. */
+interface Scratch {
+  line: WindowLine;
+  column: Float64Array;
+  fit: ColumnFit;
+}
+
+function newScratch(n: number): Scratch {
+  return {
+    line: { n: 0, uMean: 0, yMean: 0, sxx: 0, slope: 0, rss: 0, sumU2: 0 },
+    column: new Float64Array(n),
+    fit: { rss: 0, coefficient: 0, unscaledVariance: 0 },
+  };
+}
+
+/**
+ * Step statistic (RSS_kink − RSS_step)/σ² at centre c and ramp width W; NaN when the
+ * window has too few points on a side or a fit is singular. Cost O(m) for the m points
+ * within W/2 + sidePoints spacings of c: one line fit, one ramp column (the logistic
+ * depends on c, so it is evaluated per point), and the hinges by running sums.
+ */
+function evaluate(x: readonly number[], y: readonly number[], c: number, width: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
   const reach = width / 2 + opts.sidePoints * spacing;
-  const idx: number[] = [];
-  for (let i = 0; i < x.length; i++) if (Math.abs(x[i] - c) <= reach) idx.push(i);
+  const lo = windowStart(x, c, reach);
+  const hi = windowEnd(x, c, reach);
   let nLeft = 0;
   let nRight = 0;
-  for (const i of idx) {
+  for (let i = lo; i < hi; i++) {
     if (x[i] <= c - width / 2) nLeft++;
     if (x[i] >= c + width / 2) nRight++;
   }
-  if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return null;
-  const ys = idx.map((i) => y[i]);
-  const u = idx.map((i) => x[i] - c);
-  const step = leastSquares(u.map((ui) => [1, ui, ramp(ui, width)]), ys);
-  if (!step) return null;
-  let kinkRss = Infinity;
-  for (let k = 0; k < u.length; k++) {
-    for (const hinge of k + 1 < u.length ? [u[k], 0.5 * (u[k] + u[k + 1])] : [u[k]]) {
-      const mk = leastSquares(u.map((ui) => [1, ui, Math.max(ui - hinge, 0)]), ys);
-      if (mk && mk.rss < kinkRss) kinkRss = mk.rss;
-    }
-  }
-  if (!Number.isFinite(kinkRss)) return null;
-  return {
-    centreM: c,
-    jump: step.coefficients[2],
-    standardError: opts.sigma * Math.sqrt(combinationVariance(step.unscaledCovariance, [0, 0, 1])),
-    statistic: (kinkRss - step.rss) / (opts.sigma * opts.sigma),
-    halfWidth: width / 2,
-    scanCentre: c,
-  };
+  if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return NaN;
+  if (!fitWindowLine(x, y, lo, hi, c, s.line)) return NaN;
+  for (let i = lo; i < hi; i++) s.column[i - lo] = ramp(x[i] - c, width);
+  if (!addColumn(x, y, lo, c, s.line, s.column, s.fit)) return NaN;
+  const stepRss = s.fit.rss;
+  const kinkRss = bestKinkRss(x, y, lo, hi, c, s.line);
+  if (!Number.isFinite(kinkRss)) return NaN;
+  return (kinkRss - stepRss) / (opts.sigma * opts.sigma);
 }
 
 /**
@@ -103,27 +107,31 @@ function evaluate(x: readonly number[], y: readonly number[], c: number, width: 
  * by least squares. Comparing
  * fits on the same points makes their residuals comparable, so the width and jump that
  * describe the whole transition are found, not only its steepest part.
+ * The line part a + b·(x − c) spans the same functions for every c, so the window's line
+ * is fitted once and each (c, W) adds its ramp column (addColumn): O(m) per trial, O(T·m)
+ * for T trials.
  */
-function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: number, sigma: number, sidePoints: number, spacing: number, factors: readonly number[]): Pick<JumpDetection, 'centreM' | 'jump' | 'standardError' | 'rampWidthM'> {
+function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: number, sigma: number, sidePoints: number, spacing: number, factors: readonly number[], s: Scratch): Pick<JumpDetection, 'centreM' | 'jump' | 'standardError' | 'rampWidthM'> {
   const wMax = Math.max(w0, spacing) * Math.max(...factors);
   const reach = wMax / 2 + w0 + sidePoints * spacing;
-  const idx: number[] = [];
-  for (let i = 0; i < x.length; i++) if (Math.abs(x[i] - c0) <= reach) idx.push(i);
-  const ys = idx.map((i) => y[i]);
+  const lo = windowStart(x, c0, reach);
+  const hi = windowEnd(x, c0, reach);
   let best = { rss: Infinity, centreM: c0, jump: 0, standardError: Infinity, rampWidthM: w0 };
   const dc = spacing / 4;
-  for (let c = c0 - w0; c <= c0 + w0 + 1e-9; c += dc) {
-    for (let w = Math.max(w0, spacing); w <= wMax + 1e-9; w += Math.max(w0 / 4, spacing / 2)) {
-      const fit = leastSquares(idx.map((i) => [1, x[i] - c, ramp(x[i] - c, w)]), ys);
-      if (fit && fit.rss < best.rss) {
-        best = { rss: fit.rss, centreM: c, jump: fit.coefficients[2], standardError: sigma * Math.sqrt(fit.unscaledCovariance[2][2]), rampWidthM: w };
+  if (fitWindowLine(x, y, lo, hi, c0, s.line)) {
+    for (let c = c0 - w0; c <= c0 + w0 + 1e-9; c += dc) {
+      for (let w = Math.max(w0, spacing); w <= wMax + 1e-9; w += Math.max(w0 / 4, spacing / 2)) {
+        for (let i = lo; i < hi; i++) s.column[i - lo] = ramp(x[i] - c, w);
+        if (addColumn(x, y, lo, c0, s.line, s.column, s.fit) && s.fit.rss < best.rss) {
+          best = { rss: s.fit.rss, centreM: c, jump: s.fit.coefficient, standardError: sigma * Math.sqrt(s.fit.unscaledVariance), rampWidthM: w };
+        }
       }
     }
   }
   // The jump itself from the lines beyond the whole transition (the logistic is within
   // 5 % of its end values at ±0.74·W, and a real step's diffraction tails reach about W0
   // either side), with one common slope: the ramp template's jump trades off against its
-  // width, the side lines' does not.
+  // width, the side lines' does not. One small fit per detection (O(sidePoints)).
   const exclusion = Math.max(0.75 * best.rampWidthM, w0);
   const left: number[] = [];
   const right: number[] = [];
@@ -142,36 +150,50 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
   return { centreM: best.centreM, jump: best.jump, standardError: best.standardError, rampWidthM: best.rampWidthM };
 }
 
-/** Finds jumps in y(x); x strictly increasing, no nulls. */
+/**
+ * Finds jumps in y(x); x strictly increasing, no nulls. Cost O(n·F·m) for n points, F
+ * widths and m points per window (m grows with the ramp width, i.e. the depth, not with
+ * the line length), plus O(D·T·m) to refine D detections; O(n) memory.
+ */
 export function scanForJumps(x: readonly number[], y: readonly number[], opts: JumpScanOptions): JumpDetection[] {
   if (x.length < 2 * opts.minSidePoints) return [];
-  const candidates: number[] = [];
-  for (let i = 0; i < x.length; i++) {
-    candidates.push(x[i]);
-    if (i + 1 < x.length) candidates.push(0.5 * (x[i] + x[i + 1]));
-  }
-  const evaluated: Evaluated[] = [];
   const factors = opts.widthFactors ?? [1, 1.5, 2, 3];
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
-  for (const c of candidates) {
-    const w0 = Math.max(0, opts.rampWidthAt(c));
-    for (const f of factors) {
-      const r = evaluate(x, y, c, w0 * f, opts, spacing);
-      if (r) evaluated.push(r);
+  const s = newScratch(x.length);
+  // Every evaluated (centre, width), in scan order: centre, half width, statistic.
+  const slots = (2 * x.length - 1) * factors.length;
+  const centres = new Float64Array(slots);
+  const halfWidths = new Float64Array(slots);
+  const statistics = new Float64Array(slots);
+  let evaluated = 0;
+  for (let i = 0; i < x.length; i++) {
+    for (let half = 0; half < 2; half++) {
+      if (half === 1 && i + 1 >= x.length) break;
+      const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
+      const w0 = Math.max(0, opts.rampWidthAt(c));
+      for (const f of factors) {
+        const statistic = evaluate(x, y, c, w0 * f, opts, spacing, s);
+        if (Number.isNaN(statistic)) continue;
+        centres[evaluated] = c;
+        halfWidths[evaluated] = (w0 * f) / 2;
+        statistics[evaluated] = statistic;
+        evaluated++;
+      }
     }
   }
-  if (!evaluated.length) return [];
-  const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated.length));
+  if (!evaluated) return [];
+  const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
   const threshold = z * z;
-  const passing = evaluated.filter((r) => r.statistic > threshold);
-  passing.sort((a, b) => b.statistic - a.statistic);
-  const kept: typeof passing = [];
+  const passing: number[] = [];
+  for (let r = 0; r < evaluated; r++) if (statistics[r] > threshold) passing.push(r);
+  passing.sort((a, b) => statistics[b] - statistics[a]);
+  const kept: number[] = [];
   for (const p of passing) {
     // One step per transition zone: a weaker maximum this close is the same step seen off-centre.
-    if (kept.some((k) => Math.abs(k.centreM - p.centreM) < k.halfWidth + p.halfWidth + 2 * spacing)) continue;
+    if (kept.some((k) => Math.abs(centres[k] - centres[p]) < halfWidths[k] + halfWidths[p] + 2 * spacing)) continue;
     kept.push(p);
   }
   return kept
-    .sort((a, b) => a.centreM - b.centreM)
-    .map((k) => ({ ...refineRamp(x, y, k.centreM, opts.rampWidthAt(k.centreM), opts.sigma, opts.sidePoints, spacing, factors), statistic: k.statistic, threshold }));
+    .sort((a, b) => centres[a] - centres[b])
+    .map((k) => ({ ...refineRamp(x, y, centres[k], opts.rampWidthAt(centres[k]), opts.sigma, opts.sidePoints, spacing, factors, s), statistic: statistics[k], threshold }));
 }

@@ -30,7 +30,9 @@
  * robust data estimate (noise-level.ts) when the picks are noisier than stated, so an
  * optimistic pickSigmaMs cannot manufacture changes.
  *
- * Units: x in m, T− in ms, velocities in m/s. Cost O(K·n²) for K hinges (n ≤ 1024 points).
+ * Units: x in m, T− in ms, velocities in m/s. Cost per stage O(n·K + m·K² + n·log n) for
+ * n points, m ≈ 2n candidate positions and K hinges (bestWith), where trying every
+ * candidate by a dense fit was O(m·n·K²) = O(n²·K²).
  */
 import { combinationVariance, leastSquares, type LeastSquaresFit } from './least-squares.js';
 import { robustNoiseSigma } from './noise-level.js';
@@ -98,10 +100,21 @@ function slopeCombination(segment: number, knotCount: number): number[] {
   return a;
 }
 
+/** Number of x (increasing) strictly between lo and hi; two binary searches, O(log n). */
 function pointsBetween(x: readonly number[], lo: number, hi: number): number {
-  let n = 0;
-  for (const xi of x) if (xi > lo && xi < hi) n++;
-  return n;
+  return Math.max(0, firstIndex(x, (v) => v >= hi) - firstIndex(x, (v) => v > lo));
+}
+
+/** First index whose value satisfies a predicate that is false then true along x; O(log n). */
+function firstIndex(x: readonly number[], past: (v: number) => boolean): number {
+  let a = 0;
+  let b = x.length;
+  while (a < b) {
+    const mid = (a + b) >> 1;
+    if (past(x[mid])) b = mid;
+    else a = mid + 1;
+  }
+  return a;
 }
 
 /** Candidate hinge positions: every point and every midpoint, leaving minSeg points per segment. */
@@ -125,15 +138,132 @@ function candidatePositions(x: readonly number[], knots: readonly number[], minS
   return out;
 }
 
+/**
+ * The hinge fit with one more knot (or knot `replace` moved) at the candidate position
+ * that gives the least RSS. Every candidate is first screened at O(p²) by running sums
+ * (screenCandidates); only those whose screened RSS lies within a hair of the least are
+ * fitted by the dense normal equations, in candidate order with the same strict "<", so
+ * the chosen knot and the returned fit are those of trying every candidate densely.
+ * Cost O(n·p + m·p² + n·log n) for n points, m candidates and p = knots + 3 columns,
+ * plus O(n·p²) per dense fit (usually one).
+ */
 function bestWith(x: readonly number[], y: readonly number[], knots: readonly number[], xMean: number, minSeg: number, replace?: number): HingeFit | null {
+  const candidates = candidatePositions(x, knots, minSeg, replace);
+  const base = replace === undefined ? knots : knots.filter((_, i) => i !== replace);
+  const screened = screenCandidates(x, y, base, xMean, candidates);
   let best: HingeFit | null = null;
-  for (const c of candidatePositions(x, knots, minSeg, replace)) {
+  for (let m = 0; m < candidates.length; m++) {
+    // NaN (screened as dependent) is fitted densely too: the dense fit decides.
+    if (screened && screened.rss[m] > screened.cutoff) continue;
+    const c = candidates[m];
     const trial = replace === undefined ? [...knots, c] : knots.map((k, i) => (i === replace ? c : k));
     trial.sort((a, b) => a - b);
     const f = hingeFit(x, y, trial, xMean);
     if (f && (!best || f.fit.rss < best.fit.rss)) best = f;
   }
   return best;
+}
+
+/**
+ * RSS of the base hinge fit (knots `base`) plus one hinge g = (x − c)₊ at every candidate
+ * c, by the Frisch–Waugh–Lovell theorem (Frisch & Waugh, Econometrica 1, 1933; Lovell,
+ * JASA 58, 1963): RSS = RSS_base − (gᵀe)²/(gᵀg − ‖Qᵀg‖²), with Q an orthonormal basis of
+ * the base design (modified Gram–Schmidt, applied twice, "twice is enough": Giraud et
+ * al., Numer. Math. 101, 2005) and e the base residuals (orthogonal to Q). g is nonzero only
+ * right of c, so gᵀg, gᵀe and Qᵀg come from suffix sums of 1, u, u², e, u·e and of each
+ * q_j and q_j·u (u = x − x̄): O(p) per candidate (left of c, with prefix sums, where
+ * fewer points lie there). Returns the screened RSS per candidate
+ * (NaN where the column is numerically dependent) and a cutoff: the least plus a margin
+ * (1e-6·RSS_base) far above the rounding of these sums, so the dense fit of every
+ * candidate that could be the least is still made. null when the base design is
+ * singular (then every candidate is fitted densely). Cost O(n·p² + m·(p + log n)).
+ */
+export function screenCandidates(x: readonly number[], y: readonly number[], base: readonly number[], xMean: number, candidates: readonly number[]): { rss: Float64Array; cutoff: number } | null {
+  const knots = [...base].sort((a, b) => a - b);
+  const n = x.length;
+  const p = 2 + knots.length;
+  if (n <= p) return null;
+  // Orthonormal basis of [1, u, (x − k)₊ …], column by column.
+  const q: Float64Array[] = [];
+  for (let j = 0; j < p; j++) {
+    const v = new Float64Array(n);
+    for (let i = 0; i < n; i++) v[i] = j === 0 ? 1 : j === 1 ? x[i] - xMean : Math.max(0, x[i] - knots[j - 2]);
+    let original = 0;
+    for (let i = 0; i < n; i++) original += v[i] * v[i];
+    for (let pass = 0; pass < 2; pass++) {
+      for (const w of q) {
+        let d = 0;
+        for (let i = 0; i < n; i++) d += w[i] * v[i];
+        for (let i = 0; i < n; i++) v[i] -= d * w[i];
+      }
+    }
+    let norm = 0;
+    for (let i = 0; i < n; i++) norm += v[i] * v[i];
+    // The same relative bound as leastSquares: a column this dependent makes the base singular.
+    if (!(norm > 1e-12 * Math.max(original, 1))) return null;
+    norm = Math.sqrt(norm);
+    for (let i = 0; i < n; i++) v[i] /= norm;
+    q.push(v);
+  }
+  const e = Float64Array.from(y);
+  for (let pass = 0; pass < 2; pass++) {
+    for (const w of q) {
+      let d = 0;
+      for (let i = 0; i < n; i++) d += w[i] * e[i];
+      for (let i = 0; i < n; i++) e[i] -= d * w[i];
+    }
+  }
+  let rssBase = 0;
+  for (let i = 0; i < n; i++) rssBase += e[i] * e[i];
+  // Running sums, row i: [1, u, u², e, u·e, q_0, q_0·u, …] over the points from i to the
+  // end (suffix, row n = 0) and over the points before i (prefix, row 0 = 0).
+  const width = 5 + 2 * p;
+  const suffix = new Float64Array((n + 1) * width);
+  const prefix = new Float64Array((n + 1) * width);
+  const accumulate = (table: Float64Array, row: number, from: number, i: number): void => {
+    const u = x[i] - xMean;
+    table[row] = table[from] + 1;
+    table[row + 1] = table[from + 1] + u;
+    table[row + 2] = table[from + 2] + u * u;
+    table[row + 3] = table[from + 3] + e[i];
+    table[row + 4] = table[from + 4] + u * e[i];
+    for (let j = 0; j < p; j++) {
+      table[row + 5 + 2 * j] = table[from + 5 + 2 * j] + q[j][i];
+      table[row + 6 + 2 * j] = table[from + 6 + 2 * j] + q[j][i] * u;
+    }
+  };
+  for (let i = n - 1; i >= 0; i--) accumulate(suffix, i * width, (i + 1) * width, i);
+  for (let i = 0; i < n; i++) accumulate(prefix, (i + 1) * width, i * width, i);
+  const rss = new Float64Array(candidates.length);
+  let least = Infinity;
+  for (let m = 0; m < candidates.length; m++) {
+    const c = candidates[m] - xMean;
+    const split = firstIndex(x, (v) => v > candidates[m]);
+    // (u − c)₊ = (u − c) + (c − u)₊ and u − c lies in the base, so the hinge may be taken
+    // on either side of c with the same residualised column: take the side with fewer
+    // points, where the running sums cancel least. sign·(u − c) is the hinge there.
+    const right = n - split <= split;
+    const t = right ? suffix : prefix;
+    const row = split * width;
+    const sign = right ? 1 : -1;
+    const s1 = t[row];
+    const su = t[row + 1];
+    const gg = t[row + 2] - 2 * c * su + c * c * s1;
+    const ge = sign * (t[row + 4] - c * t[row + 3]);
+    let projected = 0;
+    for (let j = 0; j < p; j++) {
+      const sj = t[row + 6 + 2 * j] - c * t[row + 5 + 2 * j];
+      projected += sj * sj;
+    }
+    const qq = gg - projected;
+    if (!(qq > 1e-12 * Math.max(gg, 1))) {
+      rss[m] = NaN;
+      continue;
+    }
+    rss[m] = Math.max(0, rssBase - (ge * ge) / qq);
+    if (rss[m] < least) least = rss[m];
+  }
+  return { rss, cutoff: least + 1e-6 * rssBase + 1e-12 };
 }
 
 function refine(x: readonly number[], y: readonly number[], current: HingeFit, xMean: number, minSeg: number): HingeFit {
