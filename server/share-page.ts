@@ -7,6 +7,9 @@
  */
 import type { Interpretation, Station } from '../engine/output/interpretation.js';
 import type { Survey } from '../engine/survey/survey.js';
+// The page's own column list (plain ES with JSDoc types, served to the browser as it is), so
+// the share page shows the same columns, units and decimals as the page and stations.csv.
+import { cellText, columnHeading, stationColumns, type StationColumn } from '../web/station-columns.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -32,18 +35,12 @@ function num(value: number | null | undefined, digits: number): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : '–';
 }
 
-function stationRow(s: Station): string {
-  const cells = [
-    num(s.x, 1),
-    num(s.elevation, 2),
-    num(s.delayTime, 2),
-    num(s.depth, 2),
-    num(s.refractorElevation, 2),
-    num(s.v1, 0),
-    num(s.refractorVelocity, 0),
-    num(s.depthUncertainty ?? null, 2),
-  ];
-  return `<tr>${cells.map((c) => `<td>${escapeHtml(c)}</td>`).join('')}</tr>`;
+function stationRow(columns: readonly StationColumn[], s: Station): string {
+  return `<tr>${columns.map((c) => `<td>${escapeHtml(cellText(c, s))}</td>`).join('')}</tr>`;
+}
+
+function stationHead(columns: readonly StationColumn[]): string {
+  return `<tr>${columns.map((c) => `<th scope="col" data-column="${escapeHtml(c.key)}">${escapeHtml(columnHeading(c))}</th>`).join('')}</tr>`;
 }
 
 export interface SharePageInput {
@@ -77,6 +74,7 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
 
 export function renderSharePage(input: SharePageInput): string {
   const { interpretation } = input;
+  const columns = stationColumns(interpretation.stations);
   const warnings = interpretation.qc?.warnings ?? [];
   const layers = interpretation.layers ?? [];
   const layerText = layers.map((l, i) => `layer ${i + 1}: ${num(l.velocity, 0)} m/s`).join(', ');
@@ -122,9 +120,9 @@ ${
 <h2>Stations</h2>
 <p><a href="${escapeHtml(input.stationsCsvUrl)}" download>Download the station table (CSV)</a></p>
 <table>
-<thead><tr><th>x (m)</th><th>elevation (m)</th><th>delay time (ms)</th><th>depth (m)</th><th>refractor elevation (m)</th><th>V1 (m/s)</th><th>refractor velocity (m/s)</th><th>depth ± (m)</th></tr></thead>
+<thead>${stationHead(columns)}</thead>
 <tbody>
-${interpretation.stations.map(stationRow).join('\n')}
+${interpretation.stations.map((s) => stationRow(columns, s)).join('\n')}
 </tbody>
 </table>
 </section>
