@@ -35,12 +35,17 @@ function num(value: number | null | undefined, digits: number): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : '–';
 }
 
+/** Words (coverage) read from the left, numbers from the right, as on the page. */
+function alignClass(c: StationColumn): string {
+  return c.decimals === null ? ' class="text"' : '';
+}
+
 function stationRow(columns: readonly StationColumn[], s: Station): string {
-  return `<tr>${columns.map((c) => `<td>${escapeHtml(cellText(c, s))}</td>`).join('')}</tr>`;
+  return `<tr>${columns.map((c) => `<td${alignClass(c)}>${escapeHtml(cellText(c, s))}</td>`).join('')}</tr>`;
 }
 
 function stationHead(columns: readonly StationColumn[]): string {
-  return `<tr>${columns.map((c) => `<th scope="col" data-column="${escapeHtml(c.key)}">${escapeHtml(columnHeading(c))}</th>`).join('')}</tr>`;
+  return `<tr>${columns.map((c) => `<th scope="col"${alignClass(c)} data-column="${escapeHtml(c.key)}">${escapeHtml(columnHeading(c))}</th>`).join('')}</tr>`;
 }
 
 export interface SharePageInput {
@@ -67,6 +72,9 @@ figure svg{max-width:100%;height:auto;border:1px solid #ddd}
 figcaption{font-weight:600;margin-bottom:.3rem}
 table{border-collapse:collapse;font-variant-numeric:tabular-nums;font-size:.9rem}
 th,td{border:1px solid #ccc;padding:.2rem .5rem;text-align:right}
+td{white-space:nowrap}
+.text{text-align:left}
+.table-wrap{overflow-x:auto}
 th{background:#f2f2f2}
 .warnings li{margin:.2rem 0}
 footer{margin-top:2rem;color:#666;font-size:.85rem}
@@ -119,12 +127,14 @@ ${
 <section aria-label="Stations">
 <h2>Stations</h2>
 <p><a href="${escapeHtml(input.stationsCsvUrl)}" download>Download the station table (CSV)</a></p>
+<div class="table-wrap">
 <table>
 <thead>${stationHead(columns)}</thead>
 <tbody>
 ${interpretation.stations.map((s) => stationRow(columns, s)).join('\n')}
 </tbody>
 </table>
+</div>
 </section>
 <footer>Shared from Arcline. This page cannot change anything; ask the sender for a new link if it stops working.</footer>
 </body>
