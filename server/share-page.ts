@@ -7,6 +7,9 @@
  */
 import type { Interpretation, Station } from '../engine/output/interpretation.js';
 import type { Survey } from '../engine/survey/survey.js';
+// The page's own column list (plain ES with JSDoc types, served to the browser as it is), so
+// the share page shows the same columns, units and decimals as the page and stations.csv.
+import { cellText, columnHeading, stationColumns, type StationColumn } from '../web/station-columns.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -32,18 +35,17 @@ function num(value: number | null | undefined, digits: number): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : '–';
 }
 
-function stationRow(s: Station): string {
-  const cells = [
-    num(s.x, 1),
-    num(s.elevation, 2),
-    num(s.delayTime, 2),
-    num(s.depth, 2),
-    num(s.refractorElevation, 2),
-    num(s.v1, 0),
-    num(s.refractorVelocity, 0),
-    num(s.depthUncertainty ?? null, 2),
-  ];
-  return `<tr>${cells.map((c) => `<td>${escapeHtml(c)}</td>`).join('')}</tr>`;
+/** Words (coverage) read from the left, numbers from the right, as on the page. */
+function alignClass(c: StationColumn): string {
+  return c.decimals === null ? ' class="text"' : '';
+}
+
+function stationRow(columns: readonly StationColumn[], s: Station): string {
+  return `<tr>${columns.map((c) => `<td${alignClass(c)}>${escapeHtml(cellText(c, s))}</td>`).join('')}</tr>`;
+}
+
+function stationHead(columns: readonly StationColumn[]): string {
+  return `<tr>${columns.map((c) => `<th scope="col"${alignClass(c)} data-column="${escapeHtml(c.key)}">${escapeHtml(columnHeading(c))}</th>`).join('')}</tr>`;
 }
 
 export interface SharePageInput {
@@ -70,6 +72,9 @@ figure svg{max-width:100%;height:auto;border:1px solid #ddd}
 figcaption{font-weight:600;margin-bottom:.3rem}
 table{border-collapse:collapse;font-variant-numeric:tabular-nums;font-size:.9rem}
 th,td{border:1px solid #ccc;padding:.2rem .5rem;text-align:right}
+td{white-space:nowrap}
+.text{text-align:left}
+.table-wrap{overflow-x:auto}
 th{background:#f2f2f2}
 .warnings li{margin:.2rem 0}
 footer{margin-top:2rem;color:#666;font-size:.85rem}
@@ -77,6 +82,7 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
 
 export function renderSharePage(input: SharePageInput): string {
   const { interpretation } = input;
+  const columns = stationColumns(interpretation.stations);
   const warnings = interpretation.qc?.warnings ?? [];
   const layers = interpretation.layers ?? [];
   const layerText = layers.map((l, i) => `layer ${i + 1}: ${num(l.velocity, 0)} m/s`).join(', ');
@@ -121,12 +127,14 @@ ${
 <section aria-label="Stations">
 <h2>Stations</h2>
 <p><a href="${escapeHtml(input.stationsCsvUrl)}" download>Download the station table (CSV)</a></p>
+<div class="table-wrap">
 <table>
-<thead><tr><th>x (m)</th><th>elevation (m)</th><th>delay time (ms)</th><th>depth (m)</th><th>refractor elevation (m)</th><th>V1 (m/s)</th><th>refractor velocity (m/s)</th><th>depth ± (m)</th></tr></thead>
+<thead>${stationHead(columns)}</thead>
 <tbody>
-${interpretation.stations.map(stationRow).join('\n')}
+${interpretation.stations.map((s) => stationRow(columns, s)).join('\n')}
 </tbody>
 </table>
+</div>
 </section>
 <footer>Shared from Arcline. This page cannot change anything; ask the sender for a new link if it stops working.</footer>
 </body>

@@ -1,35 +1,20 @@
 /**
  * The station table as CSV (RFC 4180: comma separated, CRLF line ends, quotes doubled):
  * a header row with units in the column names, then one row per geophone in line order.
- * Every Station field has a column; `depths` is spread into one column per refractor
- * (depth_to_refractor_1_m, …). Null or absent values are empty cells. Fields the engine
- * adds later appear after the known ones, named in snake_case.
+ * The columns, their names and decimals are the page's own (web/station-columns.js), so the
+ * file, the page and the share page agree. Null or absent values are empty cells. Station
+ * fields that have no declared column yet (added by the engine later) follow, in snake_case,
+ * so nothing the engine computes is left out of the file.
  */
 import type { Interpretation, Station } from '../engine/output/interpretation.js';
+import { cellData, DECLARED_STATION_FIELDS, stationColumns } from '../web/station-columns.js';
 
 interface Column {
   header: string;
-  value: (station: Station) => unknown;
+  cell: (station: Station) => string;
 }
 
-/** Known Station fields in table order, with units in the header. */
-const KNOWN_COLUMNS: readonly { key: keyof Station; header: string }[] = [
-  { key: 'x', header: 'x_m' },
-  { key: 'elevation', header: 'elevation_m' },
-  { key: 'delayTime', header: 'delay_time_ms' },
-  { key: 'depth', header: 'depth_m' },
-  { key: 'refractorElevation', header: 'refractor_elevation_m' },
-  { key: 'v1', header: 'v1_m_per_s' },
-  { key: 'refractorVelocity', header: 'refractor_velocity_m_per_s' },
-  { key: 'depthUncertainty', header: 'depth_uncertainty_m' },
-  { key: 'normalDepth', header: 'normal_depth_m' },
-  { key: 'plusTime', header: 'plus_time_ms' },
-  { key: 'minusTime', header: 'minus_time_ms' },
-  { key: 'coverage', header: 'coverage' },
-  { key: 'pairCount', header: 'pair_count' },
-];
-
-const KNOWN_KEYS = new Set<string>([...KNOWN_COLUMNS.map((c) => c.key as string), 'depths']);
+const DECLARED = new Set<string>(DECLARED_STATION_FIELDS);
 
 function snakeCase(key: string): string {
   return key.replace(/([a-z0-9])([A-Z])/g, '$1_$2').replace(/[^A-Za-z0-9_]/g, '_').toLowerCase();
@@ -53,29 +38,21 @@ export function csvCell(value: unknown): string {
 }
 
 function columnsFor(stations: readonly Station[]): Column[] {
-  const columns: Column[] = [];
-  const present = (key: keyof Station): boolean => stations.some((s) => s[key] !== undefined);
-  for (const { key, header } of KNOWN_COLUMNS) {
-    // The contract's fields always have a column; the optional ones only when the engine gave them.
-    const required = ['x', 'elevation', 'delayTime', 'depth', 'refractorElevation', 'v1', 'refractorVelocity'].includes(key);
-    if (required || present(key)) columns.push({ header, value: (s) => s[key] });
-    if (key === 'refractorElevation') {
-      const refractors = Math.max(1, ...stations.map((s) => (Array.isArray(s.depths) ? s.depths.length : 0)));
-      for (let i = 0; i < refractors; i += 1) {
-        columns.push({ header: `depth_to_refractor_${i + 1}_m`, value: (s) => (Array.isArray(s.depths) ? s.depths[i] : null) });
-      }
-    }
-  }
+  const columns: Column[] = stationColumns(stations).map((c) => ({
+    header: c.csvHeader,
+    // Numbers are formatted with the column's decimals (never a formula); text is defused.
+    cell: (s: Station) => (c.decimals === null ? csvCell(c.value(s)) : cellData(c, s)),
+  }));
   const extraKeys = new Set<string>();
   for (const station of stations) {
     for (const [key, value] of Object.entries(station)) {
-      if (!KNOWN_KEYS.has(key) && (value === null || ['number', 'string', 'boolean'].includes(typeof value))) {
+      if (!DECLARED.has(key) && (value === null || ['number', 'string', 'boolean'].includes(typeof value))) {
         extraKeys.add(key);
       }
     }
   }
   for (const key of extraKeys) {
-    columns.push({ header: snakeCase(key), value: (s) => (s as unknown as Record<string, unknown>)[key] });
+    columns.push({ header: snakeCase(key), cell: (s) => csvCell((s as unknown as Record<string, unknown>)[key]) });
   }
   return columns;
 }
@@ -84,7 +61,7 @@ export function stationsCsv(interpretation: Interpretation): string {
   const columns = columnsFor(interpretation.stations);
   const lines = [columns.map((c) => c.header).join(',')];
   for (const station of interpretation.stations) {
-    lines.push(columns.map((c) => csvCell(c.value(station))).join(','));
+    lines.push(columns.map((c) => c.cell(station)).join(','));
   }
   return `${lines.join('\r\n')}\r\n`;
 }

@@ -1,10 +1,71 @@
 // Talks to the Arcline HTTP API v1 (shared/api-v1.md). Every call resolves to
 // { ok: true, data } or { ok: false, failure }, where failure is
 // { status, code, message, path, problems[] } — the page never sees a thrown fetch error.
+//
+// The types below say what the contract promises each answer holds; the page still checks
+// shapes where a wrong one would break it, because a proxy or an older service may answer.
+
+/**
+ * @typedef {import('./describe.js').BodyFormat} BodyFormat
+ * @typedef {import('../engine/output/interpretation.js').Interpretation} Interpretation
+ * @typedef {import('../engine/survey/survey.js').Survey} Survey
+ */
+
+/**
+ * One problem of a rejected body, as the contract's error body lists it.
+ * @typedef {{ path: string, code: string, message: string }} Problem
+ */
+
+/**
+ * Every failed call, whatever went wrong (network, status, error body).
+ * @typedef {object} Failure
+ * @property {number} status HTTP status; 0 when the service did not answer.
+ * @property {string} code
+ * @property {string} message A sentence for the status line or the error box.
+ * @property {string} path JSON pointer of the offending value, or ''.
+ * @property {Problem[]} problems
+ */
+
+/**
+ * @template T
+ * @typedef {{ ok: true, status: number, data: T } | { ok: false, failure: Failure }} Result
+ */
+
+/** @typedef {{ id: string, name?: string, createdAt?: string }} ListedLine */
+/** @typedef {{ revision: number, name?: string, createdAt?: string }} RevisionEntry */
+
+/**
+ * GET /api/v1/surveys/:id.
+ * @typedef {object} StoredLine
+ * @property {string} id
+ * @property {string} [name]
+ * @property {string} [createdAt]
+ * @property {number} [revision]
+ * @property {number} [latestRevision]
+ * @property {RevisionEntry[]} [revisions]
+ * @property {string} [shareUrl]
+ * @property {Survey} [survey]
+ * @property {Interpretation} [interpretation]
+ */
+
+/** POST /api/v1/surveys and …/revisions. @typedef {{ id: string, shareUrl?: string, revision?: number }} StoreAnswer */
+
+/**
+ * POST /api/v1/previews: one interpretation and both drawings of it, as SVG text.
+ * @typedef {{ interpretation: Interpretation, sectionSvg: string, travelTimesSvg: string }} PreviewBundle
+ */
+
+/**
+ * What fetch() is given: always a method and headers, a body for writes.
+ * @typedef {{ method: string, headers: Record<string, string>, body?: string }} RequestSpec
+ */
 
 const TOKEN_KEY = 'arcline.writeToken';
 
-/** The write token kept for this tab (sessionStorage), or '' when none. */
+/**
+ * The write token kept for this tab (sessionStorage), or '' when none.
+ * @returns {string}
+ */
 export function readWriteToken() {
   try {
     return sessionStorage.getItem(TOKEN_KEY) ?? '';
@@ -13,6 +74,7 @@ export function readWriteToken() {
   }
 }
 
+/** @param {string} token */
 export function saveWriteToken(token) {
   try {
     if (token) sessionStorage.setItem(TOKEN_KEY, token);
@@ -22,21 +84,49 @@ export function saveWriteToken(token) {
   }
 }
 
-/** Content type of a survey body in the given format ('json' or 'csv'). */
-function contentTypeOf(format) {
+/**
+ * Content type of a survey body in the given format.
+ * @param {BodyFormat} format
+ * @returns {string}
+ */
+export function contentTypeOf(format) {
   return format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json';
 }
 
-async function request(path, init) {
+/**
+ * A POST of a survey body (JSON or pick table). With a token (writes only), the
+ * `Authorization: Bearer` header the service's write guard reads.
+ * @param {string} bodyText
+ * @param {BodyFormat} format
+ * @param {string} [token]
+ * @returns {RequestSpec}
+ */
+export function surveyPost(bodyText, format, token = '') {
+  /** @type {Record<string, string>} */
+  const headers = { 'Content-Type': contentTypeOf(format), Accept: 'application/json' };
+  if (token) headers.Authorization = 'Bearer ' + token;
+  return { method: 'POST', headers, body: bodyText };
+}
+
+/** @type {RequestSpec} */
+const GET = Object.freeze({ method: 'GET', headers: { Accept: 'application/json' } });
+
+/**
+ * One call; the answer's JSON is taken as the contract type T the caller names (checked
+ * where the page depends on it, e.g. readPreviewBundle).
+ * @template T
+ * @param {string} path
+ * @param {RequestSpec} spec
+ * @returns {Promise<Result<T>>}
+ */
+async function request(path, spec) {
   let response;
   try {
-    response = await fetch(path, { ...init, headers: { Accept: 'application/json', ...(init?.headers ?? {}) } });
+    response = await fetch(path, spec);
   } catch {
-    return {
-      ok: false,
-      failure: failure(0, 'unreachable', 'The Arcline service did not answer. Check that it is running and reachable.'),
-    };
+    return { ok: false, failure: unreachable() };
   }
+  /** @type {unknown} */
   let body = null;
   const text = await response.text();
   if (text) {
@@ -46,25 +136,51 @@ async function request(path, init) {
       body = null;
     }
   }
-  if (response.ok) return { ok: true, status: response.status, data: body };
+  if (response.ok) return { ok: true, status: response.status, data: /** @type {T} */ (body) };
   return { ok: false, failure: failureFromBody(response.status, body) };
 }
 
+/** @returns {Failure} */
+function unreachable() {
+  return failure(0, 'unreachable', 'The Arcline service did not answer. Check that it is running and reachable.');
+}
+
+/**
+ * @param {number} status
+ * @param {string} code
+ * @param {string} message
+ * @param {string} [path]
+ * @param {Problem[]} [problems]
+ * @returns {Failure}
+ */
 function failure(status, code, message, path = '', problems = []) {
   return { status, code, message, path, problems };
 }
 
-/** Turns the contract's error body into one shape; fills in words for bare statuses. */
-function failureFromBody(status, body) {
-  const error = body && typeof body === 'object' ? body.error : null;
-  const problems = Array.isArray(body?.problems)
-    ? body.problems.filter((p) => p && typeof p === 'object').map((p) => ({
-      path: typeof p.path === 'string' ? p.path : '',
-      code: typeof p.code === 'string' ? p.code : '',
-      message: typeof p.message === 'string' ? p.message : String(p.message ?? ''),
-    }))
-    : [];
-  if (error && typeof error === 'object') {
+/**
+ * @param {unknown} value
+ * @returns {value is Record<string, unknown>}
+ */
+function isRecord(value) {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+/**
+ * Turns the contract's error body into one shape; fills in words for bare statuses.
+ * @param {number} status
+ * @param {unknown} body
+ * @returns {Failure}
+ */
+export function failureFromBody(status, body) {
+  const error = isRecord(body) ? body.error : null;
+  const listed = isRecord(body) && Array.isArray(body.problems) ? body.problems : [];
+  /** @type {Problem[]} */
+  const problems = listed.filter(isRecord).map((p) => ({
+    path: typeof p.path === 'string' ? p.path : '',
+    code: typeof p.code === 'string' ? p.code : '',
+    message: typeof p.message === 'string' ? p.message : String(p.message ?? ''),
+  }));
+  if (isRecord(error)) {
     return failure(
       status,
       typeof error.code === 'string' ? error.code : 'error',
@@ -76,7 +192,11 @@ function failureFromBody(status, body) {
   return failure(status, 'http-' + status, statusWords(status), '', problems);
 }
 
-function statusWords(status) {
+/**
+ * @param {number} status
+ * @returns {string}
+ */
+export function statusWords(status) {
   if (status === 401 || status === 403) {
     return 'The service refused to store this line without a valid write token. Enter the token under "Write token".';
   }
@@ -86,54 +206,90 @@ function statusWords(status) {
   return 'The service answered with status ' + status + '.';
 }
 
-/** POST /api/v1/interpretations — interprets, stores nothing. */
-export function interpretLine(bodyText, format) {
-  return request('api/v1/interpretations', {
-    method: 'POST',
-    headers: { 'Content-Type': contentTypeOf(format) },
-    body: bodyText,
-  });
+/**
+ * The answer of POST /api/v1/previews when it has the promised shape, else null.
+ * @param {unknown} data
+ * @returns {PreviewBundle | null}
+ */
+export function readPreviewBundle(data) {
+  if (!isRecord(data) || !isRecord(data.interpretation) || !Array.isArray(data.interpretation.stations)) return null;
+  if (typeof data.sectionSvg !== 'string' || typeof data.travelTimesSvg !== 'string') return null;
+  return /** @type {PreviewBundle} */ (data);
 }
 
-/** Headers of a write: the body's type, and the write token when one is set. */
-function writeHeaders(format) {
-  const headers = { 'Content-Type': contentTypeOf(format) };
-  const token = readWriteToken();
-  if (token) headers.Authorization = 'Bearer ' + token;
-  return headers;
+/**
+ * POST /api/v1/previews — interprets once, stores nothing, and answers the interpretation
+ * with both drawings of it: what the page shows after Interpret, from one request.
+ * @param {string} bodyText
+ * @param {BodyFormat} format
+ * @returns {Promise<Result<PreviewBundle>>}
+ */
+export async function previewLine(bodyText, format) {
+  /** @type {Result<unknown>} */
+  const result = await request('api/v1/previews', surveyPost(bodyText, format));
+  if (!result.ok) return result;
+  const bundle = readPreviewBundle(result.data);
+  if (bundle === null) {
+    return { ok: false, failure: failure(result.status, 'unexpected_answer', 'The service answered the preview in a shape the page does not know.') };
+  }
+  return { ok: true, status: result.status, data: bundle };
 }
 
-/** POST /api/v1/surveys — stores the line; sends the write token when one is set. */
+/**
+ * POST /api/v1/surveys — stores the line; sends the write token when one is set.
+ * @param {string} bodyText
+ * @param {BodyFormat} format
+ * @returns {Promise<Result<StoreAnswer>>}
+ */
 export function storeLine(bodyText, format) {
-  return request('api/v1/surveys', { method: 'POST', headers: writeHeaders(format), body: bodyText });
+  return request('api/v1/surveys', surveyPost(bodyText, format, readWriteToken()));
 }
 
 /**
  * POST /api/v1/surveys/:id/revisions — stores the corrected line as the next revision of a
  * stored line (nothing is overwritten); sends the write token when one is set.
+ * @param {string} id
+ * @param {string} bodyText
+ * @param {BodyFormat} format
+ * @returns {Promise<Result<StoreAnswer>>}
  */
 export function storeRevision(id, bodyText, format) {
-  return request('api/v1/surveys/' + encodeURIComponent(id) + '/revisions', {
-    method: 'POST', headers: writeHeaders(format), body: bodyText,
-  });
+  return request('api/v1/surveys/' + encodeURIComponent(id) + '/revisions', surveyPost(bodyText, format, readWriteToken()));
 }
 
-/** GET /api/v1/surveys — [{id, name, createdAt}]. */
+/**
+ * GET /api/v1/surveys — [{id, name, createdAt}].
+ * @returns {Promise<Result<ListedLine[]>>}
+ */
 export function listLines() {
-  return request('api/v1/surveys', { method: 'GET' });
+  return request('api/v1/surveys', GET);
 }
 
-/** `?revision=N` for a revision number, '' for the latest. */
-function revisionQuery(revision) {
-  return Number.isInteger(revision) && revision >= 1 ? '?revision=' + revision : '';
+/**
+ * `?revision=N` for a revision number, '' for the latest.
+ * @param {number | undefined} revision
+ * @returns {string}
+ */
+export function revisionQuery(revision) {
+  return Number.isInteger(revision) && Number(revision) >= 1 ? '?revision=' + revision : '';
 }
 
-/** GET /api/v1/surveys/:id[?revision=N] — {survey, interpretation, revision, latestRevision, revisions, ...}. */
+/**
+ * GET /api/v1/surveys/:id[?revision=N] — {survey, interpretation, revision, latestRevision, revisions, ...}.
+ * @param {string} id
+ * @param {number} [revision]
+ * @returns {Promise<Result<StoredLine>>}
+ */
 export function fetchLine(id, revision) {
-  return request('api/v1/surveys/' + encodeURIComponent(id) + revisionQuery(revision), { method: 'GET' });
+  return request('api/v1/surveys/' + encodeURIComponent(id) + revisionQuery(revision), GET);
 }
 
-/** Relative URLs of the files of a stored line; of one revision when `revision` is given. */
+/**
+ * Relative URLs of the files of a stored line; of one revision when `revision` is given.
+ * @param {string} id
+ * @param {number} [revision]
+ * @returns {{ section: string, travelTimes: string, stations: string, interpretation: string }}
+ */
 export function lineFileUrls(id, revision) {
   const base = 'api/v1/surveys/' + encodeURIComponent(id) + '/';
   const query = revisionQuery(revision);
@@ -143,45 +299,4 @@ export function lineFileUrls(id, revision) {
     stations: base + 'stations.csv' + query,
     interpretation: base + 'interpretation.json' + query,
   };
-}
-
-/** The figures the service can draw of a line that is not stored, by the page's name for them. */
-export const PREVIEW_KINDS = { section: 'section.svg', travelTimes: 'traveltimes.svg' };
-
-/**
- * POST /api/v1/previews/{section,traveltimes}.svg — draws a line without storing it.
- * Resolves to { ok: true, blob } (an image/svg+xml Blob for an <img> through a blob: URL)
- * or { ok: false, failure } with the same failure shape as every other call.
- */
-export async function previewFigure(bodyText, format, kind) {
-  const file = PREVIEW_KINDS[kind];
-  if (!file) return { ok: false, failure: failure(0, 'unknown_figure', 'The page asked for an unknown figure: ' + kind + '.') };
-  let response;
-  try {
-    response = await fetch('api/v1/previews/' + file, {
-      method: 'POST',
-      headers: { 'Content-Type': contentTypeOf(format), Accept: 'image/svg+xml, application/json' },
-      body: bodyText,
-    });
-  } catch {
-    return {
-      ok: false,
-      failure: failure(0, 'unreachable', 'The Arcline service did not answer. Check that it is running and reachable.'),
-    };
-  }
-  const type = response.headers.get('Content-Type') ?? '';
-  if (response.ok && type.startsWith('image/svg+xml')) {
-    // The Blob keeps the SVG type, so the <img> decodes it as an image (scripts never run there).
-    return { ok: true, status: response.status, blob: new Blob([await response.arrayBuffer()], { type: 'image/svg+xml' }) };
-  }
-  let body = null;
-  try {
-    body = JSON.parse(await response.text());
-  } catch {
-    body = null;
-  }
-  if (response.ok) {
-    return { ok: false, failure: failure(response.status, 'not_an_image', 'The service answered the preview with something other than an SVG drawing.') };
-  }
-  return { ok: false, failure: failureFromBody(response.status, body) };
 }

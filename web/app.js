@@ -2,67 +2,90 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  fetchLine, interpretLine, lineFileUrls, listLines, previewFigure, readWriteToken, saveWriteToken, storeLine,
-  storeRevision,
+  fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision,
 } from './api.js';
 import { detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import { el, markFiguresAsPreview, renderFailure, renderStationTable, renderSummary, renderWarnings } from './view.js';
 
-const $ = (id) => {
+/**
+ * @typedef {import('./api.js').Failure} Failure
+ * @typedef {import('./api.js').PreviewBundle} PreviewBundle
+ * @typedef {import('./api.js').RevisionEntry} RevisionEntry
+ * @typedef {import('./describe.js').BodyFormat} BodyFormat
+ * @typedef {import('./describe.js').SurveyNames} SurveyNames
+ * @typedef {import('../engine/output/interpretation.js').Interpretation} Interpretation
+ */
+
+/**
+ * The element with this id, checked to be of the expected kind: a renamed or retyped element
+ * in index.html fails loudly on load instead of misbehaving later.
+ * @template {HTMLElement} T
+ * @param {string} id
+ * @param {{ new (): T, prototype: T }} kind
+ * @returns {T}
+ */
+function $(id, kind) {
   const node = document.getElementById(id);
-  if (!node) throw new Error('Arcline page is missing #' + id);
+  if (!(node instanceof kind)) throw new Error('Arcline page is missing #' + id + ' (or it is not a ' + kind.name + ')');
   return node;
-};
+}
 
 const ui = {
-  fileInput: $('file-input'),
-  text: $('survey-text'),
-  formatName: $('format-name'),
-  interpretButton: $('interpret-button'),
-  storeButton: $('store-button'),
-  reviseButton: $('revise-button'),
-  token: $('write-token'),
-  status: $('status'),
-  errorBox: $('error-box'),
-  storedList: $('stored-list'),
-  storedEmpty: $('stored-empty'),
-  refreshButton: $('refresh-button'),
-  title: $('line-title'),
-  meta: $('line-meta'),
-  badge: $('line-badge'),
-  revisionRow: $('revision-row'),
-  revisionText: $('revision-text'),
-  revisionPicker: $('revision-picker'),
-  revisionSelect: $('revision-select'),
-  filesPanel: $('files-panel'),
-  sharePanel: $('share-panel'),
-  shareUrl: $('share-url'),
-  copyButton: $('copy-button'),
-  shareOpen: $('share-open'),
-  warnings: $('warnings'),
-  warningList: $('warning-list'),
-  figures: $('figures'),
-  sectionImage: $('section-image'),
-  travelTimesImage: $('traveltimes-image'),
-  unsavedNote: $('unsaved-note'),
-  summary: $('summary'),
-  summaryList: $('summary-list'),
-  stations: $('stations'),
-  stationHead: $('station-head'),
-  stationBody: $('station-body'),
-  emptyNote: $('empty-note'),
+  fileInput: $('file-input', HTMLInputElement),
+  text: $('survey-text', HTMLTextAreaElement),
+  formatName: $('format-name', HTMLElement),
+  interpretButton: $('interpret-button', HTMLButtonElement),
+  storeButton: $('store-button', HTMLButtonElement),
+  reviseButton: $('revise-button', HTMLButtonElement),
+  token: $('write-token', HTMLInputElement),
+  status: $('status', HTMLElement),
+  errorBox: $('error-box', HTMLElement),
+  storedList: $('stored-list', HTMLElement),
+  storedEmpty: $('stored-empty', HTMLElement),
+  refreshButton: $('refresh-button', HTMLButtonElement),
+  title: $('line-title', HTMLElement),
+  meta: $('line-meta', HTMLElement),
+  badge: $('line-badge', HTMLElement),
+  revisionRow: $('revision-row', HTMLElement),
+  revisionText: $('revision-text', HTMLElement),
+  revisionPicker: $('revision-picker', HTMLElement),
+  revisionSelect: $('revision-select', HTMLSelectElement),
+  filesPanel: $('files-panel', HTMLElement),
+  sharePanel: $('share-panel', HTMLElement),
+  shareUrl: $('share-url', HTMLInputElement),
+  copyButton: $('copy-button', HTMLButtonElement),
+  shareOpen: $('share-open', HTMLAnchorElement),
+  warnings: $('warnings', HTMLElement),
+  warningList: $('warning-list', HTMLElement),
+  figures: $('figures', HTMLElement),
+  sectionImage: $('section-image', HTMLImageElement),
+  travelTimesImage: $('traveltimes-image', HTMLImageElement),
+  unsavedNote: $('unsaved-note', HTMLElement),
+  summary: $('summary', HTMLElement),
+  summaryList: $('summary-list', HTMLElement),
+  stations: $('stations', HTMLElement),
+  stationHead: $('station-head', HTMLTableRowElement),
+  stationBody: $('station-body', HTMLTableSectionElement),
+  emptyNote: $('empty-note', HTMLElement),
 };
 
 /** What the input area holds: its format follows the file name until the text is edited. */
 const input = { fileName: '' };
-/** Id of the stored line on show, or null for an unsaved interpretation / nothing. */
+/**
+ * Id of the stored line on show, or null for an unsaved interpretation / nothing.
+ * @type {string | null}
+ */
 let openLineId = null;
 /**
  * The stored line opened last ({ id, name } of its latest revision), still known while a newly
  * loaded line is interpreted: that line can then be stored as its next revision.
+ * @type {{ id: string, name: string } | null}
  */
 let revisionBase = null;
-/** Exactly what was interpreted last ({ bodyText, format }), until the input is changed. */
+/**
+ * Exactly what was interpreted last, until the input is changed.
+ * @type {{ bodyText: string, format: BodyFormat } | null}
+ */
 let interpreted = null;
 /** Counts stored-line openings, so an answer for an earlier one (a quick change of revision) is dropped. */
 let openRound = 0;
@@ -71,8 +94,10 @@ let openRound = 0;
  * newer interpretation or a stored line took over is dropped), and the blob: URLs of
  * preview images, revoked as soon as they are replaced so their SVGs can be freed.
  */
+/** @type {{ round: number, blobUrls: string[] }} */
 const figures = { round: 0, blobUrls: [] };
 
+/** @param {string} text */
 function setStatus(text) {
   ui.status.textContent = text;
 }
@@ -93,7 +118,10 @@ function updateFormatHint() {
     : 'nothing loaded yet';
 }
 
-/** The survey as JSON when the input is JSON and parses; lends shot names to error messages. */
+/**
+ * The survey as JSON when the input is JSON and parses; lends shot names to error messages.
+ * @returns {(SurveyNames & { name?: unknown }) | undefined} Unvalidated: whatever the text holds.
+ */
 function parsedSurvey() {
   if (currentFormat() !== 'json') return undefined;
   try {
@@ -103,6 +131,7 @@ function parsedSurvey() {
   }
 }
 
+/** @param {boolean} busy */
 function setBusy(busy) {
   ui.interpretButton.disabled = busy;
   ui.storeButton.disabled = busy;
@@ -115,9 +144,9 @@ function setBusy(busy) {
  * and a stored line was open before it.
  */
 function updateReviseButton() {
-  const offer = revisionBase !== null && interpreted !== null && openLineId === null;
-  ui.reviseButton.hidden = !offer;
-  if (offer) ui.reviseButton.textContent = 'Store as revision of ' + revisionBase.name;
+  const base = interpreted !== null && openLineId === null ? revisionBase : null;
+  ui.reviseButton.hidden = base === null;
+  if (base !== null) ui.reviseButton.textContent = 'Store as revision of ' + base.name;
 }
 
 /** The input changed after Interpret: what would be stored is no longer what is on show. */
@@ -126,19 +155,30 @@ function forgetInterpreted() {
   updateReviseButton();
 }
 
-function lineName(survey, interpretation, fallback) {
-  const name = survey?.name ?? interpretation?.name;
+/**
+ * The line's name from the survey, else the fallback.
+ * @param {{ name?: unknown } | null | undefined} survey
+ * @param {string} fallback
+ * @returns {string}
+ */
+function lineName(survey, fallback) {
+  const name = survey?.name;
   return typeof name === 'string' && name.trim() ? name.trim() : fallback;
 }
 
-/** Shows an interpretation: title, warnings, summary and the station table. */
+/**
+ * Shows an interpretation: title, warnings, summary and the station table.
+ * @param {string} name
+ * @param {Interpretation} interpretation
+ * @param {string} metaText
+ */
 function showInterpretation(name, interpretation, metaText) {
   ui.title.textContent = name;
   ui.meta.textContent = metaText;
   ui.emptyNote.hidden = true;
-  const stations = Array.isArray(interpretation?.stations) ? interpretation.stations : [];
-  renderWarnings(ui.warnings, ui.warningList, interpretation?.qc?.warnings);
-  renderSummary(ui.summaryList, interpretation ?? {});
+  const stations = Array.isArray(interpretation.stations) ? interpretation.stations : [];
+  renderWarnings(ui.warnings, ui.warningList, interpretation.qc?.warnings);
+  renderSummary(ui.summaryList, interpretation);
   ui.summary.hidden = false;
   renderStationTable(ui.stationHead, ui.stationBody, stations);
   ui.stations.hidden = false;
@@ -168,55 +208,72 @@ function hideStoredParts() {
   ui.revisionRow.hidden = true;
 }
 
+/**
+ * The "could not be drawn" note beside a figure's image.
+ * @param {HTMLImageElement} image
+ * @returns {HTMLElement | null}
+ */
+function failedNoteOf(image) {
+  const note = image.parentElement?.querySelector('.figure-failed');
+  return note instanceof HTMLElement ? note : null;
+}
+
+/** @param {HTMLImageElement} image */
 function showFigureFailed(image) {
   image.hidden = true;
   image.removeAttribute('src');
-  const note = image.parentElement?.querySelector('.figure-failed');
+  const note = failedNoteOf(image);
   if (note) note.hidden = false;
 }
 
 /**
- * Draws a line that is not stored: asks the service for both previews of the same text
- * that was interpreted and shows them as <img> from blob: URLs (the strict CSP allows
- * images from blob:; nothing the service sent is parsed into the page).
+ * Shows the drawings of a line that is not stored, from the SVG text of the same answer
+ * that carried its interpretation. Each SVG becomes an image/svg+xml Blob shown in an <img>
+ * through a blob: URL: an SVG in an image runs no script and is never parsed into the page,
+ * and the strict CSP allows images from blob:.
+ * @param {PreviewBundle} bundle
+ * @param {string} name
  */
-async function showPreviews(bodyText, format, name) {
-  const round = newFigureRound();
-  const [section, travelTimes] = await Promise.all([
-    previewFigure(bodyText, format, 'section'),
-    previewFigure(bodyText, format, 'travelTimes'),
-  ]);
-  if (round !== figures.round) return;
+function showPreviews(bundle, name) {
+  newFigureRound();
+  /** @type {string[]} */
   const urls = [];
-  const place = (result, image, altText) => {
-    if (!result.ok) {
+  /**
+   * @param {string} svg
+   * @param {HTMLImageElement} image
+   * @param {string} altText
+   */
+  const place = (svg, image, altText) => {
+    if (svg.trim() === '') {
       showFigureFailed(image);
-      return result.failure;
+      return;
     }
-    const url = URL.createObjectURL(result.blob);
+    const url = URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' }));
     urls.push(url);
     showFigure(image, url, altText);
-    return null;
   };
-  const failures = [
-    place(section, ui.sectionImage, 'Preview, not stored: depth section of ' + name),
-    place(travelTimes, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name),
-  ].filter(Boolean);
+  place(bundle.sectionSvg, ui.sectionImage, 'Preview, not stored: depth section of ' + name);
+  place(bundle.travelTimesSvg, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name);
   releasePreviewUrls();
   figures.blobUrls = urls;
   markFiguresAsPreview(ui.figures, true);
   ui.figures.hidden = false;
-  if (failures.length) setStatus('The preview figures could not be drawn: ' + failures[0].message);
 }
 
+/**
+ * @param {HTMLImageElement} image
+ * @param {string} url
+ * @param {string} altText
+ */
 function showFigure(image, url, altText) {
-  const failedNote = image.parentElement?.querySelector('.figure-failed');
+  const failedNote = failedNoteOf(image);
   if (failedNote) failedNote.hidden = true;
   image.hidden = false;
   image.alt = altText;
   image.src = url;
 }
 
+/** @param {unknown} shareUrl */
 function showShareLink(shareUrl) {
   if (typeof shareUrl !== 'string' || !shareUrl) {
     ui.sharePanel.hidden = true;
@@ -230,6 +287,7 @@ function showShareLink(shareUrl) {
 
 function markOpenInList() {
   for (const button of ui.storedList.querySelectorAll('button[data-line-id]')) {
+    if (!(button instanceof HTMLElement)) continue;
     if (button.dataset.lineId === openLineId) button.setAttribute('aria-current', 'true');
     else button.removeAttribute('aria-current');
   }
@@ -238,6 +296,9 @@ function markOpenInList() {
 /**
  * Shows "revision N of M" and, when there is more than one, a select of all revisions
  * (option text built with textContent: names and dates come from the service).
+ * @param {number} shown
+ * @param {number} latest
+ * @param {readonly RevisionEntry[]} revisions
  */
 function showRevisions(shown, latest, revisions) {
   ui.revisionText.textContent = 'revision ' + shown + ' of ' + latest;
@@ -256,6 +317,10 @@ function showRevisions(shown, latest, revisions) {
 /**
  * Opens a stored line: its interpretation, figures, downloads and share link; the latest
  * revision, or the one asked for.
+ * @param {string} id
+ * @param {string} [shareUrlFromStore]
+ * @param {number} [revision]
+ * @returns {Promise<boolean>} Whether the line is on show.
  */
 async function openStoredLine(id, shareUrlFromStore, revision) {
   const round = ++openRound;
@@ -269,16 +334,21 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   }
   clearError();
   const { survey, interpretation } = result.data ?? {};
-  const name = lineName(survey, interpretation, 'Stored line ' + id);
+  if (!interpretation || !Array.isArray(interpretation.stations)) {
+    renderFailure(ui.errorBox, { message: 'The service sent this line without its interpretation.', path: '', problems: [] });
+    setStatus('Could not open the line.');
+    return false;
+  }
+  const name = lineName(survey, 'Stored line ' + id);
   openLineId = id;
-  const shown = Number.isInteger(result.data?.revision) ? result.data.revision : 1;
-  const latest = Number.isInteger(result.data?.latestRevision) ? result.data.latestRevision : shown;
+  const shown = integerOr(result.data?.revision, 1);
+  const latest = integerOr(result.data?.latestRevision, shown);
   const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
   const latestName = revisions.find((r) => r?.revision === latest)?.name;
   revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name };
   interpreted = null;
   updateReviseButton();
-  const stationCount = Array.isArray(interpretation?.stations) ? interpretation.stations.length : 0;
+  const stationCount = interpretation.stations.length;
   const shotCount = Array.isArray(survey?.shots) ? survey.shots.length : 0;
   const created = result.data?.createdAt ? ' · stored ' + when(result.data.createdAt) : '';
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + shotCount + ' shots' + created);
@@ -313,8 +383,22 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   return true;
 }
 
+/**
+ * @param {unknown} value
+ * @param {number} fallback
+ * @returns {number}
+ */
+function integerOr(value, fallback) {
+  return typeof value === 'number' && Number.isInteger(value) ? value : fallback;
+}
+
+/**
+ * @param {string} id
+ * @param {string} url
+ * @param {string} fileName
+ */
 function setDownload(id, url, fileName) {
-  const link = $(id);
+  const link = $(id, HTMLAnchorElement);
   link.href = url;
   link.setAttribute('download', fileName);
 }
@@ -356,29 +440,37 @@ function requireInput() {
   return false;
 }
 
+/**
+ * Interpret: one request (POST /api/v1/previews) answers the interpretation and both of its
+ * drawings, so one click costs the service one interpretation and the figures always show
+ * the numbers in the table.
+ */
 async function interpretInput() {
   if (!requireInput()) return;
   setBusy(true);
   setStatus('Interpreting…');
   const format = currentFormat();
-  // The previews are drawn from exactly the text that was interpreted, even if it is edited meanwhile.
+  // What is shown (and offered as a revision) is exactly the text sent, even if it is edited meanwhile.
   const bodyText = ui.text.value;
-  const result = await interpretLine(bodyText, format);
+  // A stored line opened while this request runs takes over; its answer is then dropped.
+  const round = newFigureRound();
+  const result = await previewLine(bodyText, format);
   setBusy(false);
+  if (round !== figures.round) return;
   if (!result.ok) {
     renderFailure(ui.errorBox, result.failure, parsedSurvey());
     setStatus('The line was not interpreted: see the problems listed.');
     return;
   }
   clearError();
-  const interpretation = result.data ?? {};
-  const fromTable = format === 'csv' ? pickTableName(ui.text.value) : '';
-  const name = lineName(parsedSurvey(), interpretation, fromTable || input.fileName || 'Pasted line');
+  const { interpretation } = result.data;
+  const fromTable = format === 'csv' ? pickTableName(bodyText) : '';
+  const name = lineName(parsedSurvey(), fromTable || input.fileName || 'Pasted line');
   openLineId = null;
   // Offered for storing as a revision only while the input still holds what was interpreted.
   interpreted = ui.text.value === bodyText ? { bodyText, format } : null;
   markOpenInList();
-  const stationCount = Array.isArray(interpretation.stations) ? interpretation.stations.length : 0;
+  const stationCount = interpretation.stations.length;
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + formatLabel(format));
   ui.badge.textContent = 'Not stored';
   ui.badge.className = 'badge unsaved';
@@ -387,10 +479,10 @@ async function interpretInput() {
   updateReviseButton();
   ui.unsavedNote.hidden = false;
   history.replaceState(null, '', window.location.pathname + window.location.search);
+  showPreviews(result.data, name);
   const warningCount = Array.isArray(interpretation.qc?.warnings) ? interpretation.qc.warnings.length : 0;
   setStatus('Interpreted “' + name + '”: ' + stationCount + ' stations'
     + (warningCount ? ', ' + warningCount + ' warning' + (warningCount === 1 ? '' : 's') : '') + '.');
-  await showPreviews(bodyText, format, name);
 }
 
 async function storeInput() {
@@ -430,7 +522,7 @@ async function reviseInput() {
     return;
   }
   clearError();
-  const revision = Number.isInteger(result.data?.revision) ? result.data.revision : undefined;
+  const revision = typeof result.data?.revision === 'number' && Number.isInteger(result.data.revision) ? result.data.revision : undefined;
   await refreshList();
   const opened = await openStoredLine(base.id, result.data?.shareUrl, revision);
   if (opened) setStatus('Stored as revision ' + (revision ?? '') + ' of “' + base.name + '”.');
@@ -482,12 +574,11 @@ function lineFromHash() {
   return { id, revision: Number.isInteger(revision) && revision >= 1 ? revision : undefined };
 }
 
+/** @param {Event} event */
 function imageFailed(event) {
   const image = event.currentTarget;
-  if (!image.getAttribute('src')) return;
-  image.hidden = true;
-  const note = image.parentElement?.querySelector('.figure-failed');
-  if (note) note.hidden = false;
+  if (!(image instanceof HTMLImageElement) || !image.getAttribute('src')) return;
+  showFigureFailed(image);
 }
 
 function wire() {

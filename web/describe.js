@@ -1,9 +1,14 @@
 // Pure helpers that turn values into the words and numbers the page shows.
 // No DOM here, so each can be reasoned about on its own.
 
+/** @typedef {'json' | 'csv'} BodyFormat */
+
 /**
  * Guesses the format of a pick file: by its name first (.json / .csv), then by its
  * content (a JSON survey starts with "{"). Returns 'json' or 'csv'.
+ * @param {string} text
+ * @param {string} [fileName]
+ * @returns {BodyFormat}
  */
 export function detectFormat(text, fileName = '') {
   const lower = fileName.toLowerCase();
@@ -12,13 +17,22 @@ export function detectFormat(text, fileName = '') {
   return text.trimStart().startsWith('{') ? 'json' : 'csv';
 }
 
+/**
+ * @param {BodyFormat} format
+ * @returns {string}
+ */
 export function formatLabel(format) {
   return format === 'json' ? 'JSON survey' : 'CSV pick table';
 }
 
 const DASH = '—';
 
-/** A number with a fixed count of decimals, or a dash when the value is missing. */
+/**
+ * A number with a fixed count of decimals, or a dash when the value is missing.
+ * @param {unknown} value
+ * @param {number} decimals
+ * @returns {string}
+ */
 export function fixed(value, decimals) {
   if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
   const text = value.toFixed(decimals);
@@ -26,23 +40,38 @@ export function fixed(value, decimals) {
   return Number(text) === 0 ? (0).toFixed(decimals) : text;
 }
 
-/** Distance along the line, m: whole metres stay whole, fractions keep up to two decimals. */
+/**
+ * Distance along the line, m: whole metres stay whole, fractions keep up to two decimals.
+ * @param {unknown} value
+ * @returns {string}
+ */
 export function metres(value) {
   if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
   return String(Number(value.toFixed(2)));
 }
 
-/** Velocities are shown to the metre per second: more digits would claim false precision. */
+/**
+ * Velocities are shown to the metre per second: more digits would claim false precision.
+ * @param {unknown} value
+ * @returns {string}
+ */
 export function velocity(value) {
   return fixed(value, 0);
 }
 
+/** @type {Readonly<Record<string, string>>} */
 const COVERAGE_WORDS = {
   pair: 'opposing shots',
   phantom: 'phantomed',
   none: 'none',
 };
 
+/**
+ * How a station's plus time was found, in words; with more than one opposing pair, how many.
+ * @param {string | null | undefined} coverage
+ * @param {number | null} [pairCount]
+ * @returns {string}
+ */
 export function coverageWords(coverage, pairCount) {
   if (!coverage) return DASH;
   const words = COVERAGE_WORDS[coverage] ?? String(coverage);
@@ -50,6 +79,16 @@ export function coverageWords(coverage, pairCount) {
   return words;
 }
 
+/**
+ * What describePath reads from a survey the page parsed itself (not validated, so every part
+ * may be missing).
+ * @typedef {{ shots?: ({ id?: unknown } | null | undefined)[] } | null} SurveyNames
+ */
+
+/**
+ * @param {string} indexText
+ * @returns {string}
+ */
 function ordinalPosition(indexText) {
   return String(Number(indexText) + 1);
 }
@@ -58,6 +97,9 @@ function ordinalPosition(indexText) {
  * Plain words for a JSON pointer into the survey document, e.g. "/shots/2/times/7" →
  * "shot 3 (“W-end”), pick at geophone 8". The survey, when known, lends shot names.
  * Unknown shapes come back as the pointer itself.
+ * @param {unknown} path
+ * @param {SurveyNames} [survey]
+ * @returns {string}
  */
 export function describePath(path, survey) {
   if (typeof path !== 'string' || path === '' || path === '/') return 'the whole file';
@@ -85,7 +127,11 @@ export function describePath(path, survey) {
   return path;
 }
 
-/** The line name a pick table carries in its leading "# name: …" comment, or ''. */
+/**
+ * The line name a pick table carries in its leading "# name: …" comment, or ''.
+ * @param {string} text
+ * @returns {string}
+ */
 export function pickTableName(text) {
   for (const line of String(text).split(/\r?\n/, 20)) {
     const trimmed = line.replace(/^\uFEFF/, '').trim();
@@ -96,7 +142,11 @@ export function pickTableName(text) {
   return '';
 }
 
-/** A readable local date and time for an ISO timestamp, or the text itself when unreadable. */
+/**
+ * A readable local date and time for an ISO timestamp, or the text itself when unreadable.
+ * @param {unknown} isoText
+ * @returns {string}
+ */
 export function when(isoText) {
   if (typeof isoText !== 'string') return '';
   const date = new Date(isoText);
@@ -104,7 +154,11 @@ export function when(isoText) {
   return date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
 }
 
-/** A file-name-safe stem for downloads, from the line's name. */
+/**
+ * A file-name-safe stem for downloads, from the line's name.
+ * @param {unknown} name
+ * @returns {string}
+ */
 export function fileStem(name) {
   const stem = String(name ?? '')
     .toLowerCase()

@@ -1,9 +1,25 @@
 // Builds the parts of the page from an interpretation. Text goes in through textContent
 // only: names, messages and numbers come from files the page does not control.
 
-import { coverageWords, describePath, fixed, metres, velocity } from './describe.js';
+import { describePath, fixed, metres, velocity } from './describe.js';
+import { cellText, stationColumns } from './station-columns.js';
 
-/** Creates an element with optional class and text. */
+/**
+ * @typedef {import('../engine/output/interpretation.js').Interpretation} Interpretation
+ * @typedef {import('../engine/output/interpretation.js').Station} Station
+ * @typedef {import('../engine/output/interpretation.js').Warning} Warning
+ * @typedef {import('./api.js').Failure} Failure
+ * @typedef {import('./describe.js').SurveyNames} SurveyNames
+ */
+
+/**
+ * Creates an element with optional class and text; typed by its tag, as createElement is.
+ * @template {keyof HTMLElementTagNameMap} K
+ * @param {K} tag
+ * @param {string} [className]
+ * @param {unknown} [text]
+ * @returns {HTMLElementTagNameMap[K]}
+ */
 export function el(tag, className, text) {
   const node = document.createElement(tag);
   if (className) node.className = className;
@@ -12,40 +28,19 @@ export function el(tag, className, text) {
 }
 
 /**
- * The station table columns: heading, unit, and how to read the cell from a station.
- * A second-refractor column appears only for three-layer interpretations.
+ * Fills the station table: one row per geophone, in order. The columns, their units and
+ * decimals come from station-columns.js, the same list the share page and stations.csv use.
+ * @param {HTMLTableRowElement} headRow
+ * @param {HTMLTableSectionElement} body
+ * @param {readonly Station[]} stations
  */
-function stationColumns(stations) {
-  const hasSecondRefractor = stations.some((s) => Array.isArray(s.depths) && s.depths.length > 1);
-  const hasUncertainty = stations.some((s) => typeof s.depthUncertainty === 'number');
-  const columns = [
-    { key: 'x', heading: 'x', unit: 'm', cell: (s) => metres(s.x) },
-    { key: 'elevation', heading: 'Elevation', unit: 'm', cell: (s) => fixed(s.elevation, 2) },
-    { key: 'delayTime', heading: 'Delay time', unit: 'ms', cell: (s) => fixed(s.delayTime, 2) },
-    { key: 'depth', heading: 'Depth', unit: 'm', cell: (s) => fixed(s.depth, 1) },
-  ];
-  if (hasUncertainty) {
-    columns.push({ key: 'depthUncertainty', heading: '± depth', unit: 'm', cell: (s) => fixed(s.depthUncertainty, 1) });
-  }
-  columns.push({ key: 'refractorElevation', heading: 'Refractor elevation', unit: 'm', cell: (s) => fixed(s.refractorElevation, 1) });
-  if (hasSecondRefractor) {
-    columns.push({ key: 'depth2', heading: 'Depth to 2nd refractor', unit: 'm', cell: (s) => fixed(s.depths?.[1], 1) });
-  }
-  columns.push(
-    { key: 'v1', heading: 'V1', unit: 'm/s', cell: (s) => velocity(s.v1) },
-    { key: 'refractorVelocity', heading: 'Refractor velocity', unit: 'm/s', cell: (s) => velocity(s.refractorVelocity) },
-    { key: 'coverage', heading: 'Coverage', unit: '', cell: (s) => coverageWords(s.coverage, s.pairCount), text: true },
-  );
-  return columns;
-}
-
-/** Fills the station table: one row per geophone, in order. */
 export function renderStationTable(headRow, body, stations) {
   const columns = stationColumns(stations);
   headRow.replaceChildren(...columns.map((c) => {
-    const th = el('th', c.text ? 'text' : 'num');
+    const th = el('th', c.decimals === null ? 'text' : 'num');
     th.scope = 'col';
-    th.append(el('span', 'col-name', c.heading));
+    th.dataset.column = c.key;
+    th.append(el('span', 'col-name', c.label));
     if (c.unit) th.append(el('span', 'col-unit', c.unit));
     return th;
   }));
@@ -53,7 +48,7 @@ export function renderStationTable(headRow, body, stations) {
     const row = el('tr');
     if (station.coverage === 'none' || station.depth === null) row.className = 'no-coverage';
     columns.forEach((c, i) => {
-      const cell = el(i === 0 ? 'th' : 'td', c.text ? 'text' : 'num', c.cell(station));
+      const cell = el(i === 0 ? 'th' : 'td', c.decimals === null ? 'text' : 'num', cellText(c, station));
       if (i === 0) cell.scope = 'row';
       row.append(cell);
     });
@@ -61,15 +56,26 @@ export function renderStationTable(headRow, body, stations) {
   }));
 }
 
+/**
+ * @param {HTMLElement} list
+ * @param {string} name
+ * @param {string} value
+ */
 function term(list, name, value) {
   list.append(el('dt', '', name), el('dd', '', value));
 }
 
-/** Plain-words summary of layers, dip, steps, reciprocal checks and residuals. */
+/** @type {Readonly<Record<string, string>>} */
+const METHOD_NAMES = { 'plus-minus': 'plus-minus', grm: 'generalised reciprocal method', 'time-term': 'time-term least squares' };
+
+/**
+ * Plain-words summary of layers, dip, steps, reciprocal checks and residuals.
+ * @param {HTMLElement} list
+ * @param {Interpretation} interpretation
+ */
 export function renderSummary(list, interpretation) {
   list.replaceChildren();
-  const methodNames = { 'plus-minus': 'plus-minus', grm: 'generalised reciprocal method', 'time-term': 'time-term least squares' };
-  if (interpretation.method) term(list, 'Method', methodNames[interpretation.method] ?? String(interpretation.method));
+  if (interpretation.method) term(list, 'Method', METHOD_NAMES[interpretation.method] ?? String(interpretation.method));
 
   const layers = Array.isArray(interpretation.layers) ? interpretation.layers : [];
   if (layers.length) {
@@ -118,7 +124,12 @@ export function renderSummary(list, interpretation) {
   }
 }
 
-/** Lists qc.warnings; hides the box when there are none. */
+/**
+ * Lists qc.warnings; hides the box when there are none.
+ * @param {HTMLElement} box
+ * @param {HTMLElement} list
+ * @param {readonly Warning[] | undefined} warnings
+ */
 export function renderWarnings(box, list, warnings) {
   const items = Array.isArray(warnings) ? warnings : [];
   list.replaceChildren(...items.map((w) => {
@@ -133,6 +144,9 @@ export function renderWarnings(box, list, warnings) {
 /**
  * Shows a failed request: the message, then every problem with where it is, in plain
  * words and as the JSON path the service gave.
+ * @param {HTMLElement} box
+ * @param {Pick<Failure, 'message' | 'path' | 'problems'>} failure
+ * @param {SurveyNames} [survey]
  */
 export function renderFailure(box, failure, survey) {
   box.replaceChildren();
@@ -160,10 +174,13 @@ export function renderFailure(box, failure, survey) {
 /**
  * Marks the figures section as a preview of a line that is not stored (dashed frames, the
  * "Not stored — preview" note and caption tags), or as the stored line's figures.
+ * @param {HTMLElement} figures
+ * @param {boolean} preview
  */
 export function markFiguresAsPreview(figures, preview) {
   figures.classList.toggle('preview', preview);
   for (const mark of figures.querySelectorAll('.preview-note, .preview-tag')) {
+    if (!(mark instanceof HTMLElement)) continue;
     // Tags inside the note follow the note itself.
     if (mark.parentElement?.classList.contains('preview-note')) continue;
     mark.hidden = !preview;

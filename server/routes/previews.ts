@@ -1,14 +1,21 @@
 /**
- * POST /api/v1/previews/section.svg and POST /api/v1/previews/traveltimes.svg — the depth
- * section and the time–distance plot of a line that is not stored. The body is the same as
- * for POST /api/v1/interpretations (a survey as JSON, or a pick table as text/csv) and goes
+ * Drawings of a line that is not stored. The body is the same as for
+ * POST /api/v1/interpretations (a survey as JSON, or a pick table as text/csv) and goes
  * through the same door (surveyFromRequest), so a bad line answers the same coded 400 and an
- * oversized one 413. Stores nothing, so like the interpretation route it needs no write
- * token; the SVG gets the same script-free Content-Security-Policy as the stored drawings
- * (security-headers.ts chooses it from the image/svg+xml content type).
+ * oversized one 413. Nothing is stored, so like the interpretation route these need no write
+ * token.
  *
- * Why a route per figure rather than one JSON answer with both: the page shows each figure
- * in an <img>, and an SVG document in an image runs no script and needs no escaping.
+ * - POST /api/v1/previews — interprets once and answers
+ *   `{interpretation, sectionSvg, travelTimesSvg}`: what the page shows after Interpret.
+ *   One interpretation (with its forward check) instead of three, and the JSON and the
+ *   drawings cannot disagree because they come from the same object.
+ * - POST /api/v1/previews/section.svg and /traveltimes.svg — one figure as an SVG document,
+ *   kept for scripts that fetch a single drawing. These get the same script-free
+ *   Content-Security-Policy as the stored drawings (security-headers.ts chooses it from the
+ *   image/svg+xml content type).
+ *
+ * The SVG text inside the JSON is never parsed into the page: the page wraps it in an
+ * image/svg+xml Blob and shows it in an <img>, where an SVG runs no script.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { surveyFromRequest } from '../survey-input.js';
@@ -28,6 +35,13 @@ function svgReply(reply: FastifyReply, svg: string): string {
 }
 
 export async function previewRoutes(app: FastifyInstance): Promise<void> {
+  // One interpretation and both drawings from it, in one worker task (compute/tasks.ts).
+  app.post('/api/v1/previews', async (request, reply) => {
+    const survey = surveyFromRequest(request);
+    const bundle = await app.compute.run('preview', { survey }, clientGone(reply));
+    reply.header('Cache-Control', 'no-store');
+    return bundle;
+  });
   for (const { path, figure } of PREVIEWS) {
     app.post(path, async (request, reply) => {
       const survey = surveyFromRequest(request);

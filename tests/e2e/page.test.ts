@@ -112,17 +112,31 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await page.setInputFiles('#file-input', join(SAMPLES_DIR, 'flat-line.csv'));
     await expect.poll(() => page.textContent('#format-name'), POLL).toContain('CSV');
 
-    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
-    const previewed = Promise.all(['section', 'traveltimes'].map((figure) =>
-      page.waitForResponse((r) => r.url().endsWith(`/api/v1/previews/${figure}.svg`) && r.request().method() === 'POST')));
+    // Keeps every Blob the page turns into a URL, to compare the images with the answer (the
+    // page's CSP forbids reading blob: URLs back, rightly).
+    await page.evaluate(() => {
+      const made = new Map<string, Blob>();
+      (window as unknown as { __blobsMade: Map<string, Blob> }).__blobsMade = made;
+      const original = URL.createObjectURL.bind(URL);
+      URL.createObjectURL = (object: Blob | MediaSource) => {
+        const url = original(object);
+        if (object instanceof Blob) made.set(url, object);
+        return url;
+      };
+    });
+    // Every request the page sends to the API from the click on: one click, one request.
+    const apiRequests: string[] = [];
+    page.on('request', (r) => {
+      if (new URL(r.url()).pathname.startsWith('/api/')) apiRequests.push(`${r.method()} ${new URL(r.url()).pathname}`);
+    });
+    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/previews') && r.request().method() === 'POST');
     await page.click('#interpret-button');
     const response = await interpreted;
     expect(response.status()).toBe(200);
-    const interpretation = (await response.json()) as { stations: { x: number }[] };
-    for (const preview of await previewed) {
-      expect(preview.status(), preview.url()).toBe(200);
-      expect(preview.headers()['content-type']).toMatch(/^image\/svg\+xml/);
-    }
+    const bundle = (await response.json()) as { interpretation: { stations: { x: number }[] }; sectionSvg: string; travelTimesSvg: string };
+    const { interpretation } = bundle;
+    expect(bundle.sectionSvg).toContain('<svg');
+    expect(bundle.travelTimesSvg).toContain('<svg');
 
     // One row per geophone, in order, with the geophone's x in the first column.
     const rows = page.locator('#station-body tr');
@@ -139,6 +153,17 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     const previewSrcs = [await page.getAttribute('#section-image', 'src'), await page.getAttribute('#traveltimes-image', 'src')];
     for (const src of previewSrcs) expect(src).toMatch(/^blob:/);
     expect(previewSrcs[0]).not.toBe(previewSrcs[1]);
+    // The images show exactly the SVG text of that one answer.
+    const shownSvgs = await page.evaluate(async (urls) => Promise.all(urls.map(async (url) => {
+      const blob = (window as unknown as { __blobsMade: Map<string, Blob> }).__blobsMade.get(url ?? '');
+      return blob ? { type: blob.type, text: await blob.text() } : null;
+    })), previewSrcs);
+    expect(shownSvgs).toEqual([
+      { type: 'image/svg+xml', text: bundle.sectionSvg },
+      { type: 'image/svg+xml', text: bundle.travelTimesSvg },
+    ]);
+    // Table, summary and both figures came from one request: nothing else reached the API.
+    expect(apiRequests).toEqual(['POST /api/v1/previews']);
     expect(await page.isVisible('#preview-note')).toBe(true);
     expect(await page.textContent('#preview-note')).toContain('Not stored — preview');
     const captionTags = page.locator('#figures figcaption .preview-tag');
@@ -205,6 +230,21 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
       return inline + images + objects;
     });
     expect(drawnSvgs).toBeGreaterThan(0);
+    // The share page's station table and the page's show the same columns, units and digits
+    // (both from web/station-columns.js).
+    const pageTable = await page.evaluate(() => ({
+      head: Array.from(document.querySelectorAll('#station-head th')).map((th) => {
+        const unit = th.querySelector('.col-unit')?.textContent;
+        return th.querySelector('.col-name')?.textContent + (unit ? ` (${unit})` : '');
+      }),
+      rows: Array.from(document.querySelectorAll('#station-body tr')).map((tr) => Array.from(tr.children).map((cell) => cell.textContent)),
+    }));
+    const shareTable = await sharePage.evaluate(() => ({
+      head: Array.from(document.querySelectorAll('table thead th')).map((th) => th.textContent),
+      rows: Array.from(document.querySelectorAll('table tbody tr')).map((tr) => Array.from(tr.children).map((cell) => cell.textContent)),
+    }));
+    expect(pageTable.rows).toHaveLength(flat.geophones.length);
+    expect(shareTable).toEqual(pageTable);
     await sharePage.screenshot({ path: join(SCREENSHOTS, 'share-page.png'), fullPage: true });
     expectNoTrouble(shareTrouble);
     await colleague.close();
@@ -221,7 +261,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await page.fill('#survey-text', JSON.stringify(bad, null, 2));
     await expect.poll(() => page.textContent('#format-name'), POLL).toContain('JSON');
 
-    const answered = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    const answered = page.waitForResponse((r) => r.url().endsWith('/api/v1/previews'));
     await page.click('#interpret-button');
     const response = await answered;
     expect(response.status()).toBe(400);
@@ -280,7 +320,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expect(outline.style).not.toBe('none');
     expect(outline.width).toBeGreaterThanOrEqual(2);
     await page.screenshot({ path: join(SCREENSHOTS, 'keyboard-focus.png') });
-    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/interpretations'));
+    const interpreted = page.waitForResponse((r) => r.url().endsWith('/api/v1/previews'));
     await page.keyboard.press('Enter');
     expect((await interpreted).status()).toBe(200);
     // The page now shows the unsaved interpretation (not the stored line it opened on load).

@@ -36,13 +36,13 @@ describe('stationsCsv', () => {
         if (value === null) expect(cell).toBe('');
         else expect(Number(cell)).toBeCloseTo(value, 3);
       }
-      const firstDepth = rows[i + 1][header.indexOf('depth_to_refractor_1_m')];
-      if (station.depths[0] === null || station.depths[0] === undefined) expect(firstDepth).toBe('');
-      else expect(Number(firstDepth)).toBeCloseTo(station.depths[0], 3);
+      // The first refractor's depth is the depth_m column; the file has no copy of it.
+      expect(station.depths[0] ?? null).toBe(station.depth);
     });
+    expect(header).not.toContain('depth_to_refractor_1_m');
   });
 
-  it('leaves null cells empty, spreads depths per refractor and keeps fields the engine adds later', () => {
+  it('leaves null cells empty, gives deeper refractors their own columns and keeps fields the engine adds later', () => {
     const stations = [
       { x: 0, elevation: 10, delayTime: null, depth: null, refractorElevation: null, depths: [null, null], v1: 500, refractorVelocity: null, coverage: 'none' },
       { x: 2.5, elevation: 10.25, delayTime: 4.1234, depth: 3.6, refractorElevation: 6.65, depths: [3.6, 9.1], v1: 500, refractorVelocity: 2400, coverage: 'pair', futureScoreRatio: 0.75 },
@@ -58,8 +58,10 @@ describe('stationsCsv', () => {
     expect(first.delay_time_ms).toBe('');
     expect(first.depth_to_refractor_2_m).toBe('');
     expect(first.future_score_ratio).toBe('');
-    expect(second.delay_time_ms).toBe('4.123');
-    expect(second.depth_to_refractor_2_m).toBe('9.1');
+    // The declared decimals of the column (0.01 ms), as on the page and the share page.
+    expect(second.delay_time_ms).toBe('4.12');
+    expect(second.depth_to_refractor_2_m).toBe('9.10');
+    expect(second.x_m).toBe('2.50');
     expect(second.future_score_ratio).toBe('0.75');
   });
 });

@@ -1,0 +1,72 @@
+// The page's request building and answer reading (web/api.js): everything but fetch itself.
+import { describe, expect, it } from 'vitest';
+import {
+  contentTypeOf, failureFromBody, lineFileUrls, readPreviewBundle, revisionQuery, statusWords, surveyPost,
+} from '../../web/api.js';
+
+describe('request building', () => {
+  it('sends a survey body with its content type, and the token only when there is one', () => {
+    expect(contentTypeOf('json')).toBe('application/json');
+    expect(contentTypeOf('csv')).toBe('text/csv; charset=utf-8');
+    expect(surveyPost('a,b', 'csv')).toEqual({
+      method: 'POST',
+      headers: { 'Content-Type': 'text/csv; charset=utf-8', Accept: 'application/json' },
+      body: 'a,b',
+    });
+    expect(surveyPost('{}', 'json', 'secret').headers.Authorization).toBe('Bearer secret');
+    expect('Authorization' in surveyPost('{}', 'json', '').headers).toBe(false);
+  });
+
+  it('names a revision only when it is a whole number from 1', () => {
+    expect(revisionQuery(3)).toBe('?revision=3');
+    expect(revisionQuery(undefined)).toBe('');
+    expect(revisionQuery(0)).toBe('');
+    expect(revisionQuery(1.5)).toBe('');
+  });
+
+  it('builds relative file URLs with the id encoded', () => {
+    expect(lineFileUrls('a/b c')).toEqual({
+      section: 'api/v1/surveys/a%2Fb%20c/section.svg',
+      travelTimes: 'api/v1/surveys/a%2Fb%20c/traveltimes.svg',
+      stations: 'api/v1/surveys/a%2Fb%20c/stations.csv',
+      interpretation: 'api/v1/surveys/a%2Fb%20c/interpretation.json',
+    });
+    expect(lineFileUrls('id', 2).section).toBe('api/v1/surveys/id/section.svg?revision=2');
+  });
+});
+
+describe('reading answers', () => {
+  it('turns the contract error body into one failure shape, keeping every problem', () => {
+    const failure = failureFromBody(400, {
+      error: { code: 'invalid_survey', message: 'The survey has 2 problems.', path: '/shots/1/times/5' },
+      problems: [{ path: '/shots/1/times/5', code: 'negative-time', message: 'A time is negative.' }, 'junk', { message: 7 }],
+    });
+    expect(failure).toEqual({
+      status: 400,
+      code: 'invalid_survey',
+      message: 'The survey has 2 problems.',
+      path: '/shots/1/times/5',
+      problems: [
+        { path: '/shots/1/times/5', code: 'negative-time', message: 'A time is negative.' },
+        { path: '', code: '', message: '7' },
+      ],
+    });
+  });
+
+  it('puts words to a bare status', () => {
+    expect(failureFromBody(502, null)).toMatchObject({ code: 'http-502', message: statusWords(502), problems: [] });
+    expect(statusWords(401)).toMatch(/write token/);
+    expect(statusWords(413)).toMatch(/too large/);
+    expect(statusWords(404)).toMatch(/not in the store/);
+    expect(failureFromBody(400, { error: { message: '' } }).message).toBe(statusWords(400));
+  });
+
+  it('accepts a preview answer only with an interpretation and both drawings as text', () => {
+    const good = { interpretation: { stations: [] }, sectionSvg: '<svg/>', travelTimesSvg: '<svg/>' };
+    expect(readPreviewBundle(good)).toBe(good);
+    expect(readPreviewBundle({ ...good, sectionSvg: undefined })).toBeNull();
+    expect(readPreviewBundle({ ...good, interpretation: { stations: 'no' } })).toBeNull();
+    expect(readPreviewBundle(null)).toBeNull();
+    expect(readPreviewBundle([good])).toBeNull();
+  });
+});
