@@ -46,7 +46,8 @@ import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Station, Warning } from '../output/interpretation.js';
 import { phantomArrivals, phantomVarianceMs2 } from '../plus-minus/phantom.js';
 import { plusMinus } from '../plus-minus/plus-minus.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, extrapolationAllowanceMs } from '../reciprocal/reciprocal-checks.js';
+import { extrapolationAllowanceMs } from '../reciprocal/reciprocal-checks.js';
+import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import { reciprocalTimeOf, weightedPlusTimes, type ReciprocalReading, type WeightablePair } from '../plus-minus/weighted-plus-times.js';
 import { minusTimeVelocity } from '../velocities/minus-time-velocity.js';
 import { fitLine, type FitPoint } from '../branches/segmented-fit.js';
@@ -163,16 +164,12 @@ function reciprocalReading(survey: Survey, w: OneWayTimes, toX: number): Recipro
   return { timeMs: w.line.interceptMs + (1000 * Math.abs(toX - w.shot.x)) / w.line.velocity, gapM: gaps.length > 0 ? Math.min(...gaps) : 0 };
 }
 
-/** Pick uncertainty σ assumed when the survey gives none, ms (as interpret and reciprocal.ts assume). */
-const DEFAULT_PICK_SIGMA_MS = 0.5;
-
 /** Delay times to refractor k (the top of layer k + 1) and the velocity below it (see the file comment). */
-export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: 1 | 2): RefractorDelays {
+export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: 1 | 2, options: ResolvedOptions = resolveOptions(survey.options)): RefractorDelays {
   const n = survey.geophones.length;
   const xs = survey.geophones.map((g) => g.x);
-  const options = survey.options ?? {};
-  const pickSigmaMs = isNum(options.pickUncertaintyMs) && options.pickUncertaintyMs > 0 ? options.pickUncertaintyMs : DEFAULT_PICK_SIGMA_MS;
-  const toleranceMs = isNum(options.reciprocalToleranceMs) && options.reciprocalToleranceMs >= 0 ? options.reciprocalToleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
+  const pickSigmaMs = options.pickUncertaintyMs;
+  const toleranceMs = options.reciprocalToleranceMs;
   const spacingM = geophoneSpacingM(survey.geophones);
   const toRight = oneWayTimes(survey, shots, 'right', k, pickSigmaMs);
   const toLeft = oneWayTimes(survey, shots, 'left', k, pickSigmaMs);
