@@ -77,17 +77,15 @@ export function interpret(survey: Survey): Interpretation {
   });
   const v2 = layerVelocity(section.segments, xs.filter((_, i) => plus.delayTimeMs[i] !== null)) ?? lineV2.velocity;
 
-  const medianV1 = median1(topLayer.v1MPerS) ?? v1;
-  const medianV2 = median1(section.v2At) ?? v2;
   const verticalDepthM = section.depths.verticalDepthM;
-  const shotX = new Map(shots.map((s) => [s.id, s.x]));
-  const dip = section.steps.length > 0 ? null : lineDip(xs, elevation, verticalDepthM, pairVelocities, shotX, medianV1, medianV2, sigmaMs);
   const dips = refractorDips(
     xs,
     verticalDepthM.map((d, i) => (d === null ? null : elevation[i] - d)),
-    singlePairDepthSigmaM(sigmaMs, medianV1, medianV2),
+    singlePairDepthSigmaM(sigmaMs, median1(topLayer.v1MPerS) ?? v1, median1(section.v2At) ?? v2),
     [...section.steps.map((st) => st.x), ...section.changes.map((c) => c.x)],
   );
+  const depthCount = verticalDepthM.filter((d) => d !== null).length;
+  const dip = lineDip(dips.planar, depthCount, section.steps.length, pairVelocities, new Map(shots.map((s) => [s.id, s.x])));
 
   const warnings = [
     ...methodWarnings(options),
