@@ -21,6 +21,8 @@ import { depthSigmaM } from '../depth/depth-pass.js';
 import type { LocalDip } from '../structure/planar-dip.js';
 import type { LineDip } from '../structure/line-dip.js';
 import type { MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
+import type { DelaySource } from '../depth/refractor-delays.js';
+import type { ThreeLayerSection } from '../depth/second-refractor.js';
 import { roundDeg, roundM, roundMOrNull, roundMs, roundMsOrNull, roundV, roundVOrNull } from './output-decimals.js';
 
 /** Everything the stages found about a line, unrounded: what toInterpretation reads. */
@@ -43,8 +45,14 @@ export interface LineRecord {
   widestMinusMs: (number | null)[];
   dip: LineDip | null;
   localDips: LocalDip[];
+  /** The three-layer stage, when the line has a second refractor (or three layers were asked for). */
+  threeLayer: ThreeLayerSection | null;
+  /** Every warning of the stages, in report order. */
   warnings: Warning[];
 }
+
+/** A station with the three-layer field this method adds (not yet in the declared Station). */
+type ThreeLayerStation = Station & { delaySources?: [DelaySource, DelaySource] };
 
 /** velocityAnalysis.minusTimeVelocity with the fields this method adds. */
 interface MinusTimeVelocityOutput {
@@ -93,7 +101,26 @@ export function toInterpretation(r: LineRecord): Interpretation {
           velocity: roundV(g.velocity),
         }))
       : [];
-  const layers = r.v1 === null ? [] : [r.v1, r.v2].filter((v): v is number => v !== null).map((v) => ({ velocity: roundV(v) }));
+  const twoLayers = r.v1 === null ? [] : [r.v1, r.v2].filter((v): v is number => v !== null).map((v) => ({ velocity: roundV(v) }));
+  const map = r.threeLayer?.map;
+  const v3 = map?.mapped ? map.velocitiesMPerS[2] : null;
+  const layers = map && v3 !== null ? [twoLayers[0], { velocity: roundV(map.velocitiesMPerS[1] as number) }, { velocity: roundV(v3) }] : twoLayers;
+  const threeLayerStations: ThreeLayerStation[] =
+    map && v3 !== null
+      ? stations.map((st, i) => {
+          const [z1, z2] = map.depthM[i];
+          if (z1 === null) return { ...st, depths: [st.depth, null] };
+          const d1 = map.first.delayTimeMs[i];
+          return {
+            ...st,
+            depth: roundM(z1),
+            refractorElevation: roundM(elevation[i] - z1),
+            delayTime: d1 !== null && Number.isFinite(d1) ? roundMs(d1) : st.delayTime,
+            depths: [roundM(z1), roundMOrNull(z2)],
+            delaySources: [map.first.delaySource[i] ?? (st.depth !== null ? 'pair' : null), map.second.delaySource[i]],
+          };
+        })
+      : stations;
 
   const features = {
     steps: section.steps.map((st) => ({
@@ -139,7 +166,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
   return {
     method: 'plus-minus',
     ...(survey.name !== undefined ? { name: survey.name } : {}),
-    stations,
+    stations: threeLayerStations,
     layers,
     refractorVelocity,
     features,

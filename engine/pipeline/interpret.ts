@@ -30,7 +30,7 @@ import { firstRefractorPairs } from '../plus-minus/first-refractor-pairs.js';
 import { refractorPlusTimes, widestPairMinusTimes } from '../plus-minus/refractor-plus-times.js';
 import { firstRefractorSection } from '../depth/first-refractor-section.js';
 import { singlePairDepthSigmaM } from '../depth/depth-pass.js';
-import { withSecondRefractor } from '../depth/second-refractor.js';
+import { secondRefractor } from '../depth/second-refractor.js';
 import { lineDip } from '../structure/line-dip.js';
 import { refractorDips } from '../structure/structure-features.js';
 import { branchWarnings, methodWarnings } from '../qc/input-warnings.js';
@@ -87,7 +87,14 @@ export function interpret(survey: Survey): Interpretation {
   const depthCount = verticalDepthM.filter((d) => d !== null).length;
   const dip = lineDip(dips.planar, depthCount, section.steps.length, pairVelocities, new Map(shots.map((s) => [s.id, s.x])));
 
-  const warnings = [
+  const threeLayer = secondRefractor(
+    survey,
+    shots,
+    { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM },
+    options,
+  );
+
+  const twoLayerWarnings = [
     ...methodWarnings(options),
     ...branchWarnings(v1, shots),
     ...reciprocal.warnings,
@@ -98,7 +105,8 @@ export function interpret(survey: Survey): Interpretation {
     ...coverageWarnings(survey, plus.pairs, phantoms, plus.combined.plusTimeMs),
     ...structureWarnings(section.steps, section.changes, topLayer.lateral),
   ];
-  const twoLayer = toInterpretation({
+  const warnings = [...twoLayerWarnings.filter((w) => !threeLayer?.answers(w)), ...(threeLayer?.warnings ?? [])];
+  const output = toInterpretation({
     survey,
     shots,
     phantoms,
@@ -114,9 +122,10 @@ export function interpret(survey: Survey): Interpretation {
     widestMinusMs: widestPairMinusTimes(plus.pairs, xs.length),
     dip,
     localDips: dips.local,
+    threeLayer,
     warnings,
   });
-  const interpretation = withDataCautions(survey, withSecondRefractor(survey, twoLayer));
+  const interpretation = withDataCautions(survey, output);
   return options.residuals ? withResiduals(survey, interpretation) : interpretation;
 }
 

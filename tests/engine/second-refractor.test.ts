@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { refractorDelays } from '../../engine/depth/second-refractor.js';
+import { refractorDelays } from '../../engine/depth/refractor-delays.js';
 import { flatLine } from '../../engine/samples/demo-lines.js';
 import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/plus-minus/weighted-plus-times.js';
 import type { Survey } from '../../engine/survey/survey.js';
