@@ -29,10 +29,8 @@ import { phantomEndShots, phantomWarnings } from '../plus-minus/end-shot-phantom
 import { firstRefractorPairs } from '../plus-minus/first-refractor-pairs.js';
 import { refractorPlusTimes, widestPairMinusTimes } from '../plus-minus/refractor-plus-times.js';
 import { firstRefractorSection } from '../depth/first-refractor-section.js';
-import { singlePairDepthSigmaM } from '../depth/depth-pass.js';
 import { secondRefractor } from '../depth/second-refractor.js';
-import { lineDip } from '../structure/line-dip.js';
-import { refractorDips } from '../structure/structure-features.js';
+import { sectionDips } from '../structure/line-dip.js';
 import { branchWarnings, methodWarnings } from '../qc/input-warnings.js';
 import { negativeDelayWarnings, plusTimeWarnings } from '../qc/plus-time-warnings.js';
 import { coverageWarnings } from '../qc/coverage-warnings.js';
@@ -41,7 +39,6 @@ import { withDataCautions } from '../qc/data-cautions.js';
 import { withResiduals } from '../qc/residuals.js';
 import { toInterpretation } from '../output/to-interpretation.js';
 import { isFiniteNumber } from '../shared/numbers.js';
-import { median } from 'simple-statistics';
 
 export function interpret(survey: Survey): Interpretation {
   const options = resolveOptions(survey.options);
@@ -78,14 +75,20 @@ export function interpret(survey: Survey): Interpretation {
   const v2 = layerVelocity(section.segments, xs.filter((_, i) => plus.delayTimeMs[i] !== null)) ?? lineV2.velocity;
 
   const verticalDepthM = section.depths.verticalDepthM;
-  const dips = refractorDips(
-    xs,
-    verticalDepthM.map((d, i) => (d === null ? null : elevation[i] - d)),
-    singlePairDepthSigmaM(sigmaMs, median1(topLayer.v1MPerS) ?? v1, median1(section.v2At) ?? v2),
-    [...section.steps.map((st) => st.x), ...section.changes.map((c) => c.x)],
-  );
-  const depthCount = verticalDepthM.filter((d) => d !== null).length;
-  const dip = lineDip(dips.planar, depthCount, section.steps.length, pairVelocities, new Map(shots.map((s) => [s.id, s.x])));
+  const dips = sectionDips({
+    xsM: xs,
+    elevationM: elevation,
+    depthM: verticalDepthM,
+    stepXsM: section.steps.map((st) => st.x),
+    changeXsM: section.changes.map((c) => c.x),
+    v1,
+    v2,
+    v1At: topLayer.v1MPerS,
+    v2At: section.v2At,
+    pickSigmaMs: sigmaMs,
+    pairs: pairVelocities,
+    shots,
+  });
 
   const threeLayer = secondRefractor(
     survey,
@@ -120,7 +123,7 @@ export function interpret(survey: Survey): Interpretation {
     section,
     lineFit: lineV2.fit,
     widestMinusMs: widestPairMinusTimes(plus.pairs, xs.length),
-    dip,
+    dip: dips.dip,
     localDips: dips.local,
     threeLayer,
     warnings,
@@ -129,8 +132,3 @@ export function interpret(survey: Survey): Interpretation {
   return options.residuals ? withResiduals(survey, interpretation) : interpretation;
 }
 
-/** Median of the finite values, or null with none. */
-function median1(values: (number | null)[]): number | null {
-  const finite = values.filter(isFiniteNumber);
-  return finite.length > 0 ? median(finite) : null;
-}
