@@ -52,7 +52,7 @@ interface OneWayTimes {
   side: Side;
   timesMs: (number | null)[];
   phantomed: boolean[];
-  /** Variance of each time, ms²: σ² for a pick, the phantom's variance (engine/phantom.ts) for a phantom. */
+  /** Variance of each time, ms²: σ² for a pick, the phantom's variance (phantom.ts) for a phantom. */
   varianceMs2: (number | null)[];
   /** Branch-k picks of that side as a straight line (least squares), when ≥ 2 picks. */
   line: { velocity: number; interceptMs: number } | null;

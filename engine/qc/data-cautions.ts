@@ -18,7 +18,7 @@
  *    whole line for a plus-minus interpretation.
  *  - deeper-refractor-unreversed: branch assignment saw a faster, deeper branch from one
  *    direction only and kept its picks on the first refractor.
- *  - v2-not-above-v1: interpret.ts already says it when the minus times give V2 ≤ V1; here
+ *  - v2-not-above-v1: velocities/line-refractor-velocity.ts already says it when the minus times give V2 ≤ V1; here
  *    only a station whose own refractor velocity is not above its own V1 adds it, and only
  *    when the line has no such warning yet.
  * A warning whose code interpret (or another step) has already given for the same place is
