@@ -17,7 +17,7 @@
  *     layers are forced, the fit that reaches the second refractor is preferred wherever
  *     a side has picks enough for it.
  *     Every BIC here takes the noise σ as no smaller than the pick uncertainty
- *     (options.pickUncertaintyMs, default 0.5 ms; segmented-fit.ts bicScore): a bend
+ *     (options.pickUncertaintyMs, options.ts; segmented-fit.ts bicScore): a bend
  *     smaller than the picks can resolve is not evidence of another branch.
  *  3. (layer count not forced) a second refractor found on a side must also pass two
  *     tests before it is kept, because topography and lateral velocity changes also bend
@@ -37,6 +37,7 @@
  */
 import { median } from 'simple-statistics';
 import type { BranchOverride, Survey } from '../survey/survey.js';
+import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import type { BranchLine, ShotAnalysis, SideBranches } from '../output/interpretation.js';
 import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
@@ -73,8 +74,6 @@ export const THIRD_LAYER_BIC_MARGIN = 10;
  */
 export const SECOND_REFRACTOR_MIN_CONTRAST = 1.25;
 
-/** Pick uncertainty when the survey gives none, ms (SurveyOptions.pickUncertaintyMs). */
-export const DEFAULT_PICK_UNCERTAINTY_MS = 0.5;
 
 /**
  * Shots closer together than this many geophone spacings cannot tell a break fixed in
@@ -107,11 +106,15 @@ interface Candidate {
   firstBranch: 0 | 1;
 }
 
-export function assignBranches(survey: Survey, opts?: { layers?: 2 | 3 }): ShotAnalysis[] {
-  const forcedLayers = opts?.layers ?? survey.options?.layers;
+/** The options branch assignment reads (options.ts). */
+export type BranchOptions = Pick<ResolvedOptions, 'layers' | 'pickUncertaintyMs' | 'branchOverrides'>;
+
+/** Branches of every shot's picks (see the file comment); `options` default to the survey's own, resolved. */
+export function assignBranches(survey: Survey, options: BranchOptions = resolveOptions(survey.options)): ShotAnalysis[] {
+  const forcedLayers = options.layers ?? undefined;
   const maxSegments: 2 | 3 = forcedLayers === 2 ? 2 : 3;
-  const overrides = survey.options?.branchOverrides ?? [];
-  const noiseFloorMs = pickUncertaintyMs(survey);
+  const overrides = options.branchOverrides;
+  const noiseFloorMs = options.pickUncertaintyMs;
 
   // Pass 1: fit every side that is not overridden.
   const sides = survey.shots.map((_, s) =>
@@ -270,11 +273,6 @@ function relabelFarOffEndSides(choices: (SideChoice | null)[][], picksOf: (s: nu
   );
 }
 
-/** The survey's pick uncertainty, ms (default DEFAULT_PICK_UNCERTAINTY_MS; non-positive or absent values ignored). */
-function pickUncertaintyMs(survey: Survey): number {
-  const u = survey.options?.pickUncertaintyMs;
-  return typeof u === 'number' && Number.isFinite(u) && u > 0 ? u : DEFAULT_PICK_UNCERTAINTY_MS;
-}
 
 /**
  * True when the second-refractor breaks of sides shooting the same way line up in x

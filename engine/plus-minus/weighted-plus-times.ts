@@ -1,14 +1,13 @@
 /**
- * Plus times of several opposing pairs on one refractor combined as the two-layer section
- * combines them (docs/developers/plus-minus.md, steps 4–6), for callers that build their
- * own pairs (the three-layer mapping, engine/second-refractor.ts):
+ * Plus times of several opposing pairs on one refractor combined (docs/developers/plus-minus.md,
+ * steps 4–6); called by the plus-minus core of every refractor (refractor-plus-times.ts):
  *  - variance of a reciprocal time tAB = mean of its readings: each reading σ² at a
  *    geophone, σ²·(1 + (gap/2d)²) when extrapolated a distance gap beyond its picks (d the
  *    geophone spacing; our choice, shaped like the variance of a line extrapolated beyond
  *    its data), Σ v/m² over the m readings, plus (difference/2)² when two readings disagree;
  *  - joint least-squares adjustment of the trusted pairs' tAB (adjustReciprocalTimes,
- *    engine/reciprocal-adjustment.ts);
- *  - inverse-variance mean per geophone (combineWeighted, engine/plus-minus.ts; Bevington &
+ *    reciprocal/reciprocal-adjustment.ts);
+ *  - inverse-variance mean per geophone (combineWeighted, plus-minus.ts; Bevington &
  *    Robinson 2003, ch. 4), trusted pairs first, the others only where no trusted pair reaches.
  * Every pair estimates the same 2·delay at a geophone (Hagedoorn, Geophysical Prospecting 7,
  * 1959). Units: ms, ms², m.

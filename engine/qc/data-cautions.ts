@@ -18,7 +18,7 @@
  *    whole line for a plus-minus interpretation.
  *  - deeper-refractor-unreversed: branch assignment saw a faster, deeper branch from one
  *    direction only and kept its picks on the first refractor.
- *  - v2-not-above-v1: interpret.ts already says it when the minus times give V2 ≤ V1; here
+ *  - v2-not-above-v1: velocities/line-refractor-velocity.ts already says it when the minus times give V2 ≤ V1; here
  *    only a station whose own refractor velocity is not above its own V1 adds it, and only
  *    when the line has no such warning yet.
  * A warning whose code interpret (or another step) has already given for the same place is
@@ -26,7 +26,9 @@
  */
 import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
+import { median } from 'simple-statistics';
 import { hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
+import { isFiniteNumber as isNum } from '../shared/numbers.js';
 
 /** Fewest picks that show a straight branch (two fix a line, a third tests it). Common practice. */
 export const MIN_PICKS_PER_BRANCH = 3;
@@ -36,16 +38,6 @@ export const MIN_PICKS_PER_BRANCH = 3;
  * picks each way. Fewer give neither T+ nor a V2 worth the name. Common practice.
  */
 export const MIN_REFRACTED_PICKS_LINE = 2 * MIN_PICKS_PER_BRANCH;
-
-function isNum(v: number | null | undefined): v is number {
-  return typeof v === 'number' && Number.isFinite(v);
-}
-
-function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
 
 /** Picks of a shot on one side, by branch. */
 function sideBranchCounts(survey: Survey, shot: ShotAnalysis, side: 'left' | 'right'): [number, number, number] {

@@ -16,7 +16,7 @@
  *
  * A pick at a geophone that coincides with its shot (0 ms by definition) is left out.
  * When the overall RMS exceeds RESIDUALS_HIGH_FACTOR × the pick uncertainty
- * (options.pickUncertaintyMs, default 0.5 ms as in interpret), a "residuals-high" warning
+ * (options.pickUncertaintyMs, resolved in options.ts), a "residuals-high" warning
  * names the worst shots. An interpretation with no depths, or with no V1 or V2, gets no
  * residuals and a "residuals-not-computed" warning; this function never throws.
  *
@@ -30,9 +30,9 @@ import { buildVelocityGrid } from '../forward/model.js';
 import { sampleTime, solveFirstArrivals } from '../forward/eikonal.js';
 import { elevationAt } from '../forward/polyline.js';
 import { modelFromInterpretation, residualGridExtent } from '../forward/interpretation-model.js';
-
-/** Pick uncertainty assumed when options.pickUncertaintyMs is absent, ms (interpret's default). */
-export const DEFAULT_PICK_UNCERTAINTY_MS = 0.5;
+import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
+import { roundTo } from '../shared/numbers.js';
+import { roundMs, roundMsOrNull } from '../output/output-decimals.js';
 
 /**
  * Residuals are called high when their RMS exceeds this many pick uncertainties. Common
@@ -141,10 +141,10 @@ export function computeResiduals(survey: Survey, interpretation: Interpretation)
  * The interpretation with residuals attached: a new object whose shots carry `modelledMs`
  * (and `residualMs`), whose qc carries `residuals` {rmsMs, perShot: [{shot, rmsMs}], …},
  * and whose warnings gain "residuals-high" or "residuals-not-computed" when due. With
- * options.residuals === false the interpretation is returned as it is.
+ * options.residuals false (options.ts) the interpretation is returned as it is.
  */
-export function withResiduals(survey: Survey, interpretation: Interpretation): Interpretation {
-  if (survey.options?.residuals === false) return interpretation;
+export function withResiduals(survey: Survey, interpretation: Interpretation, options: ResolvedOptions = resolveOptions(survey.options)): Interpretation {
+  if (!options.residuals) return interpretation;
   const result = computeResiduals(survey, interpretation);
   const warnings: Warning[] = [...interpretation.qc.warnings];
   if (!result.ok) {
@@ -172,7 +172,7 @@ export function withResiduals(survey: Survey, interpretation: Interpretation): I
     });
     return { ...interpretation, shots, qc: { ...interpretation.qc, warnings } };
   }
-  const uncertaintyMs = pickUncertaintyOf(survey);
+  const uncertaintyMs = options.pickUncertaintyMs;
   const limitMs = RESIDUALS_HIGH_FACTOR * uncertaintyMs;
   if (result.rmsMs > limitMs) warnings.push(residualsHighWarning(result, uncertaintyMs, limitMs));
   return {
@@ -226,17 +226,4 @@ function shotSourceElevation(
   return Math.min(z, ground);
 }
 
-function pickUncertaintyOf(survey: Survey): number {
-  const u = survey.options?.pickUncertaintyMs;
-  return typeof u === 'number' && Number.isFinite(u) && u > 0 ? u : DEFAULT_PICK_UNCERTAINTY_MS;
-}
-
-function roundTo(value: number, decimals: number): number {
-  const f = 10 ** decimals;
-  const r = Math.round(value * f) / f;
-  return r === 0 ? 0 : r;
-}
-/** 0.01 ms, as interpret rounds times (OUTPUT_DECIMALS). */
-const roundMs = (v: number): number => roundTo(v, 2);
-const roundMsOrNull = (v: number | null): number | null => (v === null ? null : roundMs(v));
 const fmtMs = (v: number): string => v.toFixed(2);

@@ -20,9 +20,7 @@ import type { Survey } from '../survey/survey.js';
 import type { ReciprocalCheck, ShotAnalysis, Warning } from '../output/interpretation.js';
 import { geophoneSpacingM } from '../branches/shot-geometry.js';
 import { timeOnBranchMs } from '../branches/branch-line.js';
-
-/** Default tolerance between reciprocal times, ms — common practice ("a few ms"). */
-export const DEFAULT_RECIPROCAL_TOLERANCE_MS = 3;
+import type { ResolvedOptions } from '../survey/options.js';
 
 /** A geophone counts as "at" a shot when within this fraction of the spacing. */
 const AT_SHOT_FRACTION_OF_SPACING = 0.25;
@@ -104,9 +102,6 @@ function localExtrapolationMs(
  */
 export const VERIFIABLE_GAP_SPACINGS = 2;
 
-/** Pick uncertainty assumed when the survey gives none, ms (as interpret assumes). */
-const DEFAULT_PICK_SIGMA_MS = 0.5;
-
 /**
  * Extra tolerance for readings extrapolated far beyond their picks: two standard errors of
  * a line extrapolated a distance gap, taken as σ·gap/(2d) per long reading (d the geophone
@@ -129,15 +124,19 @@ function longReadingNote(aId: string, bId: string, forwardGapM: number, reverseG
   return ` The time of ${who} at ${where}'s position is extrapolated ${ms(gap)} m beyond its picks, which can add to such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
 }
 
+/**
+ * Every opposing pair's reciprocal check, with the tolerance and pick uncertainty of the
+ * resolved options (options.ts). Cost: O(shots² · geophones log geophones).
+ */
 export function reciprocalChecks(
   survey: Survey,
   shots: ShotAnalysis[],
-  toleranceMs: number,
+  options: Pick<ResolvedOptions, 'reciprocalToleranceMs' | 'pickUncertaintyMs'>,
 ): { checks: ReciprocalCheck[]; warnings: Warning[] } {
-  const tolerance = Number.isFinite(toleranceMs) && toleranceMs >= 0 ? toleranceMs : DEFAULT_RECIPROCAL_TOLERANCE_MS;
+  const tolerance = options.reciprocalToleranceMs;
   const byX = [...shots].sort((a, b) => a.x - b.x);
   const spacingM = geophoneSpacingM(survey.geophones);
-  const pickSigmaMs = survey.options?.pickUncertaintyMs ?? DEFAULT_PICK_SIGMA_MS;
+  const pickSigmaMs = options.pickUncertaintyMs;
   const checks: ReciprocalCheck[] = [];
   const warnings: Warning[] = [];
   for (let i = 0; i < byX.length; i++) {

@@ -12,6 +12,7 @@
  */
 import { firstArrivalMs, type PlanarRefractorModel, type SurfacePoint } from '../forward/planar-refractor.js';
 import type { Survey } from '../survey/survey.js';
+import { roundTo } from '../shared/numbers.js';
 
 /** A demo line's model: the refractor, the ground and the layout that made its picks. */
 export interface DemoLineModel {
@@ -20,13 +21,6 @@ export interface DemoLineModel {
   groundElevationM: (xM: number) => number;
   geophoneXsM: number[];
   shots: { id: string; xM: number }[];
-}
-
-/** Rounds to a number of decimals, giving the shortest decimal the value prints as. */
-function roundTo(value: number, decimals: number): number {
-  const f = 10 ** decimals;
-  const r = Math.round(value * f) / f;
-  return r === 0 ? 0 : r; // never -0: it would not survive a round trip through text
 }
 
 function geophoneXs(count: number, spacingM: number): number[] {

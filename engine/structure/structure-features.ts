@@ -1,5 +1,5 @@
 /**
- * Structure under the line, for the plus-minus pipeline (engine/interpret.ts): the glue
+ * Structure under the line, for the plus-minus pipeline (engine/pipeline/interpret.ts): the glue
  * between the combined plus and minus times and the pure detectors of engine/structure/.
  *
  *  - steps: vertical jumps in the delay-time profile (findDelayTimeSteps) and in single

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { resolveOptions } from '../../engine/survey/options.js';
 import {
   assignBranches,
   breaksFixedInX,
@@ -67,7 +68,7 @@ describe('a lateral change of refractor velocity is not a second refractor (eiko
   });
 
   it('forced to three layers, the shots shooting east break at the same x with a contrast above the threshold', () => {
-    const forced = assignBranches(survey, { layers: 3 });
+    const forced = assignBranches(survey, { ...resolveOptions(survey.options), layers: 3 });
     const breaks = forced
       .filter((s) => s.right && s.right.refracted.length === 2)
       .map((s) => {

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { resolveOptions } from '../../engine/survey/options.js';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import type { Geophone, Survey } from '../../engine/survey/survey.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
@@ -78,7 +79,7 @@ describe('three-layer branch split (closed-form flat layers, Kearey, Brooks & Hi
 
   it('keeps two layers when two are forced', () => {
     const s = survey();
-    const shots = assignBranches(s, { layers: 2 });
+    const shots = assignBranches(s, { ...resolveOptions(s.options), layers: 2 });
     for (const shot of shots) expect(shot.branchOfPick.includes(2)).toBe(false);
     expect(shots[0].right!.refracted).toHaveLength(1);
   });

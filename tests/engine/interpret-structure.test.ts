@@ -12,6 +12,7 @@ import { mergePhantoms, phantomVarianceMs2 } from '../../engine/plus-minus/phant
 import { localTopLayerVelocities } from '../../engine/velocities/lateral-v1.js';
 import { bendZones, joinMaskedMinusTimes, mergeZones, stepFromRampCentreM } from '../../engine/structure/structure-features.js';
 import { reciprocalChecks } from '../../engine/reciprocal/reciprocal-checks.js';
+import { resolveOptions } from '../../engine/survey/options.js';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { headWaveTimeMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
 import { fiveShotLayout, planarSurvey } from '../helpers/planar-survey.js';
@@ -140,7 +141,7 @@ describe('local reciprocal readings', () => {
     const survey = planarSurvey(model, fiveShotLayout());
     const shots = assignBranches(survey);
     const east = survey.shots.find((s) => s.id === 'E-end')!;
-    const check = reciprocalChecks(survey, shots, 3).checks.find((c) => c.shots[0] === 'W-end' && c.shots[1] === 'E-end')!;
+    const check = reciprocalChecks(survey, shots, resolveOptions(survey.options)).checks.find((c) => c.shots[0] === 'W-end' && c.shots[1] === 'E-end')!;
     expect(check.forwardSource).toBe('extrapolated');
     const t = check.forwardMs;
     const wShot = survey.shots.find((s) => s.id === 'W-end')!;

@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
-import { DEFAULT_RECIPROCAL_TOLERANCE_MS, reciprocalChecks } from '../../engine/reciprocal/reciprocal-checks.js';
+import { reciprocalChecks } from '../../engine/reciprocal/reciprocal-checks.js';
+import { resolveOptions } from '../../engine/survey/options.js';
+
+/** The resolved default options with another reciprocal tolerance, ms. */
+const tolerance = (ms: number) => ({ ...resolveOptions(undefined), reciprocalToleranceMs: ms });
 import { firstArrivalMs, type PlanarRefractorModel } from '../../engine/forward/planar-refractor.js';
 import type { Geophone, Survey } from '../../engine/survey/survey.js';
 
@@ -26,7 +30,7 @@ describe('reciprocalChecks', () => {
       ['W-end', 0],
       ['E-end', 46],
     ]);
-    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 3);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(3));
     expect(checks).toHaveLength(1);
     const c = checks[0];
     expect(c.shots).toEqual(['W-end', 'E-end']);
@@ -47,7 +51,7 @@ describe('reciprocalChecks', () => {
       ['E-end', 47],
       ['E-off', 66],
     ]);
-    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), DEFAULT_RECIPROCAL_TOLERANCE_MS);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), resolveOptions(undefined));
     const pair = checks.find((c) => c.shots.join() === 'W-off,E-off')!;
     expect(pair.forwardSource).toBe('extrapolated');
     expect(pair.reverseSource).toBe('extrapolated');
@@ -68,7 +72,7 @@ describe('reciprocalChecks', () => {
       ['E-end', 46],
     ]);
     s.shots[0].times[23] = s.shots[0].times[23]! + 5;
-    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), DEFAULT_RECIPROCAL_TOLERANCE_MS);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), resolveOptions(undefined));
     expect(checks[0].differenceMs).toBeCloseTo(5, 9);
     expect(checks[0].ok).toBe(false);
     expect(warnings).toHaveLength(1);
@@ -84,13 +88,26 @@ describe('reciprocalChecks', () => {
       ['E-end', 46],
     ]);
     s.shots[0].times[23] = s.shots[0].times[23]! + 5;
-    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 6);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(6));
     expect(checks[0].ok).toBe(true);
     expect(warnings).toEqual([]);
   });
 
-  it('uses 3 ms (common practice) as the default tolerance', () => {
-    expect(DEFAULT_RECIPROCAL_TOLERANCE_MS).toBe(3);
+  it('without a tolerance option, passes opposing shots that agree within 3 ms and flags those that do not', () => {
+    const shifted = (ms: number): Survey => {
+      const s = survey([
+        ['W-end', 0],
+        ['E-end', 46],
+      ]);
+      s.shots[0].times[23] = s.shots[0].times[23]! + ms;
+      return s;
+    };
+    const within = shifted(2.5);
+    const beyond = shifted(3.5);
+    expect(reciprocalChecks(within, assignBranches(within), resolveOptions(within.options)).checks[0].ok).toBe(true);
+    const flagged = reciprocalChecks(beyond, assignBranches(beyond), resolveOptions(beyond.options));
+    expect(flagged.checks[0].ok).toBe(false);
+    expect(flagged.warnings.map((w) => w.code)).toEqual(['reciprocal-misfit']);
   });
 
   it('falls back to the refracted branch when the pick at the other shot is missing', () => {
@@ -99,7 +116,7 @@ describe('reciprocalChecks', () => {
       ['E-end', 46],
     ]);
     s.shots[0].times[23] = null;
-    const { checks } = reciprocalChecks(s, assignBranches(s), 3);
+    const { checks } = reciprocalChecks(s, assignBranches(s), tolerance(3));
     expect(checks[0].forwardSource).toBe('extrapolated');
     expect(checks[0].differenceMs).toBeLessThan(1e-6);
   });
@@ -112,7 +129,7 @@ describe('reciprocalChecks', () => {
       ['b', 5],
     ]);
     for (const shot of s.shots) shot.times = shot.times.map((t, i) => (i <= 3 ? t : null));
-    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), 3);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(3));
     expect(checks).toEqual([]);
     expect(warnings).toHaveLength(1);
     expect(warnings[0].code).toBe('reciprocal-unavailable');
@@ -134,10 +151,10 @@ describe('reciprocalChecks: local readings', () => {
         { id: 'E-end', x: 47, times: geophones.map((g) => 5 + (47 - g.x) / 2.4) },
       ],
     };
-    const shots = assignBranches(s, { layers: 2 });
+    const shots = assignBranches(s, { ...resolveOptions(undefined), layers: 2 });
     // Make every pick of both shots refracted so the rule under test is the only one at work.
     for (const shot of shots) shot.branchOfPick = shot.branchOfPick.map((b) => (b === null ? null : 1));
-    const check = reciprocalChecks(s, shots, 3).checks[0];
+    const check = reciprocalChecks(s, shots, tolerance(3)).checks[0];
     expect(check.forwardSource).toBe('extrapolated');
     expect(check.forwardGapM).toBeCloseTo(1, 9);
     // The exact value lies between the local tangent and the curve; a least-squares line
@@ -165,12 +182,12 @@ describe('reciprocalChecks: local readings', () => {
       ...s,
       shots: s.shots.map((shot) => (shot.id === 'E-off' ? { ...shot, times: shot.times.map((t) => (t === null ? null : t + ms)) } : shot)),
     });
-    const small = reciprocalChecks(late(5), assignBranches(late(5), { layers: 2 }), 3);
+    const small = reciprocalChecks(late(5), assignBranches(late(5), { ...resolveOptions(undefined), layers: 2 }), tolerance(3));
     const far = small.checks.find((c) => c.shots.join() === 'W-off,E-off')!;
     expect(far.extrapolationAllowanceMs).toBeCloseTo(15, 6);
     expect(far.ok).toBe(true);
     // …but a 20 ms error is beyond tolerance + allowance, and the warning names the long reading.
-    const big = reciprocalChecks(late(20), assignBranches(late(20), { layers: 2 }), 3);
+    const big = reciprocalChecks(late(20), assignBranches(late(20), { ...resolveOptions(undefined), layers: 2 }), tolerance(3));
     const misfit = big.warnings.find((w) => w.code === 'reciprocal-misfit' && w.message.includes('W-end and E-off'));
     expect(misfit?.message).toContain("W-end at E-off's position is extrapolated 30.0 m");
     expect(big.checks.find((c) => c.shots.join() === 'W-end,E-end')!.ok).toBe(true);

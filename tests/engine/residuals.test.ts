@@ -33,7 +33,12 @@ describe('withResiduals through interpret', () => {
     expect(r.perShot.map((p) => p.shot)).toEqual(flat.shots.map((s) => s.id));
     // Picks rounded to 0.1 ms scatter by 0.1/√12 ≈ 0.03 ms about the exact times.
     expect(r.rmsMs).toBeLessThan(0.1);
-    for (const p of r.perShot) expect(p.rmsMs).toBeGreaterThanOrEqual(0);
+    // Each shot's RMS is that of its own residuals (rounded to 0.01 ms, so within 0.01 ms).
+    for (const p of r.perShot) {
+      const shot = flatResult.shots.find((s) => s.id === p.shot) as (typeof flatResult.shots)[number] & { residualMs: (number | null)[] };
+      const own = shot.residualMs.filter((v): v is number => v !== null);
+      expect(Math.abs(p.rmsMs - Math.sqrt(own.reduce((sum, v) => sum + v * v, 0) / own.length))).toBeLessThanOrEqual(0.01);
+    }
     expect(flatResult.qc.warnings.map((w) => w.code)).not.toContain('residuals-high');
   });
 

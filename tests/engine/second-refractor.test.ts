@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { assignBranches } from '../../engine/branches/assign-branches.js';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { refractorDelays } from '../../engine/depth/second-refractor.js';
+import { refractorDelays } from '../../engine/depth/refractor-delays.js';
 import { flatLine } from '../../engine/samples/demo-lines.js';
 import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/plus-minus/weighted-plus-times.js';
 import type { Survey } from '../../engine/survey/survey.js';
@@ -99,6 +99,21 @@ describe('the second refractor in interpret', () => {
       expect(st.depths[0]).toBeCloseTo(H[0], 1);
       expect(st.depths[1]).toBeCloseTo(H[0] + H[1], 1);
     }
+  });
+
+  it('rounds the three-layer stations once, to the output table (0.01 m, 0.01 ms), and keeps refractorElevation = elevation − depth', () => {
+    const r = interpret(survey(FIVE));
+    const decimals = (v: number): number => (String(v).split('.')[1] ?? '').length;
+    for (const st of r.stations) {
+      for (const v of [st.depth, st.refractorElevation, st.delayTime, ...st.depths]) if (v !== null) expect(decimals(v)).toBeLessThanOrEqual(2);
+      if (st.depth !== null) expect(st.refractorElevation).toBeCloseTo(st.elevation - st.depth, 9);
+    }
+  });
+
+  it('reports none of the two-layer notes that the three-layer map answers', () => {
+    const codes = interpret(survey(FIVE)).qc.warnings.map((w) => w.code);
+    expect(codes).not.toContain('second-refractor-not-mapped');
+    expect(codes).not.toContain('no-coverage');
   });
 
   it('says so when three layers are forced on a two-layer line, and maps the one refractor', () => {

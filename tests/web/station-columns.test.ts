@@ -5,7 +5,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import {
   cellData, cellText, columnHeading, DECLARED_STATION_FIELDS, stationColumns, UNIT_DECIMALS,
 } from '../../web/station-columns.js';
-import { interpret, OUTPUT_DECIMALS } from '../../engine/pipeline/interpret.js';
+import { interpret } from '../../engine/pipeline/interpret.js';
+import { OUTPUT_DECIMALS } from '../../engine/output/output-decimals.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';

@@ -1,0 +1,34 @@
+/**
+ * Notes on the structure found: each step, each refractor-velocity change, and a V1 that
+ * varies along the line.
+ */
+import type { Warning } from '../output/interpretation.js';
+import type { FoundStep } from '../structure/structure-features.js';
+import { fixed, positionText } from './wording.js';
+
+export function structureWarnings(steps: FoundStep[], changes: { x: number; left: number; right: number }[], lateralV1: boolean): Warning[] {
+  const out: Warning[] = [];
+  for (const st of steps) {
+    out.push({
+      code: 'refractor-step',
+      message:
+        `The refractor steps ${st.throw > 0 ? 'down' : 'up'} by about ${fixed(Math.abs(st.throw), 1)} m toward +x near x = ${positionText(st.x)} m ` +
+        `(seen in ${(st.seenIn ?? []).join(', ')}). Depths within a few metres of it are smoothed by the method.`,
+      x: st.x,
+    });
+  }
+  for (const c of changes) {
+    out.push({
+      code: 'refractor-velocity-change',
+      message: `The refractor velocity changes from about ${Math.round(c.left)} to ${Math.round(c.right)} m/s near x = ${positionText(c.x)} m (a change in rock type or weathering).`,
+      x: c.x,
+    });
+  }
+  if (lateralV1) {
+    out.push({
+      code: 'lateral-top-layer-velocity',
+      message: 'The direct waves of different shots give different top-layer velocities, so V1 varies along the line: each station uses the velocity interpolated between the shots.',
+    });
+  }
+  return out;
+}
