@@ -83,7 +83,9 @@ export const SurveyOptionsSchema = Type.Object(
     ),
     pickUncertaintyMs: numericOption(NUMERIC_OPTIONS.pickUncertaintyMs, 'Pick uncertainty assumed for every first break, ms.'),
   },
-  { title: 'SurveyOptions' },
+  // Unknown option keys are kept with the survey (the contract lets fields be added), so
+  // the response serialiser must send them too.
+  { title: 'SurveyOptions', additionalProperties: true },
 );
 
 export const SurveySchema = Type.Object(

@@ -5,11 +5,15 @@
  */
 import type { FastifyInstance } from 'fastify';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { surveyFromRequest } from '../survey-input.js';
+import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
+import { errorResponses } from '../route-schemas.js';
+import { surveyFromRequest, surveyInput } from '../survey-input.js';
 
 export async function interpretationRoutes(app: FastifyInstance): Promise<void> {
-  app.post('/api/v1/interpretations', async (request) => {
-    const survey = surveyFromRequest(request);
-    return interpret(survey);
-  });
+  const schema = {
+    summary: 'Interpret a survey; stores nothing.',
+    tags: ['interpretations'],
+    response: { 200: InterpretationSchema, ...errorResponses(400, 413) },
+  };
+  app.post('/api/v1/interpretations', surveyInput(schema), async (request) => interpret(surveyFromRequest(request)));
 }

@@ -15,7 +15,8 @@ import { interpret } from '../../engine/pipeline/interpret.js';
 import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
-import { surveyFromRequest } from '../survey-input.js';
+import { surveyFromRequest, surveyInput } from '../survey-input.js';
+import { errorResponses, fileResponse } from '../route-schemas.js';
 
 type Renderer = (survey: Survey, interpretation: Interpretation) => string;
 
@@ -33,7 +34,8 @@ function svgReply(reply: FastifyReply, svg: string): string {
 
 export async function previewRoutes(app: FastifyInstance): Promise<void> {
   for (const { path, render } of PREVIEWS) {
-    app.post(path, async (request, reply) => {
+    const svg = fileResponse('image/svg+xml', 'The drawing as SVG.');
+    app.post(path, surveyInput({ summary: 'Draw a line that is not stored.', tags: ['previews'], response: { 200: svg, ...errorResponses(400, 413) } }), async (request, reply) => {
       const survey = surveyFromRequest(request);
       return svgReply(reply, render(survey, interpret(survey)));
     });
