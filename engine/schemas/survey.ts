@@ -6,6 +6,10 @@
  * (increasing x, times per geophone, coverage, implied velocities, overrides against pick
  * counts, unique ids) stay in `engine/survey/validate.ts`, which runs both.
  *
+ * No `default` keywords: Fastify's response serialiser would write them into a stored
+ * survey that never had them; defaults are stated in the descriptions (and applied by
+ * `resolveOptions`).
+ *
  * Unknown fields are allowed everywhere (the contract lets clients add fields); the
  * validator's normalised survey keeps only the known ones (and unknown option keys).
  *
@@ -28,7 +32,6 @@ const numericOption = (option: NumericOption, description: string) =>
     Type.Number({
       exclusiveMinimum: option.exclusiveMinimum,
       maximum: option.maximum,
-      default: option.default,
       description: `${description} Default ${option.default}.`,
     }),
   );
@@ -77,7 +80,7 @@ export const SurveyOptionsSchema = Type.Object(
     layers: Type.Optional(Type.Union([Type.Literal(2), Type.Literal(3)], { description: 'Force the number of layers; absent: found from the data.' })),
     reciprocalToleranceMs: numericOption(NUMERIC_OPTIONS.reciprocalToleranceMs, 'Reciprocal times of opposing shots must agree within this many ms.'),
     method: Type.Optional(Type.Union(KNOWN_METHODS.map((m) => Type.Literal(m)), { description: 'Interpretation method.' })),
-    residuals: Type.Optional(Type.Boolean({ default: true, description: 'Check the interpretation against the picks with a forward model.' })),
+    residuals: Type.Optional(Type.Boolean({ description: 'Check the interpretation against the picks with a forward model. Default true.' })),
     branchOverrides: Type.Optional(
       Type.Array(BranchOverrideSchema, { maxItems: 2 * SURVEY_LIMITS.maxShots, description: 'Manual branch assignment per shot side.' }),
     ),
