@@ -5,6 +5,7 @@
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import Fastify, { type FastifyInstance } from 'fastify';
 import fastifyStatic from '@fastify/static';
+import fastifySwagger from '@fastify/swagger';
 import { ConfigError } from './config.js';
 import { handleError, handleNotFound } from './errors.js';
 import { addSecurityHeaders } from './security-headers.js';
@@ -19,6 +20,7 @@ import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
 import { previewRoutes } from './routes/previews.js';
 import { ComputePool, type ComputePoolOptions } from './compute/pool.js';
+import { openApiOptions, openApiRoutes } from './routes/openapi.js';
 
 export interface AppOptions {
   /** Folder of the SQLite store, or ':memory:' (tests). */
@@ -164,6 +166,9 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     app.addContentTypeParser('text/csv', { parseAs: 'string' }, (_request, body, done) => done(null, body));
 
     const guard = writeGuard(checked.writeToken);
+    // Before the routes: it collects every route's schema as the route is added.
+    await app.register(fastifySwagger, openApiOptions);
+    await app.register(openApiRoutes);
     await app.register(healthRoutes);
     await app.register(interpretationRoutes);
     await app.register(surveyRoutes, { store, guard });

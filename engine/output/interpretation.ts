@@ -30,7 +30,12 @@ export interface Station {
   coverage?: 'pair' | 'phantom' | 'none';
   /** Number of opposing shot pairs that contributed. */
   pairCount?: number;
+  /** Three-layer lines: how the delay time to each refractor was found, top first (null: none). */
+  delaySources?: (DelaySource | null)[];
 }
+
+/** How a station's delay time to a refractor was found. */
+export type DelaySource = 'pair' | 'phantom' | 'intercept' | 'interpolated';
 
 /** A straight branch of a time–distance curve: t = interceptMs + 1000·|x − shotX| / velocity. */
 export interface BranchLine {
@@ -77,9 +82,39 @@ export interface ShotAnalysis {
    * Arrivals phantomed onto this shot from an off-end shot on the same side (ms, per geophone,
    * null where not phantomed), with the constant shift that was applied.
    */
-  phantom?: { fromShot: string; shiftMs: number; times: (number | null)[]; parallelRmsMs: number } | null;
+  phantom?: Phantom | null;
   /** First arrivals modelled through the interpreted section, ms per geophone (issue: residuals). */
   modelledMs?: (number | null)[];
+  /** Pick minus modelled first arrival, ms per geophone (null where either is missing). */
+  residualMs?: (number | null)[];
+}
+
+/** Arrivals phantomed onto a shot from off-end shots on the same side. */
+export interface Phantom {
+  /** The off-end shot whose shifted times are given in `times`. */
+  fromShot: string;
+  /** Constant shift applied to fromShot's times, ms. */
+  shiftMs: number;
+  /** Phantomed arrivals per geophone, ms; null where not phantomed. */
+  times: (number | null)[];
+  /** RMS misfit of the two branches where they overlap after the shift, ms. */
+  parallelRmsMs: number;
+  /** Every off-end shot whose times were used. */
+  fromShots: string[];
+  /** The parallelism check of every candidate off-end shot. */
+  checks: PhantomCheck[];
+}
+
+export interface PhantomCheck {
+  fromShot: string;
+  shiftMs: number;
+  parallelRmsMs: number;
+  /** Geophones where both branches have refracted picks. */
+  overlapCount: number;
+  /** The branches are parallel within the pick uncertainty. */
+  parallel: boolean;
+  /** Its times went into the phantom. */
+  used: boolean;
 }
 
 export interface ReciprocalCheck {
@@ -112,8 +147,58 @@ export interface Step {
   x: number;
   /** Positive where the refractor is deeper on the +x side, m. */
   throw: number;
+  /** Jump of the delay time across the step, ms. */
   delayJumpMs?: number;
+  /** Which evidence showed the step (e.g. delay times, branch offsets); always sent by the service. */
   seenIn?: string[];
+  /** Offsets of the refracted branches of single shots near the step; always sent by the service. */
+  branchJumps?: BranchJump[];
+}
+
+export interface BranchJump {
+  shot: string;
+  /** Where along the line the shot's branch jumps, m. */
+  xSeen: number;
+  /** Size of the jump, ms. */
+  jumpMs: number;
+}
+
+/** A single planar dip of the first refractor (features.dip). */
+export interface Dip {
+  /** Positive where the refractor deepens toward +x, degrees. */
+  degrees: number;
+  /** A line through the refractor elevations, or the slope-intercept dip of the outermost opposing pair. */
+  source: 'refractor-elevations' | 'slope-intercept';
+  /** RMS of the refractor elevations about the line, m (source "refractor-elevations"). */
+  rmsM?: number;
+  /** Dip from the outermost opposing pair's slope-intercept analysis, degrees, and that pair's shots. */
+  slopeInterceptDegrees?: number;
+  slopeInterceptShots?: [string, string];
+}
+
+/** A straight line through the refractor elevations of one piece of the line between steps and velocity changes. */
+export interface LocalDip {
+  from: number;
+  to: number;
+  /** Positive where the refractor deepens toward +x, degrees. */
+  degrees: number;
+  /** RMS of the elevations about the line, m. */
+  rmsM: number;
+  /** Stations in the fit. */
+  count: number;
+}
+
+/** qc.residuals: picks against first arrivals modelled through the interpreted section. */
+export interface Residuals {
+  /** RMS over every compared pick, ms. */
+  rmsMs: number;
+  perShot: { shot: string; rmsMs: number; count: number }[];
+  /** Picks compared. */
+  count: number;
+  /** Grid cell of the forward model, m. */
+  cellM: number;
+  /** How the refractor was continued beyond the outermost depth. */
+  refractorContinuation: 'planar-dip' | 'flat';
 }
 
 export interface VelocityChange {
@@ -131,12 +216,15 @@ export interface Interpretation {
   features: {
     steps: Step[];
     velocityChanges: VelocityChange[];
-    dip: { degrees: number; [k: string]: unknown } | null;
+    dip: Dip | null;
+    /** One straight line per piece between steps and velocity changes. */
+    localDips: LocalDip[];
   };
   qc: {
     reciprocal: ReciprocalCheck[];
     warnings: Warning[];
-    residuals?: { rmsMs: number; perShot: { shot: string; rmsMs: number }[] };
+    /** Absent with options.residuals = false, or when the check could not be made (a warning says why). */
+    residuals?: Residuals;
   };
   /** Per-shot branch analysis, for the time–distance plot and for checking. */
   shots: ShotAnalysis[];
@@ -169,5 +257,27 @@ export interface VelocityAnalysis {
   directVelocities: { shot: string; side: 'left' | 'right'; velocity: number }[];
   pairs: OpposingPairVelocities[];
   /** V2 from the slope of T− against x (plus-minus), with its standard error, m/s. */
-  minusTimeVelocity: { velocity: number; standardError: number; count: number } | null;
+  minusTimeVelocity: MinusTimeVelocity | null;
+}
+
+export interface MinusTimeVelocity {
+  velocity: number;
+  standardError: number;
+  /** Stations in the fit. */
+  count: number;
+  /** 'along-refractor': T− fitted against distance between the feet of the depth arcs; 'along-line': against x. */
+  distance: 'along-line' | 'along-refractor';
+  /** V2 from T− against x alone, m/s. */
+  alongLineVelocity?: number;
+  /** Where the refractor velocity changes along the line: one fit per segment. */
+  segments?: MinusTimeVelocitySegment[];
+}
+
+export interface MinusTimeVelocitySegment {
+  from: number;
+  to: number;
+  velocity: number;
+  standardError: number;
+  alongLineVelocity: number;
+  count: number;
 }

@@ -3,6 +3,7 @@
  * every number rounded here by the table in output-decimals.ts.
  */
 import type {
+  MinusTimeVelocity,
   BranchLine,
   Interpretation,
   OpposingPairVelocities,
@@ -21,7 +22,6 @@ import { depthSigmaM } from '../depth/depth-pass.js';
 import type { LocalDip } from '../structure/planar-dip.js';
 import type { LineDip } from '../structure/line-dip.js';
 import type { MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
-import type { DelaySource } from '../depth/refractor-delays.js';
 import type { ThreeLayerSection } from '../depth/second-refractor.js';
 import { roundDeg, roundM, roundMOrNull, roundMs, roundMsOrNull, roundV, roundVOrNull } from './output-decimals.js';
 
@@ -49,20 +49,6 @@ export interface LineRecord {
   threeLayer: ThreeLayerSection | null;
   /** Every warning of the stages, in report order. */
   warnings: Warning[];
-}
-
-/** A station with the three-layer field this method adds (not yet in the declared Station). */
-type ThreeLayerStation = Station & { delaySources?: [DelaySource, DelaySource] };
-
-/** velocityAnalysis.minusTimeVelocity with the fields this method adds. */
-interface MinusTimeVelocityOutput {
-  velocity: number;
-  standardError: number;
-  count: number;
-  /** 'along-refractor': T− fitted against distance between the feet of the depth arcs; 'along-line': against x. */
-  distance: 'along-line' | 'along-refractor';
-  /** V2 from T− against x alone, m/s (1/cos θ high over a refractor dipping θ). */
-  alongLineVelocity?: number;
 }
 
 /** The declared output of one line (see the file comment). */
@@ -105,7 +91,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
   const map = r.threeLayer?.map;
   const v3 = map?.mapped ? map.velocitiesMPerS[2] : null;
   const layers = map && v3 !== null ? [twoLayers[0], { velocity: roundV(map.velocitiesMPerS[1] as number) }, { velocity: roundV(v3) }] : twoLayers;
-  const threeLayerStations: ThreeLayerStation[] =
+  const threeLayerStations: Station[] =
     map && v3 !== null
       ? stations.map((st, i) => {
           const [z1, z2] = map.depthM[i];
@@ -141,7 +127,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
   const minusFit = segments.length === 1 && section.segmentFits[0] ? section.segmentFits[0] : r.lineFit;
   const minusDistance = segments.length === 1 ? section.minusDistance : 'along-line';
   const lineFit = r.lineFit;
-  const minusTimeVelocity: MinusTimeVelocityOutput | null = minusFit.ok
+  const minusTimeVelocity: MinusTimeVelocity | null = minusFit.ok
     ? {
         velocity: roundV(minusFit.velocity),
         standardError: roundV(minusFit.standardError),

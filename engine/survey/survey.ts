@@ -65,6 +65,8 @@ export const SURVEY_LIMITS = {
   maxShots: 64,
   maxNameLength: 200,
   maxShotIdLength: 40,
+  /** Longest free-text date, characters. */
+  maxDateLength: 200,
   /** Largest sensible first-break time, ms (a 10 s record is already absurd for engineering lines). */
   maxTimeMs: 10_000,
   /** Largest coordinate magnitude, m. */

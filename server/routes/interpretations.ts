@@ -4,12 +4,18 @@
  * token even on the office network.
  */
 import type { FastifyInstance } from 'fastify';
-import { surveyFromRequest } from '../survey-input.js';
+import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
+import { errorResponses } from '../route-schemas.js';
+import { surveyFromRequest, surveyInput } from '../survey-input.js';
 import { clientGone } from '../compute/client-gone.js';
 
 export async function interpretationRoutes(app: FastifyInstance): Promise<void> {
-  app.post('/api/v1/interpretations', async (request, reply) => {
-    const survey = surveyFromRequest(request);
-    return app.compute.run('interpret', { survey }, clientGone(reply));
-  });
+  const schema = {
+    summary: 'Interpret a survey; stores nothing.',
+    tags: ['interpretations'],
+    response: { 200: InterpretationSchema, ...errorResponses(400, 413, 422, 503) },
+  };
+  app.post('/api/v1/interpretations', surveyInput(schema), async (request, reply) =>
+    app.compute.run('interpret', { survey: surveyFromRequest(request) }, clientGone(reply)),
+  );
 }

@@ -18,9 +18,22 @@
  * image/svg+xml Blob and shows it in an <img>, where an SVG runs no script.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import { surveyFromRequest } from '../survey-input.js';
+import { Type } from '@sinclair/typebox';
+import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
+import { surveyFromRequest, surveyInput } from '../survey-input.js';
+import { errorResponses, fileResponse } from '../route-schemas.js';
 import { clientGone } from '../compute/client-gone.js';
 import type { Figure } from '../compute/tasks.js';
+
+/** The answer of POST /api/v1/previews. */
+const PreviewBundleSchema = Type.Object(
+  {
+    interpretation: InterpretationSchema,
+    sectionSvg: Type.String({ description: 'The depth section, an SVG document.' }),
+    travelTimesSvg: Type.String({ description: 'The time–distance plot, an SVG document.' }),
+  },
+  { additionalProperties: false, title: 'PreviewBundle' },
+);
 
 const PREVIEWS: ReadonlyArray<{ path: string; figure: Figure }> = [
   { path: '/api/v1/previews/section.svg', figure: 'section' },
@@ -36,14 +49,20 @@ function svgReply(reply: FastifyReply, svg: string): string {
 
 export async function previewRoutes(app: FastifyInstance): Promise<void> {
   // One interpretation and both drawings from it, in one worker task (compute/tasks.ts).
-  app.post('/api/v1/previews', async (request, reply) => {
+  const bundleSchema = {
+    summary: 'Interpret a line that is not stored and draw both figures from that one interpretation.',
+    tags: ['previews'],
+    response: { 200: PreviewBundleSchema, ...errorResponses(400, 413, 422, 503) },
+  };
+  app.post('/api/v1/previews', surveyInput(bundleSchema), async (request, reply) => {
     const survey = surveyFromRequest(request);
     const bundle = await app.compute.run('preview', { survey }, clientGone(reply));
     reply.header('Cache-Control', 'no-store');
     return bundle;
   });
   for (const { path, figure } of PREVIEWS) {
-    app.post(path, async (request, reply) => {
+    const svg = fileResponse('image/svg+xml', 'The drawing as SVG.');
+    app.post(path, surveyInput({ summary: 'Draw a line that is not stored.', tags: ['previews'], response: { 200: svg, ...errorResponses(400, 413, 422, 503) } }), async (request, reply) => {
       const survey = surveyFromRequest(request);
       const { sectionSvg, travelTimesSvg } = await app.compute.run('preview', { survey }, clientGone(reply));
       return svgReply(reply, figure === 'section' ? sectionSvg : travelTimesSvg);

@@ -11,6 +11,12 @@ import type { SurveyStore } from '../store.js';
 import { requireShared } from '../lookup.js';
 import { renderSharePage, SHARE_PAGE_CSP } from '../share-page.js';
 import { stationsCsv, downloadName } from '../stations-csv.js';
+import { errorResponses, fileResponse } from '../route-schemas.js';
+
+/** Schema of a share read: a file of this media type, or 404 when the link is unknown or revoked. */
+function shared(summary: string, mediaType: string) {
+  return { schema: { summary, tags: ['share'], response: { 200: fileResponse(mediaType, summary), ...errorResponses(404) } } };
+}
 
 interface TokenParams {
   token: string;
@@ -24,7 +30,7 @@ function privateResponse(reply: FastifyReply): void {
 export async function shareRoutes(app: FastifyInstance, options: { store: SurveyStore }): Promise<void> {
   const { store } = options;
 
-  app.get<{ Params: TokenParams }>('/share/:token', async (request, reply) => {
+  app.get<{ Params: TokenParams }>('/share/:token', shared('Read-only page of the latest revision.', 'text/html'), async (request, reply) => {
     const { token } = request.params;
     const { stored } = requireShared(store, token);
     const { sectionSvg, travelTimesSvg } = await app.compute.run(
@@ -49,21 +55,21 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
     return html;
   });
 
-  app.get<{ Params: TokenParams }>('/share/:token/section.svg', async (request, reply) => {
+  app.get<{ Params: TokenParams }>('/share/:token/section.svg', shared('The shared depth section.', 'image/svg+xml'), async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);
     privateResponse(reply);
     reply.type('image/svg+xml; charset=utf-8');
     return app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
   });
 
-  app.get<{ Params: TokenParams }>('/share/:token/traveltimes.svg', async (request, reply) => {
+  app.get<{ Params: TokenParams }>('/share/:token/traveltimes.svg', shared('The shared time–distance plot.', 'image/svg+xml'), async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);
     privateResponse(reply);
     reply.type('image/svg+xml; charset=utf-8');
     return app.compute.run('drawing', { figure: 'traveltimes', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
   });
 
-  app.get<{ Params: TokenParams }>('/share/:token/stations.csv', async (request, reply) => {
+  app.get<{ Params: TokenParams }>('/share/:token/stations.csv', shared('The shared stations table.', 'text/csv'), async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);
     privateResponse(reply);
     reply.type('text/csv; charset=utf-8');

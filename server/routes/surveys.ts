@@ -7,7 +7,18 @@ import type { FastifyInstance, FastifyReply } from 'fastify';
 import { clientGone } from '../compute/client-gone.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
 import { AppError } from '../errors.js';
-import { surveyFromRequest } from '../survey-input.js';
+import { surveyFromRequest, surveyInput } from '../survey-input.js';
+import {
+  errorResponses,
+  fileResponse,
+  revisionQuerySchema,
+  RevisionCreatedSchema,
+  ShareIssuedSchema,
+  StoredSurveySchema,
+  SurveyCreatedSchema,
+  SurveyListSchema,
+} from '../route-schemas.js';
+import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { stationsCsv, downloadName } from '../stations-csv.js';
 
@@ -23,10 +34,12 @@ interface RevisionQuery {
   revision?: number;
 }
 
-const revisionQuerySchema = {
-  type: 'object',
-  properties: { revision: { type: 'integer', minimum: 1 } },
-} as const;
+const tags = ['surveys'];
+
+/** Schema of a GET of one stored revision (by ?revision, default the latest) answering `ok`. */
+function revisionRead(summary: string, ok: object) {
+  return { schema: { summary, tags, querystring: revisionQuerySchema, response: { 200: ok, ...errorResponses(400, 404) } } };
+}
 
 function links(id: string, revision: number, latest: number): Record<string, string> {
   const query = revision === latest ? '' : `?revision=${revision}`;
@@ -68,7 +81,11 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
   const fetchRevision = (id: string, revision?: number): { summary: SurveySummary; stored: StoredRevision } =>
     requireRevision(store, id, revision);
 
-  app.post('/api/v1/surveys', { onRequest: guard }, async (request, reply) => {
+  const writeErrors = errorResponses(400, 401, 413);
+  app.post(
+    '/api/v1/surveys',
+    { onRequest: guard, ...surveyInput({ summary: 'Store a survey and its interpretation.', tags, response: { 201: SurveyCreatedSchema, ...writeErrors } }) },
+    async (request, reply) => {
     const survey = surveyFromRequest(request);
     const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
     const { summary, revision } = store.createSurvey(survey, interpretation);
@@ -85,11 +102,11 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     };
   });
 
-  app.get('/api/v1/surveys', async () => store.listSurveys().map(listItem));
+  app.get('/api/v1/surveys', { schema: { summary: 'List stored surveys.', tags, response: { 200: SurveyListSchema } } }, async () => store.listSurveys().map(listItem));
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id',
-    { schema: { querystring: revisionQuerySchema } },
+    revisionRead('One stored survey (a revision of it) with its interpretation.', StoredSurveySchema),
     async (request) => {
       const { summary, stored } = fetchRevision(request.params.id, request.query.revision);
       return {
@@ -111,7 +128,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id/section.svg',
-    { schema: { querystring: revisionQuerySchema } },
+    revisionRead('The depth section.', fileResponse('image/svg+xml', 'The depth section as SVG.')),
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
       const svg = await app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
@@ -121,7 +138,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id/traveltimes.svg',
-    { schema: { querystring: revisionQuerySchema } },
+    revisionRead('The time–distance plot with fitted branches.', fileResponse('image/svg+xml', 'The time–distance plot as SVG.')),
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
       const svg = await app.compute.run('drawing', { figure: 'traveltimes', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
@@ -131,7 +148,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id/stations.csv',
-    { schema: { querystring: revisionQuerySchema } },
+    revisionRead('One row per geophone.', fileResponse('text/csv', 'Stations as CSV.')),
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
       download(reply, 'text/csv; charset=utf-8', downloadName(stored.name, `r${stored.revision}-stations.csv`));
@@ -141,7 +158,11 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id/interpretation.json',
-    { schema: { querystring: revisionQuerySchema } },
+    // The handler sends the file as indented text, which Fastify never re-serialises.
+    revisionRead('The interpretation as a file to download.', {
+      description: 'The interpretation, indented, as an attachment.',
+      content: { 'application/json': { schema: InterpretationSchema } },
+    }),
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
       download(reply, 'application/json; charset=utf-8', downloadName(stored.name, `r${stored.revision}-interpretation.json`));
@@ -149,7 +170,13 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     },
   );
 
-  app.post<{ Params: IdParams }>('/api/v1/surveys/:id/revisions', { onRequest: guard }, async (request, reply) => {
+  app.post<{ Params: IdParams }>(
+    '/api/v1/surveys/:id/revisions',
+    {
+      onRequest: guard,
+      ...surveyInput({ summary: 'Store a new revision of a line.', tags, response: { 201: RevisionCreatedSchema, ...errorResponses(400, 401, 404, 413) } }),
+    },
+    async (request, reply) => {
     const { id } = request.params;
     const summary = requireSurvey(store, id);
     const survey = surveyFromRequest(request);
@@ -170,7 +197,10 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     };
   });
 
-  app.post<{ Params: IdParams }>('/api/v1/surveys/:id/share', { onRequest: guard }, async (request, reply) => {
+  app.post<{ Params: IdParams }>(
+    '/api/v1/surveys/:id/share',
+    { onRequest: guard, schema: { summary: 'Issue a new share link (the old one stops working).', tags, response: { 201: ShareIssuedSchema, ...errorResponses(401, 404) } } },
+    async (request, reply) => {
     const { id } = request.params;
     requireSurvey(store, id);
     const token = store.reissueShareToken(id);
@@ -179,7 +209,10 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     return { id, shareUrl: shareUrlFor(token) };
   });
 
-  app.delete<{ Params: IdParams }>('/api/v1/surveys/:id/share', { onRequest: guard }, async (request, reply) => {
+  app.delete<{ Params: IdParams }>(
+    '/api/v1/surveys/:id/share',
+    { onRequest: guard, schema: { summary: 'Revoke the share link.', tags, response: { 204: { type: 'null', description: 'Revoked.' }, ...errorResponses(401, 404) } } },
+    async (request, reply) => {
     const { id } = request.params;
     requireSurvey(store, id);
     store.revokeShareToken(id);

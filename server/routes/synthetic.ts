@@ -16,6 +16,12 @@
  * the work runs in the compute pool (server/compute/pool.ts) like every computation.
  */
 import type { FastifyInstance } from 'fastify';
+import { Type } from '@sinclair/typebox';
+import { SurveySchema } from '../../engine/schemas/survey.js';
+import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
+import { SyntheticRequestSchema } from '../../engine/schemas/synthetic.js';
+import { errorResponses } from '../route-schemas.js';
+import { bodyDoorCompiler } from '../validators.js';
 import { AppError } from '../errors.js';
 import type { Problem } from '../../engine/survey/problem.js';
 import type { Survey } from '../../engine/survey/survey.js';
@@ -23,24 +29,60 @@ import { validateSyntheticRequest, type SyntheticRequest } from '../../engine/fo
 import type { RefractorVisibility, SyntheticNote } from '../../engine/forward/refractor-visibility.js';
 import { clientGone } from '../compute/client-gone.js';
 
-const querySchema = {
-  type: 'object',
-  properties: { interpret: { type: 'boolean' } },
-  additionalProperties: false,
-} as const;
+const RefractorVisibilitySchema = Type.Object(
+  { layer: Type.Integer(), firstArrivals: Type.Integer(), traces: Type.Integer(), seen: Type.Boolean() },
+  { additionalProperties: false, title: 'RefractorVisibility' },
+);
+const SyntheticNoteSchema = Type.Object(
+  { code: Type.String(), message: Type.String(), layer: Type.Optional(Type.Integer()) },
+  { additionalProperties: false, title: 'SyntheticNote' },
+);
+
+const querySchema = Type.Object(
+  { interpret: Type.Optional(Type.Boolean({ description: 'Also interpret the synthetic line.' })) },
+  { additionalProperties: false },
+);
+
+const SyntheticSurveySchema = Type.Object(
+  { ...SurveySchema.properties, refractors: Type.Array(RefractorVisibilitySchema), notes: Type.Array(SyntheticNoteSchema) },
+  { additionalProperties: false, title: 'SyntheticLine' },
+);
+const SyntheticInterpretedSchema = Type.Object(
+  { survey: SurveySchema, interpretation: InterpretationSchema, refractors: Type.Array(RefractorVisibilitySchema), notes: Type.Array(SyntheticNoteSchema) },
+  { additionalProperties: false, title: 'SyntheticLineInterpreted' },
+);
+
+/** The body's door: validateSyntheticRequest, whose problems keep their codes and sentences. */
+const syntheticValidatorCompiler = bodyDoorCompiler((body) => {
+  if (body === null) return true;
+  const problems = validateSyntheticRequest(body);
+  return problems.length > 0 ? { error: requestProblems(problems) } : { value: body };
+});
 
 export async function syntheticRoutes(app: FastifyInstance): Promise<void> {
-  app.post<{ Querystring: { interpret?: boolean } }>('/api/v1/synthetic', { schema: { querystring: querySchema } }, async (request, reply) => {
+  const schema = {
+    summary: 'A synthetic line through a layered earth model; stores nothing.',
+    description: 'Answers the survey document plus refractors and notes; with ?interpret=true, {survey, interpretation, refractors, notes}.',
+    tags: ['synthetic'],
+    querystring: querySchema,
+    body: SyntheticRequestSchema,
+    // Two shapes by ?interpret: the handler serialises with JSON.stringify (see below).
+    response: { 200: Type.Union([SyntheticSurveySchema, SyntheticInterpretedSchema]), ...errorResponses(400, 413, 422, 503) },
+  };
+  app.post<{ Querystring: { interpret?: boolean } }>('/api/v1/synthetic', { schema, validatorCompiler: syntheticValidatorCompiler }, async (request, reply) => {
     const body: unknown = request.body;
-    if (body === undefined) throw new AppError('empty_body', { message: 'The request has no body: send the synthetic-line request as application/json.' });
-    const problems = validateSyntheticRequest(body);
-    if (problems.length > 0) throw requestProblems(problems);
+    if (body === undefined || body === null) {
+      if (body === null) throw requestProblems(validateSyntheticRequest(body));
+      throw new AppError('empty_body', { message: 'The request has no body: send the synthetic-line request as application/json.' });
+    }
     const withInterpretation = request.query.interpret === true;
     const { survey, interpretation, refractors, notes } = await app.compute.run(
       'synthetic',
       { request: body as SyntheticRequest, interpret: withInterpretation },
       clientGone(reply),
     );
+    // A union of two closed shapes would make the schema serialiser guess; send plain JSON.
+    reply.type('application/json; charset=utf-8').serializer(JSON.stringify);
     if (withInterpretation) return { survey, interpretation, refractors, notes };
     return { ...survey, refractors, notes } satisfies Survey & { refractors: RefractorVisibility[]; notes: SyntheticNote[] };
   });

@@ -157,7 +157,7 @@ describe('interpret: structure outputs on a planar line', () => {
   it('reports no step and no velocity change, one local dip, and a depth uncertainty per station', () => {
     expect(result.features.steps).toEqual([]);
     expect(result.features.velocityChanges).toEqual([]);
-    const local = (result.features as unknown as { localDips: { degrees: number; from: number; to: number }[] }).localDips;
+    const local = result.features.localDips;
     expect(local).toHaveLength(1);
     expect(Math.abs(local[0].degrees - model.dipDegrees)).toBeLessThan(0.5);
     for (const s of result.stations) {
@@ -167,10 +167,7 @@ describe('interpret: structure outputs on a planar line', () => {
   });
 
   it('lists each end shot’s phantoming check per off-end shot', () => {
-    const phantom = result.shots.find((s) => s.id === 'W-end')!.phantom as unknown as {
-      fromShots: string[];
-      checks: { fromShot: string; parallel: boolean; used: boolean; overlapCount: number }[];
-    };
+    const phantom = result.shots.find((s) => s.id === 'W-end')!.phantom!;
     expect(phantom.fromShots).toEqual(['W-off']);
     expect(phantom.checks).toEqual([expect.objectContaining({ fromShot: 'W-off', parallel: true, used: true })]);
   });
@@ -184,7 +181,7 @@ describe('interpret: structure outputs on a planar line', () => {
     expect(warning?.message).toMatch(/W-off/);
     expect(warning?.message).toMatch(/vertical jump/);
     expect(warning?.message).toMatch(/step/);
-    const check = (r.shots.find((s) => s.id === 'W-end')!.phantom as unknown as { checks: { parallel: boolean }[] }).checks[0];
+    const check = r.shots.find((s) => s.id === 'W-end')!.phantom!.checks[0];
     expect(check.parallel).toBe(false);
   });
 

@@ -105,11 +105,11 @@ describe('interpret: V2 over a dipping refractor', () => {
     // ground, T− rises by 2·cos θ/V2 per metre along the line.
     const dipping: PlanarRefractorModel = { v1: 600, v2: 2400, refractorElevationAtZero: 88, dipDegrees: -8 };
     const result = interpret(planarSurvey(dipping, fiveShotLayout()));
-    const fit = result.velocityAnalysis.minusTimeVelocity as unknown as { velocity: number; distance: string; alongLineVelocity: number };
+    const fit = result.velocityAnalysis.minusTimeVelocity!;
     const cosTheta = Math.cos((8 * Math.PI) / 180);
     expect(fit.distance).toBe('along-refractor');
     expect(Math.abs(fit.velocity - dipping.v2) / dipping.v2).toBeLessThan(0.002);
-    expect(Math.abs(fit.alongLineVelocity - dipping.v2 / cosTheta) / dipping.v2).toBeLessThan(0.002);
+    expect(Math.abs(fit.alongLineVelocity! - dipping.v2 / cosTheta) / dipping.v2).toBeLessThan(0.002);
   });
 });
 

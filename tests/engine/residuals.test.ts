@@ -44,15 +44,15 @@ describe('withResiduals through interpret', () => {
 
   it('reports residual = pick − modelled, and leaves out the pick at the shot itself', () => {
     for (const [k, shot] of flatResult.shots.entries()) {
-      const a = shot as typeof shot & { residualMs: (number | null)[] };
+      const residualMs = shot.residualMs!;
       flat.shots[k].times.forEach((pick, i) => {
         const atShot = flat.geophones[i].x === shot.x;
-        if (pick === null || atShot) expect(a.residualMs[i]).toBeNull();
-        else expect(a.residualMs[i]).toBeCloseTo(pick - (shot.modelledMs![i] as number), 1);
+        if (pick === null || atShot) expect(residualMs[i]).toBeNull();
+        else expect(residualMs[i]).toBeCloseTo(pick - (shot.modelledMs![i] as number), 1);
       });
     }
     // W-end sits on geophone 0 of 24: 23 residuals; W-off is off the spread: 24.
-    const count = (id: string) => (flatResult.qc.residuals!.perShot.find((p) => p.shot === id) as unknown as { count: number }).count;
+    const count = (id: string) => flatResult.qc.residuals!.perShot.find((p) => p.shot === id)!.count;
     expect(count('W-end')).toBe(23);
     expect(count('W-off')).toBe(24);
   });

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { validateSurvey, MAX_PROBLEMS } from '../../engine/survey/validate.js';
 import { SURVEY_LIMITS } from '../../engine/survey/survey.js';
 import type { Problem } from '../../engine/survey/problem.js';
+import { NUMERIC_OPTIONS, resolveOptions } from '../../engine/survey/options.js';
 
 // Invented test data: six geophones at 2 m, a shot off each end. Times are plausible, not modelled.
 function goodSurvey(): Record<string, any> {
@@ -319,6 +320,16 @@ describe('validateSurvey checks the shots', () => {
   });
 });
 
+describe('the validator and the engine agree on the options', () => {
+  for (const name of Object.keys(NUMERIC_OPTIONS) as (keyof typeof NUMERIC_OPTIONS)[]) {
+    const o = NUMERIC_OPTIONS[name];
+    it.each([o.exclusiveMinimum, o.exclusiveMinimum + 1e-9, o.default, o.maximum, o.maximum + 1e-9])(`${name} = %s is accepted exactly when the engine uses it`, (value) => {
+      const accepted = problemsOf({ ...goodSurvey(), options: { [name]: value } }).length === 0;
+      expect(accepted).toBe(resolveOptions({ [name]: value })[name] === value);
+    });
+  }
+});
+
 describe('validateSurvey checks the options', () => {
   const withOptions = (options: unknown): Record<string, any> => ({ ...goodSurvey(), options });
   it('options-not-object', () => {
@@ -407,6 +418,21 @@ describe('validateSurvey reports every problem', () => {
     s.options.layers = 7;
     const codes = problemsOf(s).map((p) => `${p.code} ${p.path}`);
     expect(codes).toEqual(['name-not-string /name', 'negative-time /shots/0/times/1', 'time-not-number /shots/1/times/2', 'layers-invalid /options/layers']);
+  });
+  it('reports shape problems and rule problems together, in document order', () => {
+    const s = goodSurvey();
+    s.shots[0].times[5] = 0.5; // 22 000 m/s: a rule the schema cannot say
+    s.shots[1].times[2] = 'x'; // a shape problem in a later shot
+    s.name = 5;
+    const codes = problemsOf(s).map((p) => `${p.code} ${p.path}`);
+    expect(codes).toEqual(['name-not-string /name', 'impossible-velocity /shots/0/times/5', 'time-not-number /shots/1/times/2']);
+  });
+  it('reads an enormous times list no further than its length', () => {
+    const s = goodSurvey();
+    s.shots[0].times = new Array(2_000_000).fill('not a time');
+    const problems = problemsOf(s);
+    expect(problems.map((p) => `${p.code} ${p.path}`)).toEqual(['times-length /shots/0/times']);
+    expect(problems[0].message).toContain('2000000 times');
   });
   it('stops after MAX_PROBLEMS and says so', () => {
     const s = goodSurvey();

@@ -180,6 +180,8 @@ export function renderFixture(options: RenderFixtureOptions = {}): RenderFixture
       shiftMs: shift,
       parallelRmsMs: 0.1,
       times: geophones.map((_, i) => (end.branchOfPick[i] === 0 && off.times[i] !== null ? (off.times[i] as number) - shift : null)),
+      fromShots: [off.id],
+      checks: [{ fromShot: off.id, shiftMs: shift, parallelRmsMs: 0.1, overlapCount: both.length, parallel: true, used: true }],
     };
   }
 
@@ -196,7 +198,7 @@ export function renderFixture(options: RenderFixtureOptions = {}): RenderFixture
   const perShot = shots.map((s, k) => {
     const m = analyses[k].modelledMs as number[];
     const r = s.times.map((t, i) => (t === null ? null : t - m[i])).filter((v): v is number => v !== null);
-    return { shot: s.id, rmsMs: Math.sqrt(r.reduce((acc, v) => acc + v * v, 0) / Math.max(1, r.length)) };
+    return { shot: s.id, rmsMs: Math.sqrt(r.reduce((acc, v) => acc + v * v, 0) / Math.max(1, r.length)), count: r.length };
   });
 
   const layers = [{ velocity: model.v1 }, { velocity: model.v2 }];
@@ -210,12 +212,19 @@ export function renderFixture(options: RenderFixtureOptions = {}): RenderFixture
     features: {
       steps: options.steps ?? [],
       velocityChanges: options.velocityChanges ?? [],
-      dip: options.noDip ? null : { degrees: model.dipDegrees },
+      dip: options.noDip ? null : { degrees: model.dipDegrees, source: 'refractor-elevations' },
+      localDips: [],
     },
     qc: {
       reciprocal,
       warnings: uncovered.size > 0 ? [{ code: 'no-coverage', message: 'No opposing shot pair covers these geophones.', x: geophones[[...uncovered][0]].x }] : [],
-      residuals: { rmsMs: Math.sqrt(perShot.reduce((s, p) => s + p.rmsMs ** 2, 0) / perShot.length), perShot },
+      residuals: {
+        rmsMs: Math.sqrt(perShot.reduce((s, p) => s + p.rmsMs ** 2, 0) / perShot.length),
+        perShot,
+        count: perShot.reduce((s, p) => s + p.count, 0),
+        cellM: 0.5,
+        refractorContinuation: 'planar-dip',
+      },
     },
     shots: analyses,
     velocityAnalysis: { v1: model.v1, directVelocities: [], pairs: [], minusTimeVelocity: null },

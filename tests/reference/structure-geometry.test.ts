@@ -67,7 +67,7 @@ describe('planar refractor dipping 4° toward +x (7 shots)', () => {
     expect(result.features.steps).toEqual([]);
     expect(result.features.velocityChanges).toEqual([]);
     expect(Math.abs(result.refractorVelocity[0].velocity - V2) / V2).toBeLessThan(0.05);
-    const local = (result.features as unknown as { localDips: { degrees: number }[] }).localDips;
+    const local = result.features.localDips;
     expect(local).toHaveLength(1);
     expect(Math.abs(local[0].degrees - DIP)).toBeLessThan(0.5);
   });
@@ -136,7 +136,7 @@ describe('11 shots (five inside, two off-end each side) over an undulating refra
 
   it('phantoms each end shot from both off-end shots on its side', () => {
     for (const id of ['W-end', 'E-end']) {
-      const phantom = result.shots.find((s) => s.id === id)!.phantom as unknown as { fromShots: string[] } | null;
+      const phantom = result.shots.find((s) => s.id === id)!.phantom;
       expect(phantom?.fromShots, id).toHaveLength(2);
     }
   });

@@ -54,7 +54,7 @@ describe('flat refractor: parallel branches, and no structure read from pick noi
       const worst = Math.max(...differences.map((d) => Math.abs(d - mean)));
       report('parallel shift', { end, off, shiftMs: +mean.toFixed(3), worstDeviationMs: +worst.toFixed(3), engine: endShot.phantom?.shiftMs });
       expect(worst).toBeLessThan(0.05);
-      const phantom = endShot.phantom as unknown as { fromShot: string; shiftMs: number; checks: { fromShot: string; parallel: boolean }[] };
+      const phantom = endShot.phantom!;
       expect(phantom.fromShot).toBe(off);
       expect(Math.abs(phantom.shiftMs - mean)).toBeLessThan(0.02);
       expect(phantom.checks.find((c) => c.fromShot === off)?.parallel).toBe(true);
@@ -153,7 +153,7 @@ describe('step fault: refractor 6 m deep stepping down 3 m at x = 47 m', () => {
     const after = line(62, 94);
     const jumpMs = after.at(STEP_X) - before.at(STEP_X);
     const expected = ((THROW_M * Math.cos(Math.asin(V1 / V2))) / V1) * 1000;
-    const engine = (result.features.steps[0] as unknown as { branchJumps: { shot: string; jumpMs: number }[] }).branchJumps.find((b) => b.shot === 'W-off');
+    const engine = result.features.steps[0].branchJumps!.find((b) => b.shot === 'W-off');
     report('off-end jump', { measuredMs: +jumpMs.toFixed(2), expectedMs: +expected.toFixed(2), slopes: [before.slope, after.slope].map((s) => +s.toFixed(4)), engineMs: engine?.jumpMs });
     // Parallel pieces (same apparent velocity), offset in time.
     expect(Math.abs(after.slope - before.slope) / before.slope).toBeLessThan(0.02);

@@ -1,0 +1,247 @@
+/**
+ * The JSON Schema of the interpretation (api-v1.md, "The interpretation"), built with
+ * TypeBox beside the hand-written type in `engine/output/interpretation.ts`. Every object is
+ * closed (`additionalProperties: false`): the service's response serialiser sends only
+ * declared fields, so a field the engine adds must be declared in both places — the type
+ * check at the bottom fails to compile when they drift apart, and the golden test fails when
+ * the engine sends a field neither declares.
+ *
+ * Units: m, ms, m/s, degrees. Numbers are rounded by the engine (0.01 m, 0.01 ms, 1 m/s,
+ * 0.01°) before they reach the schema.
+ */
+import { Type, type Static, type TSchema } from '@sinclair/typebox';
+import { KNOWN_METHODS } from '../survey/options.js';
+import type { Interpretation } from '../output/interpretation.js';
+import type { Assert, Same } from './same-type.js';
+
+const closed = { additionalProperties: false } as const;
+const nullable = <T extends TSchema>(schema: T) => Type.Union([schema, Type.Null()]);
+const num = (description?: string) => Type.Number(description ? { description } : {});
+const int = (description?: string) => Type.Integer(description ? { minimum: 0, description } : { minimum: 0 });
+const str = (description?: string) => Type.String(description ? { description } : {});
+const opt = Type.Optional;
+const literals = <T extends string>(values: readonly T[], description?: string) =>
+  Type.Union(values.map((v) => Type.Literal(v)), description ? { description } : {});
+const shotPair = Type.Tuple([Type.String(), Type.String()]);
+
+export const StationSchema = Type.Object(
+  {
+    x: num('Position along the line, m.'),
+    elevation: num('Ground elevation, m.'),
+    delayTime: nullable(num('Delay time to the first refractor, ms.')),
+    depth: nullable(num('Vertical depth to the first refractor, m.')),
+    refractorElevation: nullable(num('elevation − depth, m.')),
+    depths: Type.Array(nullable(num()), { description: 'Vertical depth to each refractor, top first, m.' }),
+    v1: nullable(num('Local top-layer velocity, m/s.')),
+    refractorVelocity: nullable(num('Local velocity of the first refractor, m/s.')),
+    depthUncertainty: opt(nullable(num('One standard deviation of depth, m.'))),
+    normalDepth: opt(nullable(num('Depth normal to the refractor, m.'))),
+    plusTime: opt(nullable(num('Plus time T+, ms.'))),
+    minusTime: opt(nullable(num('Minus time T−, ms.'))),
+    coverage: opt(literals(['pair', 'phantom', 'none'] as const, 'How the plus time was found.')),
+    pairCount: opt(int('Opposing shot pairs that contributed.')),
+    delaySources: opt(
+      Type.Array(nullable(literals(['pair', 'phantom', 'intercept', 'interpolated'] as const)), {
+        description: 'Three-layer lines: how the delay time to each refractor was found, top first.',
+      }),
+    ),
+  },
+  { ...closed, title: 'Station' },
+);
+
+export const BranchLineSchema = Type.Object(
+  {
+    velocity: num('Apparent velocity along the line, m/s.'),
+    interceptMs: num('Intercept time at the shot, ms.'),
+    fromX: num('m'),
+    toX: num('m'),
+    count: int('Picks in the fit.'),
+    rmsMs: num('RMS misfit, ms.'),
+  },
+  { ...closed, title: 'BranchLine' },
+);
+
+const side = literals(['left', 'right'] as const);
+
+export const SideBranchesSchema = Type.Object(
+  {
+    side,
+    direct: nullable(BranchLineSchema),
+    refracted: Type.Array(BranchLineSchema, { description: 'One line per refracted branch, shallowest first.' }),
+    crossoverDistance: nullable(num('Offset where the first refracted branch overtakes the direct wave, m.')),
+    overridden: Type.Boolean(),
+    deeperBranchUnreversed: opt(Type.Boolean()),
+  },
+  { ...closed, title: 'SideBranches' },
+);
+
+export const PhantomSchema = Type.Object(
+  {
+    fromShot: str(),
+    shiftMs: num(),
+    times: Type.Array(nullable(num()), { description: 'Phantomed arrivals per geophone, ms.' }),
+    parallelRmsMs: num(),
+    fromShots: Type.Array(Type.String()),
+    checks: Type.Array(
+      Type.Object(
+        { fromShot: str(), shiftMs: num(), parallelRmsMs: num(), overlapCount: int(), parallel: Type.Boolean(), used: Type.Boolean() },
+        closed,
+      ),
+    ),
+  },
+  { ...closed, title: 'Phantom' },
+);
+
+export const ShotAnalysisSchema = Type.Object(
+  {
+    id: str(),
+    x: num(),
+    elevation: num(),
+    position: literals(['off-end-left', 'end-left', 'inside', 'end-right', 'off-end-right'] as const),
+    left: nullable(SideBranchesSchema),
+    right: nullable(SideBranchesSchema),
+    branchOfPick: Type.Array(Type.Union([Type.Literal(0), Type.Literal(1), Type.Literal(2), Type.Null()]), {
+      description: 'Per geophone: 0 direct, 1 first refractor, 2 second refractor, null no pick.',
+    }),
+    phantom: opt(nullable(PhantomSchema)),
+    modelledMs: opt(Type.Array(nullable(num()), { description: 'First arrivals modelled through the section, ms.' })),
+    residualMs: opt(Type.Array(nullable(num()), { description: 'Pick minus modelled first arrival, ms.' })),
+  },
+  { ...closed, title: 'ShotAnalysis' },
+);
+
+export const ReciprocalCheckSchema = Type.Object(
+  {
+    shots: shotPair,
+    forwardMs: num(),
+    reverseMs: num(),
+    differenceMs: num(),
+    ok: Type.Boolean(),
+    forwardSource: opt(literals(['geophone', 'extrapolated'] as const)),
+    reverseSource: opt(literals(['geophone', 'extrapolated'] as const)),
+    forwardGapM: opt(num()),
+    reverseGapM: opt(num()),
+    extrapolationAllowanceMs: opt(num()),
+    toleranceMs: opt(num()),
+  },
+  { ...closed, title: 'ReciprocalCheck' },
+);
+
+export const WarningSchema = Type.Object(
+  { code: str('Stable kebab-case code.'), message: str(), x: opt(num('Where along the line, m.')) },
+  { ...closed, title: 'Warning' },
+);
+
+export const StepSchema = Type.Object(
+  {
+    x: num(),
+    throw: num('Positive where the refractor is deeper on the +x side, m.'),
+    delayJumpMs: opt(num()),
+    seenIn: opt(Type.Array(Type.String())),
+    branchJumps: opt(Type.Array(Type.Object({ shot: str(), xSeen: num(), jumpMs: num() }, closed))),
+  },
+  { ...closed, title: 'Step' },
+);
+
+export const DipSchema = Type.Object(
+  {
+    degrees: num('Positive where the refractor deepens toward +x.'),
+    source: literals(['refractor-elevations', 'slope-intercept'] as const),
+    rmsM: opt(num()),
+    slopeInterceptDegrees: opt(num()),
+    slopeInterceptShots: opt(shotPair),
+  },
+  { ...closed, title: 'Dip' },
+);
+
+export const LocalDipSchema = Type.Object(
+  { from: num(), to: num(), degrees: num(), rmsM: num(), count: int() },
+  { ...closed, title: 'LocalDip' },
+);
+
+export const ResidualsSchema = Type.Object(
+  {
+    rmsMs: num(),
+    perShot: Type.Array(Type.Object({ shot: str(), rmsMs: num(), count: int() }, closed)),
+    count: int(),
+    cellM: num(),
+    refractorContinuation: literals(['planar-dip', 'flat'] as const),
+  },
+  { ...closed, title: 'Residuals' },
+);
+
+export const OpposingPairVelocitiesSchema = Type.Object(
+  {
+    shots: shotPair,
+    downDipVelocity: num(),
+    upDipVelocity: num(),
+    trueVelocity: num(),
+    trueVelocityGentleDip: num(),
+    dipDegrees: num(),
+    criticalAngleDegrees: num(),
+    depthUnderShots: Type.Array(Type.Object({ shot: str(), normalDepth: num(), verticalDepth: num() }, closed)),
+  },
+  { ...closed, title: 'OpposingPairVelocities' },
+);
+
+export const MinusTimeVelocitySchema = Type.Object(
+  {
+    velocity: num(),
+    standardError: num(),
+    count: int(),
+    distance: literals(['along-line', 'along-refractor'] as const),
+    alongLineVelocity: opt(num()),
+    segments: opt(
+      Type.Array(
+        Type.Object({ from: num(), to: num(), velocity: num(), standardError: num(), alongLineVelocity: num(), count: int() }, closed),
+      ),
+    ),
+  },
+  { ...closed, title: 'MinusTimeVelocity' },
+);
+
+export const VelocityAnalysisSchema = Type.Object(
+  {
+    v1: nullable(num()),
+    directVelocities: Type.Array(Type.Object({ shot: str(), side, velocity: num() }, closed)),
+    pairs: Type.Array(OpposingPairVelocitiesSchema),
+    minusTimeVelocity: nullable(MinusTimeVelocitySchema),
+  },
+  { ...closed, title: 'VelocityAnalysis' },
+);
+
+export const InterpretationSchema = Type.Object(
+  {
+    method: literals(KNOWN_METHODS, 'The method used.'),
+    name: opt(str()),
+    stations: Type.Array(StationSchema, { description: 'One entry per geophone, in order.' }),
+    layers: Type.Array(Type.Object({ velocity: num('m/s') }, closed), { description: 'Mean velocity per layer, top first.' }),
+    refractorVelocity: Type.Array(Type.Object({ from: num(), to: num(), velocity: num() }, closed), {
+      description: 'Laterally varying velocity of the first refractor, as segments along the line.',
+    }),
+    features: Type.Object(
+      {
+        steps: Type.Array(StepSchema),
+        velocityChanges: Type.Array(Type.Object({ x: num(), left: num(), right: num() }, closed)),
+        dip: nullable(DipSchema),
+        localDips: Type.Array(LocalDipSchema),
+      },
+      closed,
+    ),
+    qc: Type.Object(
+      {
+        reciprocal: Type.Array(ReciprocalCheckSchema),
+        warnings: Type.Array(WarningSchema),
+        residuals: opt(ResidualsSchema),
+      },
+      closed,
+    ),
+    shots: Type.Array(ShotAnalysisSchema),
+    velocityAnalysis: VelocityAnalysisSchema,
+    cautions: Type.Array(Type.String()),
+  },
+  { ...closed, title: 'Interpretation', description: 'What the engine says about a line (api-v1.md). Units: m, ms, m/s, degrees.' },
+);
+
+/** Compile-time: the schema describes exactly the Interpretation type. */
+export type InterpretationSchemaMatchesType = Assert<Same<Static<typeof InterpretationSchema>, Interpretation>>;

@@ -1,0 +1,143 @@
+/**
+ * The schemas every route declares: request bodies, query strings and responses. Fastify
+ * validates requests with them, serialises responses with them (undeclared fields are
+ * dropped, so the schemas must be complete: tests/server/schemas.test.ts checks that the
+ * interpretation comes out exactly as the engine made it), and @fastify/swagger turns them
+ * into GET /api/v1/openapi.json.
+ *
+ * A survey body is validated by the survey's own door (`server/survey-input.ts`): JSON
+ * through `validateSurvey` (limits, the JSON Schema, the rules), a pick table through
+ * `importPickTable` and then `validateSurvey`, so errors keep the contract's codes,
+ * JSON pointers and sentences.
+ */
+import { Type, type TSchema } from '@sinclair/typebox';
+import { SurveySchema } from '../engine/schemas/survey.js';
+import { InterpretationSchema } from '../engine/schemas/interpretation.js';
+
+const closed = { additionalProperties: false } as const;
+
+export const ProblemSchema = Type.Object(
+  {
+    path: Type.String({ description: 'JSON pointer of the offending value ("" for the whole body).' }),
+    code: Type.String({ description: 'Stable kebab-case code.' }),
+    message: Type.String(),
+  },
+  { ...closed, title: 'Problem' },
+);
+
+/** The contract's error body (api-v1.md): `problems` both inside `error` and beside it. */
+export const ErrorBodySchema = Type.Object(
+  {
+    error: Type.Object(
+      {
+        code: Type.String({ description: 'A code from the error catalogue (server/errors.ts).' }),
+        message: Type.String({ description: 'What is wrong, for a field geophysicist.' }),
+        path: Type.String({ description: 'JSON pointer of the offending value, e.g. "/shots/2/times/7".' }),
+        problems: Type.Optional(Type.Array(ProblemSchema)),
+      },
+      closed,
+    ),
+    problems: Type.Optional(Type.Array(ProblemSchema)),
+  },
+  { ...closed, title: 'Error' },
+);
+
+/** Error answers a route may give, by status. */
+export function errorResponses(...statuses: number[]): Record<number, TSchema> {
+  return Object.fromEntries(statuses.map((status) => [status, ErrorBodySchema]));
+}
+
+export const PickTableSchema = Type.String({
+  title: 'PickTable',
+  description: 'The survey as a pick table (CSV, one row per shot–geophone pair); see the README.',
+});
+
+/** A survey body: the survey document as JSON, or the same line as a pick table. */
+export const surveyBody = {
+  content: {
+    'application/json': { schema: SurveySchema },
+    'text/csv': { schema: PickTableSchema },
+  },
+};
+
+export const revisionQuerySchema = Type.Object(
+  { revision: Type.Optional(Type.Integer({ minimum: 1, description: 'A revision number; absent: the latest.' })) },
+);
+
+const LinksSchema = Type.Object(
+  { self: Type.String(), section: Type.String(), traveltimes: Type.String(), stations: Type.String(), interpretation: Type.String() },
+  { ...closed, title: 'Links' },
+);
+
+const shareUrl = Type.Union([Type.String(), Type.Null()], { description: 'Path of the read-only share page; null when revoked.' });
+
+export const SurveyCreatedSchema = Type.Object(
+  {
+    id: Type.String(),
+    name: Type.String(),
+    createdAt: Type.String(),
+    revision: Type.Integer(),
+    shareUrl,
+    url: Type.String(),
+    links: LinksSchema,
+    interpretation: InterpretationSchema,
+  },
+  { ...closed, title: 'SurveyCreated' },
+);
+
+export const RevisionCreatedSchema = Type.Object(
+  {
+    id: Type.String(),
+    name: Type.String(),
+    createdAt: Type.String(),
+    revision: Type.Integer(),
+    revisionCreatedAt: Type.String(),
+    shareUrl,
+    url: Type.String(),
+    links: LinksSchema,
+    interpretation: InterpretationSchema,
+  },
+  { ...closed, title: 'RevisionCreated' },
+);
+
+export const SurveyListSchema = Type.Array(
+  Type.Object(
+    {
+      id: Type.String(),
+      name: Type.String(),
+      createdAt: Type.String(),
+      updatedAt: Type.String(),
+      latestRevision: Type.Integer(),
+      shareUrl,
+      url: Type.String(),
+    },
+    { ...closed, title: 'SurveyListItem' },
+  ),
+);
+
+export const StoredSurveySchema = Type.Object(
+  {
+    id: Type.String(),
+    name: Type.String(),
+    createdAt: Type.String(),
+    updatedAt: Type.String(),
+    revision: Type.Integer(),
+    revisionCreatedAt: Type.String(),
+    latestRevision: Type.Integer(),
+    revisions: Type.Array(Type.Object({ revision: Type.Integer(), name: Type.String(), createdAt: Type.String() }, closed)),
+    shareUrl,
+    links: LinksSchema,
+    survey: SurveySchema,
+    interpretation: InterpretationSchema,
+  },
+  { ...closed, title: 'StoredSurvey' },
+);
+
+export const ShareIssuedSchema = Type.Object({ id: Type.String(), shareUrl: Type.String() }, { ...closed, title: 'ShareIssued' });
+
+export const HealthSchema = Type.Object({ status: Type.Literal('ok') }, closed);
+
+/** A response that is not JSON: described for the OpenAPI document, never serialised by a schema. */
+export function fileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {
+  return { description, content: { [mediaType]: { schema: Type.String() } } };
+}
