@@ -137,6 +137,7 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/api/v1/surveys/{id}/interpretation.json'],
     ['post', '/api/v1/surveys/{id}/share'],
     ['delete', '/api/v1/surveys/{id}/share'],
+    ['post', '/api/v1/previews'],
     ['post', '/api/v1/previews/section.svg'],
     ['post', '/api/v1/previews/traveltimes.svg'],
     ['post', '/api/v1/synthetic'],
@@ -168,7 +169,7 @@ describe('GET /api/v1/openapi.json', () => {
   });
 
   it('gives the survey routes both request bodies and the interpretation’s full schema', () => {
-    for (const path of ['/api/v1/interpretations', '/api/v1/surveys', '/api/v1/surveys/{id}/revisions', '/api/v1/previews/section.svg']) {
+    for (const path of ['/api/v1/interpretations', '/api/v1/surveys', '/api/v1/surveys/{id}/revisions', '/api/v1/previews', '/api/v1/previews/section.svg']) {
       const body = doc.paths[path].post.requestBody.content;
       expect(Object.keys(body).sort(), path).toEqual(['application/json', 'text/csv']);
       expect(Object.keys(body['application/json'].schema.properties), path).toEqual(['name', 'date', 'geophones', 'shots', 'options']);
