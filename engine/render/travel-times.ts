@@ -6,6 +6,7 @@
  * lines the interpretation reports — t = interceptMs + 1000·|x − shotX| / velocity over
  * fromX..toX (BranchLine in engine/interpretation.ts) — and fits nothing itself.
  */
+import { resolveOptions } from '../survey/options.js';
 import type { Survey } from '../survey/survey.js';
 import type { BranchLine, Interpretation, ShotAnalysis } from '../output/interpretation.js';
 import { CAUTIONS } from '../qc/cautions.js';
@@ -275,9 +276,10 @@ function shotX(survey: Survey, id: string): number | null {
   return shot ? shot.x : null;
 }
 
-function toleranceOf(check: { toleranceMs?: number }, survey: Survey): number | null {
-  const t = check.toleranceMs ?? survey.options?.reciprocalToleranceMs;
-  return typeof t === 'number' && Number.isFinite(t) ? t : null;
+/** The tolerance the check used; an interpretation stored before checks carried it falls back to the engine's resolved option. */
+function toleranceOf(check: { toleranceMs?: number }, survey: Survey): number {
+  const t = check.toleranceMs;
+  return typeof t === 'number' && Number.isFinite(t) ? t : resolveOptions(survey.options).reciprocalToleranceMs;
 }
 
 /**
@@ -310,7 +312,7 @@ function reciprocalMarks(parent: Container, labels: Container, interpretation: I
     }
     const tolerance = toleranceOf(check, survey);
     let text = `Δ ${formatMs(Math.abs(check.differenceMs))} ${check.shots[0]}/${check.shots[1]}`;
-    if (!check.ok) text += tolerance === null ? ', exceeds tolerance' : `, exceeds ${formatMs(tolerance)}`;
+    if (!check.ok) text += `, exceeds ${formatMs(tolerance)}`;
     const size = TEXT_MM.label * 0.85;
     const w = textWidthMm(text, size);
     const candidates: { x: number; y: number; anchor: 'start' | 'end' }[] = [];
@@ -340,7 +342,7 @@ function reciprocalSummary(interpretation: Interpretation, survey: Survey): { te
   if (checks.length === 0) return [{ text: 'no reciprocal pair to check', role: 'reciprocal-summary' }];
   if (checks.some((c) => !c.ok)) return []; // qcSummary already carries the alert line.
   const tolerance = toleranceOf(checks[0], survey);
-  const within = tolerance === null ? 'all within tolerance' : `all within ${formatMs(tolerance)}`;
+  const within = `all within ${formatMs(tolerance)}`;
   return [{ text: `reciprocal times: ${checks.length} ${checks.length === 1 ? 'pair' : 'pairs'}, ${within}`, role: 'reciprocal-summary' }];
 }
 
