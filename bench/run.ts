@@ -1,8 +1,9 @@
 /**
  * npm run bench. Three parts, each bounded in time:
  * 1. The engine table (issue 9): interpret with residuals off and on for flat two-layer
- *    lines of 24 … 1024 geophones (5 shots), 96 geophones with 10 … 64 shots and a rolling
- *    line of 240 geophones with 24 shots; beside each, JSON parse + serialise of the same
+ *    lines of 24 … 1024 geophones (5 shots), 96 geophones with 10 … 64 shots, a rolling
+ *    line of 240 geophones with 24 shots and the largest line, 1024 × 64 (last, so the
+ *    budget never skips the others); beside each, JSON parse + serialise of the same
  *    survey and result and the ratio; then the growth exponents (log-log slopes). Each case
  *    runs in a worker thread, stopped at a cap (CASE_CAP_MS per case) and skipped once
  *    the table has used TABLE_BUDGET_MS; the table says so.
@@ -87,6 +88,8 @@ async function engineTable(): Promise<void> {
     ...[24, 48, 96, 192, 480, 1024].map((g) => ({ kind: 'flat' as const, geophones: g, shots: 5, label: `flat ${g} × 5` })),
     ...[10, 20, 40, 64].map((s) => ({ kind: 'flat' as const, geophones: 96, shots: s, label: `flat 96 × ${s}` })),
     { kind: 'rolling', geophones: 240, shots: 24, active: 48, label: 'rolling 240 × 24 (48 live)' },
+    // The largest line the service takes (SURVEY_LIMITS): the 2 s target of issue 9.
+    { kind: 'flat', geophones: 1024, shots: 64, label: 'flat 1024 × 64' },
   ];
   console.log('## Engine time (interpret, wall median of up to 3 runs) against JSON parse + serialise');
   console.log('| line (geophones × shots) | residuals off, ms | residuals on, ms | on/off | JSON, ms | off/JSON | on/JSON | residual grid |');

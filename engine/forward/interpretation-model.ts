@@ -38,15 +38,25 @@ export const MODEL_MARGIN_X_M = 2;
 export const MODEL_DEPTH_BELOW_M = 2;
 
 /**
- * Grid cell: the finer of RESIDUAL_MAX_CELL_M and geophone spacing / CELLS_PER_SPACING,
- * not below RESIDUAL_MIN_CELL_M, then coarsened until the grid holds at most
- * RESIDUAL_MAX_NODES nodes and the whole line at most RESIDUAL_MAX_NODE_SOLVES node-solves.
- * At 0.5 m the solver's head-wave error is about 0.05 ms over a flat refractor and 0.06–0.11
- * ms over a 5° dip (docs/developers/forward.md), well under a pick's uncertainty.
+ * Grid cell: what the picks can resolve, from the geophone spacing d and the thinnest
+ * layer h under the geophones:
+ *   cell = d / n,  n = ⌈max(CELLS_PER_SPACING, CELLS_PER_LAYER·d/h, d/RESIDUAL_MAX_CELL_M)⌉,
+ * a whole number of cells per spacing (evenly spaced geophones on grid nodes), not below
+ * RESIDUAL_MIN_CELL_M, then coarsened until the grid holds at most RESIDUAL_MAX_NODES nodes
+ * and the whole line at most RESIDUAL_MAX_NODE_SOLVES node-solves. One grid per line,
+ * shared by every shot. Our choice, from measurement on the 66 recorded lines
+ * (docs/developers/residuals.md): the modelled times are compared only at the geophones,
+ * so a cell finer than a quarter spacing adds little the picks can show; a head wave's
+ * path needs several cells across the layer above it (3 m layers: noise-free RMS 0.02 ms
+ * at 9 cells across, 0.12 ms at 8 cells when the geophones fell between nodes); over
+ * dipping refractors 0.75 m cells gave 0.11 ms, 0.6 m 0.06 ms. With this rule no
+ * recorded noise-free line went above 0.1 ms; the former fixed min(0.5 m, spacing/6) gave
+ * RMS within 0.02 ms of it at 1.2–2× the nodes.
  */
-export const RESIDUAL_MAX_CELL_M = 0.5;
+export const RESIDUAL_MAX_CELL_M = 0.6;
 export const RESIDUAL_MIN_CELL_M = 0.1;
-export const CELLS_PER_SPACING = 6;
+export const CELLS_PER_SPACING = 4;
+export const CELLS_PER_LAYER = 8;
 export const RESIDUAL_MAX_NODES = 300_000;
 /** About one second of solving on the 2-core machine (0.3–0.4 µs per node and shot). */
 export const RESIDUAL_MAX_NODE_SOLVES = 3_000_000;
@@ -147,13 +157,18 @@ export function modelFromInterpretation(survey: Survey, interpretation: Interpre
  * The grid for modelling a line through an interpretation model: x over the model's
  * range, elevations from MODEL_DEPTH_BELOW_M under the deepest interface to the ground
  * skin above the highest ground, cell size as RESIDUAL_MAX_CELL_M describes.
+ * Cost O(G log G + V log V) for G geophones and V model vertices.
  */
 export function residualGridExtent(built: InterpretationModel, survey: Survey): { extent: GridExtent; nodes: number } {
   const xs = survey.geophones.map((g) => g.x);
   const spacings = xs.slice(1).map((x, i) => x - xs[i]).sort((a, b) => a - b);
   const medianSpacing = spacings.length > 0 ? spacings[Math.floor(spacings.length / 2)] : RESIDUAL_MAX_CELL_M * CELLS_PER_SPACING;
-  let cellM = Math.max(RESIDUAL_MIN_CELL_M, Math.min(RESIDUAL_MAX_CELL_M, medianSpacing / CELLS_PER_SPACING));
   const { xMinM, xMaxM, model } = built;
+  // Under the geophones: what the picks see (the model's continuation beyond them may thin out).
+  const layerM = xs.length > 0 ? thinnestLayerM(model, Math.min(...xs), Math.max(...xs)) : Infinity;
+  // A whole number of cells per spacing, so that evenly spaced geophones sit on grid nodes.
+  const perSpacing = Math.ceil(Math.max(CELLS_PER_SPACING, (CELLS_PER_LAYER * medianSpacing) / layerM, medianSpacing / RESIDUAL_MAX_CELL_M) - 1e-9);
+  let cellM = Math.max(RESIDUAL_MIN_CELL_M, Math.min(RESIDUAL_MAX_CELL_M, medianSpacing / perSpacing));
   const high = polylineMax(model.surface, xMinM, xMaxM);
   let low = polylineMin(model.surface, xMinM, xMaxM);
   for (const layer of model.layers) if (layer.top) low = Math.min(low, polylineMin(layer.top, xMinM, xMaxM));
@@ -358,6 +373,31 @@ function thin(points: ModelPoint[]): ModelPoint[] {
   const out: ModelPoint[] = [];
   for (let k = 0; k < max; k++) out.push(points[Math.round((k * (points.length - 1)) / (max - 1))]);
   return out;
+}
+
+/**
+ * Least vertical thickness of any layer above an interface inside [xMin, xMax], m: the
+ * ground to the first interface, and each interface to the next, compared at every vertex
+ * of either polyline and at the ends (both are linear in between, so the least distance
+ * is at one of those x). Infinity without an interface. O(V log V) for V vertices.
+ */
+function thinnestLayerM(model: LayeredModel, xMin: number, xMax: number): number {
+  const bounds: readonly ModelPoint[][] = [model.surface, ...model.layers.flatMap((l) => (l.top ? [l.top] : []))];
+  let least = Infinity;
+  for (let k = 0; k + 1 < bounds.length; k++) {
+    const upper = bounds[k];
+    const lower = bounds[k + 1];
+    const at = (x: number): void => {
+      const thickness = elevationAt(upper, x) - elevationAt(lower, x);
+      // Where the interfaces touch or cross the layer is absent, not thin.
+      if (x >= xMin && x <= xMax && thickness > 0) least = Math.min(least, thickness);
+    };
+    at(xMin);
+    at(xMax);
+    for (const p of upper) at(p.x);
+    for (const p of lower) at(p.x);
+  }
+  return least;
 }
 
 function polylineMin(points: readonly ModelPoint[], xMin: number, xMax: number): number {

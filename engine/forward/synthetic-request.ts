@@ -43,8 +43,16 @@ export const SYNTHETIC_LIMITS = {
   minCellM: 0.05,
   maxCellM: 10,
   maxSpacingM: 1000,
-  /** Grid nodes × shots: bounds the time of one request to a few seconds. */
-  maxNodeSolves: 40_000_000,
+  /**
+   * Grid nodes × shots. The route solves every shot once for the line and, for the
+   * blind-zone check (refractor-visibility.ts), up to this many node-solves again on a
+   * coarsened grid: at most twice this many in all. Measured on the 2-core machine (load
+   * ≈ 2), 64 shots at the limit: 1.2 s with two layers, 2.9 s with three (0.11–0.21 µs
+   * per node-solve for the line, more for the check), so a request stays within a few
+   * seconds, and under the service's 10 s time limit (server/compute/pool.ts) on a loaded
+   * machine. Was 40 million: 19 s measured at the limit. Our choice.
+   */
+  maxNodeSolves: 4_000_000,
 } as const;
 
 const REQUEST_FIELDS = new Set(['model', 'layout', 'noiseMs', 'seed', 'cellM']);

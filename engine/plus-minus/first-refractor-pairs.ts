@@ -15,7 +15,9 @@ import { reciprocalTimeOf } from './weighted-plus-times.js';
  * One input per opposing pair whose reciprocal check could be made (reciprocal-checks.ts
  * has already said why the others could not). tAB is the mean of the check's two readings;
  * the pair is trusted when the check passed (the check already widens its tolerance for
- * long extrapolations). Cost: O(pairs · (checks + geophones)).
+ * long extrapolations). Cost: O(checks + shots · geophones + pairs): the checks looked up
+ * by their two shot ids in one map, each shot side's head-wave times built once and
+ * shared by every pair it belongs to (they are read, never changed, downstream).
  */
 export function firstRefractorPairs(
   survey: Survey,
@@ -26,14 +28,25 @@ export function firstRefractorPairs(
 ): OpposingPairInput[] {
   const spacingM = geophoneSpacingM(survey.geophones);
   const out: OpposingPairInput[] = [];
+  const checkOf = reciprocalCheckIndex(checks);
+  const timesByShotSide = new Map<string, HeadWaveTimes>();
+  const timesOf = (shot: ShotAnalysis, side: Side): HeadWaveTimes => {
+    const key = `${side}\u0000${shot.id}`;
+    let t = timesByShotSide.get(key);
+    if (!t) {
+      t = headWaveTimes(survey, shot, side, phantoms, pickSigmaMs);
+      timesByShotSide.set(key, t);
+    }
+    return t;
+  };
   for (const [a, b] of pairs) {
-    const check = reciprocalCheckOf(checks, a.id, b.id);
+    const check = checkOf(a.id, b.id);
     if (!check) continue;
     out.push({
       left: a,
       right: b,
-      leftTimes: headWaveTimes(survey, a, 'right', phantoms, pickSigmaMs),
-      rightTimes: headWaveTimes(survey, b, 'left', phantoms, pickSigmaMs),
+      leftTimes: timesOf(a, 'right'),
+      rightTimes: timesOf(b, 'left'),
       reciprocalTimeMs: (check.forwardMs + check.reverseMs) / 2,
       reciprocalVarianceMs2: reciprocalVarianceMs2(check, pickSigmaMs, spacingM),
       trusted: check.ok,
@@ -42,11 +55,21 @@ export function firstRefractorPairs(
   return out;
 }
 
-/** The reciprocal check of a pair, either way round; null when it could not be made. */
-function reciprocalCheckOf(checks: ReciprocalCheck[], a: string, b: string): ReciprocalCheck | null {
-  const c = checks.find((k) => (k.shots[0] === a && k.shots[1] === b) || (k.shots[0] === b && k.shots[1] === a));
-  if (!c || !Number.isFinite(c.forwardMs) || !Number.isFinite(c.reverseMs)) return null;
-  return c;
+/**
+ * The reciprocal check of a pair, either way round (the first in the list, as a search
+ * would find it); null when it could not be made. Building O(checks), each look-up O(1).
+ */
+function reciprocalCheckIndex(checks: ReciprocalCheck[]): (a: string, b: string) => ReciprocalCheck | null {
+  const byKey = new Map<string, ReciprocalCheck>();
+  const key = (a: string, b: string): string => `${a.length}:${a}\u0000${b}`;
+  for (const k of checks) {
+    for (const id of [key(k.shots[0], k.shots[1]), key(k.shots[1], k.shots[0])]) if (!byKey.has(id)) byKey.set(id, k);
+  }
+  return (a, b) => {
+    const c = byKey.get(key(a, b));
+    if (!c || !Number.isFinite(c.forwardMs) || !Number.isFinite(c.reverseMs)) return null;
+    return c;
+  };
 }
 
 /**

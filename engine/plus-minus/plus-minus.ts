@@ -84,27 +84,39 @@ export interface WeightedCombination {
  * mean = Σ w_k·v_k / Σ w_k, σ = 1/√(Σ w_k) (Bevington & Robinson, Data Reduction and Error
  * Analysis, 3rd ed., 2003, ch. 4). Every pair estimates the same 2·aG (Hagedoorn 1959), so
  * the weighting only decides how much each is trusted. A missing or non-positive variance
- * leaves the value out.
+ * leaves the value out. Cost O(K·N) for K pairs and N geophones, no allocation per
+ * geophone (two passes over the pairs at each geophone: the sums, then χ² about the mean).
  */
 export function combineWeighted(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
   const out: WeightedCombination = { valueMs: [], sigmaMs: [], pairCount: [], chiSquare: [] };
   for (let i = 0; i < geophoneCount; i++) {
     let sw = 0;
     let swv = 0;
-    const used: [number, number][] = [];
-    values.forEach((pair, k) => {
-      const v = pair[i];
+    let used = 0;
+    for (let k = 0; k < values.length; k++) {
+      const v = values[k][i];
       const variance = variances[k]?.[i];
-      if (!isTime(v) || !isTime(variance) || !(variance > 0)) return;
+      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
       sw += 1 / variance;
       swv += v / variance;
-      used.push([v, 1 / variance]);
-    });
+      used++;
+    }
     const mean = sw > 0 ? swv / sw : null;
+    let chi: number | null = null;
+    if (mean !== null && used > 1) {
+      // Σ w_k·(v_k − mean)² over the same pairs, in the same order.
+      chi = 0;
+      for (let k = 0; k < values.length; k++) {
+        const v = values[k][i];
+        const variance = variances[k]?.[i];
+        if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+        chi = chi + (1 / variance) * (v - mean) ** 2;
+      }
+    }
     out.valueMs.push(mean);
     out.sigmaMs.push(sw > 0 ? 1 / Math.sqrt(sw) : null);
-    out.pairCount.push(used.length);
-    out.chiSquare.push(mean !== null && used.length > 1 ? used.reduce((s, [v, w]) => s + w * (v - mean) ** 2, 0) : null);
+    out.pairCount.push(used);
+    out.chiSquare.push(chi);
   }
   return out;
 }
@@ -117,39 +129,80 @@ export function combineWeighted(values: (number | null)[][], variances: (number 
  * shifted by the weighted mean of its difference from the profile built so far over
  * their common geophones, then all are combined by inverse-variance weighting. Pairs that
  * share no geophone with the rest are left out.
+ *
+ * Cost O(K·N + K²) for K pairs and N geophones: the profile built so far is kept as
+ * running sums Σw, Σw·v per geophone (added to in the order combineWeighted would add,
+ * so its mean is the same number), and each pending pair's overlap with it as a count
+ * raised when a geophone is first covered (each geophone once); choosing the next pair
+ * is a scan of the K counts. The plain form (recombining everything for every pair added,
+ * O(K²·N)) is tests/helpers/plain-minus-times.ts, compared with this one in
+ * tests/engine/combine-minus-times.test.ts.
  */
 export function combineMinusTimes(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
-  const has = (k: number, i: number): boolean => isTime(values[k][i]) && isTime(variances[k][i]) && (variances[k][i] as number) > 0;
-  const count = (k: number): number => values[k].filter((_, i) => has(k, i)).length;
-  const order = values.map((_, k) => k).filter((k) => count(k) > 0).sort((p, q) => count(q) - count(p) || p - q);
+  const pairCount = values.length;
+  const n = geophoneCount;
+  // has[k·N + i]: pair k has a usable value at geophone i. O(K·N).
+  const has = new Uint8Array(pairCount * n);
+  const count = new Int32Array(pairCount);
+  for (let k = 0; k < pairCount; k++) {
+    for (let i = 0; i < n; i++) {
+      const v = values[k][i];
+      const variance = variances[k][i];
+      if (isTime(v) && isTime(variance) && variance > 0) {
+        has[k * n + i] = 1;
+        count[k]++;
+      }
+    }
+  }
+  const order: number[] = [];
+  for (let k = 0; k < pairCount; k++) if (count[k] > 0) order.push(k);
+  order.sort((p, q) => count[q] - count[p] || p - q);
   if (order.length === 0) return combineWeighted([], [], geophoneCount);
-  const shifted: (number | null)[][] = [values[order[0]]];
-  const shiftedVar: (number | null)[][] = [variances[order[0]]];
+
+  const sw = new Float64Array(n);
+  const swv = new Float64Array(n);
+  const overlap = new Int32Array(pairCount);
   const pending = order.slice(1);
+  const shifted: (number | null)[][] = [];
+  const shiftedVar: (number | null)[][] = [];
+  /** Adds one (shifted) pair to the running sums; counts newly covered geophones for the pending pairs. O(N + K·new). */
+  const add = (row: (number | null)[], rowVar: (number | null)[]): void => {
+    shifted.push(row);
+    shiftedVar.push(rowVar);
+    for (let i = 0; i < n; i++) {
+      const v = row[i];
+      const variance = rowVar[i];
+      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      const wasCovered = sw[i] > 0;
+      sw[i] += 1 / variance;
+      swv[i] += v / variance;
+      if (!wasCovered && sw[i] > 0) for (const k of pending) overlap[k] += has[k * n + i];
+    }
+  };
+  add(values[order[0]], variances[order[0]]);
   while (pending.length > 0) {
-    const current = combineWeighted(shifted, shiftedVar, geophoneCount).valueMs;
+    // The first pending pair (in order) with the most overlap, as the plain form chooses.
     let best = -1;
     let bestOverlap = 0;
-    pending.forEach((k, j) => {
-      const overlap = current.filter((c, i) => c !== null && has(k, i)).length;
-      if (overlap > bestOverlap) {
-        bestOverlap = overlap;
+    for (let j = 0; j < pending.length; j++) {
+      if (overlap[pending[j]] > bestOverlap) {
+        bestOverlap = overlap[pending[j]];
         best = j;
       }
-    });
+    }
     if (best < 0) break;
     const k = pending.splice(best, 1)[0];
-    let sw = 0;
-    let swd = 0;
-    current.forEach((c, i) => {
-      if (c === null || !has(k, i)) return;
+    let sumW = 0;
+    let sumWD = 0;
+    for (let i = 0; i < n; i++) {
+      if (!(sw[i] > 0) || !has[k * n + i]) continue;
+      const c = swv[i] / sw[i];
       const w = 1 / (variances[k][i] as number);
-      sw += w;
-      swd += w * ((values[k][i] as number) - c);
-    });
-    const offset = swd / sw;
-    shifted.push(values[k].map((v) => (isTime(v) ? v - offset : null)));
-    shiftedVar.push(variances[k]);
+      sumW += w;
+      sumWD += w * ((values[k][i] as number) - c);
+    }
+    const offset = sumWD / sumW;
+    add(values[k].map((v) => (isTime(v) ? v - offset : null)), variances[k]);
   }
   return combineWeighted(shifted, shiftedVar, geophoneCount);
 }

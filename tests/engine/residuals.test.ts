@@ -172,15 +172,49 @@ describe('modelFromInterpretation', () => {
     expect(built.model.layers[1].velocity).toEqual({ contactsX: [22], velocities: [2000, 3000] });
   });
 
-  it('chooses a cell of at most 0.5 m and spacing/6, and reaches past the off-end shots', () => {
+  it('chooses a cell of a whole fraction of the spacing (2 m / 4 over a 6 m layer), and reaches past the off-end shots', () => {
     const built = modelFromInterpretation(flat, plain);
     if (!built.ok) throw new Error(built.reason);
     const { extent } = residualGridExtent(built, flat);
     expect(extent.cellM).toBeLessThanOrEqual(RESIDUAL_MAX_CELL_M);
-    expect(extent.cellM).toBeCloseTo(2 / 6, 6);
+    expect(extent.cellM).toBeCloseTo(2 / 4, 6);
     expect(extent.xMin).toBeLessThan(-20);
     expect(extent.xMax).toBeGreaterThan(66);
   });
+});
+
+describe('the cell follows the thinnest layer under the geophones', () => {
+  it('takes more cells per spacing over a thin layer (2 m spacing, 1.5 m layer: 2 m / ⌈8·2/1.5⌉ = 2 m / 11)', () => {
+    const built = modelFromInterpretation(flat, interpret({ ...flat, options: { residuals: false } }));
+    if (!built.ok) throw new Error(built.reason);
+    // The same model with its refractor raised to 1.5 m under the ground everywhere.
+    const surface = built.model.surface;
+    const thin = { ...built, model: { ...built.model, layers: built.model.layers.map((l, k) => (k === 1 ? { ...l, top: surface.map((p) => ({ x: p.x, elevation: p.elevation - 1.5 })) } : l)) } };
+    expect(residualGridExtent(thin, flat).extent.cellM).toBeCloseTo(2 / 11, 6);
+  });
+});
+
+describe('a long line (480 geophones, 3 m spacing, 8 m to the refractor, closed-form picks)', () => {
+  it('keeps the noise-free residual RMS under 0.1 ms with the cell the rule gives (3 m / 5 = 0.6 m)', () => {
+    const model = { v1: 600, v2: 2400, refractorElevationAtZero: 92, dipDegrees: 0 };
+    const xs = Array.from({ length: 480 }, (_, i) => 3 * i);
+    const last = xs[xs.length - 1];
+    const shotXs = [-30, -1.5, 718.5, last + 1.5, last + 30];
+    const survey: Survey = {
+      name: 'long flat line',
+      geophones: xs.map((x) => ({ x, elevation: 100 })),
+      shots: shotXs.map((sx, k) => ({
+        id: `L${k + 1}`,
+        x: sx,
+        elevation: 100,
+        times: xs.map((x) => Math.round(firstArrivalMs(model, { x: sx, elevation: 100 }, { x, elevation: 100 }) * 10) / 10),
+      })),
+    };
+    const r = interpret(survey).qc.residuals as unknown as { cellM: number; rmsMs: number };
+    expect(r.cellM).toBeCloseTo(0.6, 6);
+    // Picks rounded to 0.1 ms scatter by about 0.03 ms about the exact times.
+    expect(r.rmsMs).toBeLessThan(0.1);
+  }, 60_000);
 });
 
 describe('odd surveys', () => {

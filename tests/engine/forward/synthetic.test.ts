@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { syntheticSurvey, SyntheticError, type SyntheticLayout } from '../../../engine/forward/synthetic.js';
-import { validateSyntheticRequest, syntheticSurveyFromRequest } from '../../../engine/forward/synthetic-request.js';
+import { validateSyntheticRequest, syntheticSurveyFromRequest, SYNTHETIC_LIMITS } from '../../../engine/forward/synthetic-request.js';
 import type { LayeredModel } from '../../../engine/forward/model.js';
 import { firstArrivalMs } from '../../../engine/forward/planar-refractor.js';
 
@@ -169,5 +169,19 @@ describe('validateSyntheticRequest', () => {
     const problems = validateSyntheticRequest({ model: deep, layout, cellM: 0.1 });
     expect(problems.map((p) => p.code)).toEqual(['grid-too-large']);
     expect(problems[0].path).toBe('/cellM');
+  });
+
+  it('refuses nodes × shots above SYNTHETIC_LIMITS.maxNodeSolves, and accepts the same line with fewer shots', () => {
+    // A 2 km section about 40 m deep at 0.25 m: ≈ 8000 × 190 nodes, ≈ 1.5 million; 64 shots is ≈ 97 million node-solves.
+    const long: LayeredModel = {
+      surface: [{ x: 0, elevation: 100 }, { x: 2000, elevation: 100 }],
+      layers: [{ velocity: 600 }, { velocity: 2400, top: [{ x: 0, elevation: 70 }, { x: 2000, elevation: 70 }] }],
+    };
+    const wide = { geophoneCount: 1000, firstX: 0, spacing: 2 };
+    const shots = (n: number): { x: number }[] => Array.from({ length: n }, (_, i) => ({ x: (i * 1998) / Math.max(1, n - 1) }));
+    const many = validateSyntheticRequest({ model: long, layout: { ...wide, shots: shots(64) } });
+    expect(many.map((p) => p.code)).toEqual(['too-much-work']);
+    expect(many[0].message).toContain(String(SYNTHETIC_LIMITS.maxNodeSolves));
+    expect(validateSyntheticRequest({ model: long, layout: { ...wide, shots: shots(2) } })).toEqual([]);
   });
 });
