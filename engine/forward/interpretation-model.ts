@@ -30,6 +30,7 @@ import type { GridExtent, LateralVelocity, LayeredModel, ModelLayer } from './mo
 import { GROUND_SKIN_CELLS, MODEL_LIMITS, layerVelocityAt } from './model.js';
 import { elevationAt, type ModelPoint } from './polyline.js';
 import { nodesAlong } from './velocity-grid.js';
+import { isFiniteNumber } from '../shared/numbers.js';
 
 /** How far the model reaches beyond the outermost shot or geophone, m. */
 export const MODEL_MARGIN_X_M = 2;
@@ -114,8 +115,8 @@ export function modelFromInterpretation(survey: Survey, interpretation: Interpre
     return { ok: false, reason: 'the interpretation does not give one station per geophone' };
   }
   const xs = stations.map((s) => s.x);
-  const ground = stations.map((s, i) => (isNum(s.elevation) ? s.elevation : survey.geophones[i].elevation ?? 0));
-  const firstDepth = stations.map((s) => (isNum(s.depth) ? s.depth : null));
+  const ground = stations.map((s, i) => (isFiniteNumber(s.elevation) ? s.elevation : survey.geophones[i].elevation ?? 0));
+  const firstDepth = stations.map((s) => (isFiniteNumber(s.depth) ? s.depth : null));
   if (firstDepth.every((d) => d === null)) {
     return { ok: false, reason: 'no station has a depth to the refractor' };
   }
@@ -126,7 +127,7 @@ export function modelFromInterpretation(survey: Survey, interpretation: Interpre
   const surface = groundSurface(survey, interpretation);
 
   const dip = interpretation.features?.dip;
-  const slope = dip && isNum(dip.degrees) && Math.abs(dip.degrees) < 45 ? -Math.tan((dip.degrees * Math.PI) / 180) : 0;
+  const slope = dip && isFiniteNumber(dip.degrees) && Math.abs(dip.degrees) < 45 ? -Math.tan((dip.degrees * Math.PI) / 180) : 0;
   const v2Along = refractorVelocity(interpretation, v2Mean);
   const anchors = shotAnchors(survey, interpretation, xs, firstDepth, surface, v1Mean, v2Along, slope);
   const first = interfaceUnderStations(xs, ground, firstDepth, slope, xMinM, xMaxM, anchors);
@@ -136,7 +137,7 @@ export function modelFromInterpretation(survey: Survey, interpretation: Interpre
     { velocity: v2Along, top: first.points },
   ];
   const v3 = interpretation.layers[2]?.velocity;
-  const secondDepth = stations.map((s) => (isNum(s.depths?.[1]) ? (s.depths[1] as number) : null));
+  const secondDepth = stations.map((s) => (isFiniteNumber(s.depths?.[1]) ? (s.depths[1] as number) : null));
   if (isVelocity(v3) && secondDepth.some((d) => d !== null)) {
     layers.push({ velocity: v3, top: interfaceUnderStations(xs, ground, secondDepth, 0, xMinM, xMaxM).points });
   }
@@ -196,7 +197,7 @@ export function residualGridExtent(built: InterpretationModel, survey: Survey): 
 function groundSurface(survey: Survey, interpretation: Interpretation): ModelPoint[] {
   const points: ModelPoint[] = interpretation.stations.map((s, i) => ({
     x: s.x,
-    elevation: isNum(s.elevation) ? s.elevation : survey.geophones[i].elevation ?? 0,
+    elevation: isFiniteNumber(s.elevation) ? s.elevation : survey.geophones[i].elevation ?? 0,
   }));
   const geophoneSurface = [...points];
   for (const shot of survey.shots) {
@@ -211,9 +212,9 @@ function groundSurface(survey: Survey, interpretation: Interpretation): ModelPoi
 /** Elevation of a shot as the interpretation used it: its own, else from the geophones. */
 export function shotElevationM(survey: Survey, interpretation: Interpretation, id: string, x: number, geophoneSurface: ModelPoint[]): number {
   const own = survey.shots.find((s) => s.id === id)?.elevation;
-  if (isNum(own)) return own;
+  if (isFiniteNumber(own)) return own;
   const analysed = interpretation.shots?.find((s) => s.id === id)?.elevation;
-  if (isNum(analysed)) return analysed;
+  if (isFiniteNumber(analysed)) return analysed;
   return elevationAt(geophoneSurface, x);
 }
 
@@ -294,7 +295,7 @@ function shotAnchors(
     const samples: number[] = [];
     shot.times.forEach((t, i) => {
       const delay = interpretation.stations[i]?.delayTime;
-      if (analysis.branchOfPick?.[i] !== 1 || typeof t !== 'number' || !isNum(delay)) return;
+      if (analysis.branchOfPick?.[i] !== 1 || typeof t !== 'number' || !isFiniteNumber(delay)) return;
       // Along the refractor at the model's own V2(x), so the anchor agrees with the model it goes into.
       samples.push(t - delay - slownessIntegralMs(v2Along, xs[i], shot.x));
     });
@@ -351,7 +352,7 @@ function topLayerVelocity(interpretation: Interpretation, fallback: number): num
  */
 function refractorVelocity(interpretation: Interpretation, fallback: number): number | LateralVelocity {
   const segments = (interpretation.refractorVelocity ?? [])
-    .filter((s) => isVelocity(s.velocity) && isNum(s.from) && isNum(s.to))
+    .filter((s) => isVelocity(s.velocity) && isFiniteNumber(s.from) && isFiniteNumber(s.to))
     .sort((a, b) => a.from - b.from);
   if (segments.length === 0) return fallback;
   const contactsX: number[] = [];
@@ -412,10 +413,7 @@ function polylineMax(points: readonly ModelPoint[], xMin: number, xMax: number):
   return v;
 }
 
-function isNum(v: unknown): v is number {
-  return typeof v === 'number' && Number.isFinite(v);
-}
 
 function isVelocity(v: unknown): v is number {
-  return isNum(v) && v >= MODEL_LIMITS.minVelocityMPerS && v <= MODEL_LIMITS.maxVelocityMPerS;
+  return isFiniteNumber(v) && v >= MODEL_LIMITS.minVelocityMPerS && v <= MODEL_LIMITS.maxVelocityMPerS;
 }

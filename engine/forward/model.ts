@@ -26,6 +26,7 @@
 import { elevationAt, type ModelPoint } from './polyline.js';
 import { GridError, MAX_GRID_NODES, checkGridSize, nodesAlong, type VelocityGrid } from './velocity-grid.js';
 import type { Problem } from '../survey/problem.js';
+import { isFiniteNumber } from '../shared/numbers.js';
 
 export type { ModelPoint } from './polyline.js';
 
@@ -276,9 +277,6 @@ function isObject(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
-function isFiniteNumber(v: unknown): v is number {
-  return typeof v === 'number' && Number.isFinite(v);
-}
 
 type AddProblem = (path: string, code: string, message: string) => void;
 

@@ -27,6 +27,7 @@ import { MAX_GRID_NODES, nodesAlong } from './velocity-grid.js';
 import { DEFAULT_CELL_M, syntheticGridExtent, syntheticSurvey, type SyntheticLayout, type SyntheticOptions } from './synthetic.js';
 import { SURVEY_LIMITS, type Survey } from '../survey/survey.js';
 import type { Problem } from '../survey/problem.js';
+import { isFiniteNumber } from '../shared/numbers.js';
 
 export interface SyntheticRequest {
   model: LayeredModel;
@@ -207,6 +208,3 @@ function isObject(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
-function isFiniteNumber(v: unknown): v is number {
-  return typeof v === 'number' && Number.isFinite(v);
-}

@@ -17,6 +17,7 @@ import { elevationAt } from './polyline.js';
 import { seededUniform, standardNormal } from './seeded-random.js';
 import { checkSyntheticInputs } from './synthetic-request.js';
 import type { Problem } from '../survey/problem.js';
+import { roundTo } from '../shared/numbers.js';
 
 export interface SyntheticLayout {
   /** Number of geophones, 1–1024. */
@@ -169,7 +170,3 @@ function polylineRange(points: readonly { x: number; elevation: number }[], xMin
   return { min, max };
 }
 
-function roundTo(value: number, decimals: number): number {
-  const f = 10 ** decimals;
-  return Math.round(value * f) / f;
-}

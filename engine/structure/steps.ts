@@ -115,9 +115,13 @@ function localDepth(xM: readonly number[], depth: readonly (number | null)[], c:
   return best;
 }
 
-function medianSpacing(x: readonly number[]): number {
+/**
+ * The spacing of sorted positions, m: the upper median of the gaps (a missing geophone's
+ * double gap does not move it); `whenNone` for fewer than two positions. O(n log n).
+ */
+export function medianSpacing(x: readonly number[], whenNone = 0): number {
   const d = x.slice(1).map((v, i) => v - x[i]).sort((a, b) => a - b);
-  return d.length ? d[d.length >> 1] : 0;
+  return d.length ? d[d.length >> 1] : whenNone;
 }
 
 /** Throw Δz = Δt·V1/cos(ic), m, from a delay jump in ms. */

@@ -29,6 +29,7 @@ import {
   type PlanarDipFit,
 } from './index.js';
 import { minusTimeVelocity, type MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
+import { medianSpacing } from './steps.js';
 
 /** A refracted branch of one shot on one side of it (its own picks only, never phantomed). */
 export interface RefractedBranch {
@@ -126,7 +127,7 @@ export function findSteps(input: StepSearchInput): FoundStep[] {
   if (!(v2 > v1) || xM.length < 6) return [];
   const referred = referredDelayTimesMs(input);
   const present = referred.filter((d) => d !== null).length;
-  const spacing = medianSpacing(xM);
+  const spacing = medianSpacing(xM, 1);
   const delaySteps: DelayTimeStep[] = (
     present >= 6 ? findDelayTimeSteps(xM, referred, { pickSigmaMs, v1MPerS: v1, v2MPerS: v2, depthM: input.normalDepthM }) : []
   ).map((d) => {
@@ -178,7 +179,7 @@ export function findSteps(input: StepSearchInput): FoundStep[] {
  */
 export function stepZones(steps: FoundStep[], xM: number[], normalDepthM: (number | null)[], v1: number, v2: number): { from: number; to: number }[] {
   const tanIc = Math.tan(Math.asin(Math.min(0.999, v1 / v2)));
-  const spacing = medianSpacing(xM);
+  const spacing = medianSpacing(xM, 1);
   return steps.map((s) => {
     const z = Math.max(0, ...normalDepthM.filter((d, i): d is number => d !== null && Math.abs(xM[i] - s.x) <= 3 * spacing + 10));
     const half = Math.max(s.rampWidthM, 2 * z * tanIc, spacing) / 2 + z * tanIc + spacing;
@@ -212,7 +213,7 @@ export function bendZones(
   elevationSigmaM: number,
 ): { from: number; to: number }[] {
   const tanIc = Math.tan(Math.asin(Math.min(0.999, v1 / v2)));
-  const spacing = medianSpacing(xM);
+  const spacing = medianSpacing(xM, 1);
   const idx = xM.map((_, i) => i).filter((i) => refractorElevationM[i] !== null);
   const slopeOf = (points: number[]): { b: number; sxx: number } | null => {
     if (points.length < 2) return null;
@@ -412,7 +413,3 @@ export function mergeZones(zones: { from: number; to: number }[]): { from: numbe
   return out;
 }
 
-function medianSpacing(x: readonly number[]): number {
-  const d = x.slice(1).map((v, i) => v - x[i]).sort((a, b) => a - b);
-  return d.length ? d[d.length >> 1] : 1;
-}
