@@ -19,7 +19,10 @@
  *   off-end shots), the refractor is continued along the interpretation's planar dip
  *   (features.dip) when the interpretation reports one, and flat (the outermost refractor
  *   elevation held) when it does not. Our choice: it adds nothing the interpretation does
- *   not say. The second refractor, which has no dip of its own, is always continued flat.
+ *   not say. The second refractor is anchored under off-end shots by their branch-2 picks
+ *   (secondRefractorAnchors) and beyond that continued along the least-squares slope of its
+ *   own interpreted elevations (it has no reported dip of its own; the trend of its depths
+ *   is what the interpretation says about it).
  * The model reaches MODEL_MARGIN_X_M beyond the outermost shot or geophone.
  *
  * Units: m, m/s. Pure; never throws for an interpretation without depths (it says why).
@@ -139,7 +142,11 @@ export function modelFromInterpretation(survey: Survey, interpretation: Interpre
   const v3 = interpretation.layers[2]?.velocity;
   const secondDepth = stations.map((s) => (isFiniteNumber(s.depths?.[1]) ? (s.depths[1] as number) : null));
   if (isVelocity(v3) && secondDepth.some((d) => d !== null)) {
-    layers.push({ velocity: v3, top: interfaceUnderStations(xs, ground, secondDepth, 0, xMinM, xMaxM).points });
+    const secondSlope = fittedSlope(xs, ground, secondDepth);
+    const v1At = (x: number): number => layerVelocityAt(layers[0].velocity, x);
+    const v2At = (x: number): number => layerVelocityAt(v2Along, x);
+    const secondAnchors = secondRefractorAnchors(survey, interpretation, xs, ground, secondDepth, surface, first.points, v1At, v2At, v3);
+    layers.push({ velocity: v3, top: interfaceUnderStations(xs, ground, secondDepth, secondSlope, xMinM, xMaxM, secondAnchors).points });
   }
   return {
     ok: true,
@@ -311,6 +318,102 @@ function shotAnchors(
     // Vertical depth from the normal depth over a refractor of the interpretation's dip.
     const refractorElevation = ground - (delayTimeMs * depthPerDelayM) * Math.sqrt(1 + slope * slope);
     anchors.push({ shot: shot.id, x: shot.x, delayTimeMs, refractorElevation, count: samples.length });
+  }
+  return anchors;
+}
+
+/**
+ * Least-squares slope dz/dx of the interface elevations ground − depth over the stations
+ * with a depth (0 with fewer than two). O(n). Ordinary least squares, Gauss; the slope of
+ * the interpretation's own interface, used only to continue it beyond its outermost depth.
+ */
+function fittedSlope(xs: number[], ground: number[], depths: (number | null)[]): number {
+  let n = 0;
+  let sx = 0;
+  let sz = 0;
+  let sxx = 0;
+  let sxz = 0;
+  xs.forEach((x, i) => {
+    const d = depths[i];
+    if (d === null) return;
+    const z = ground[i] - d;
+    n++;
+    sx += x;
+    sz += z;
+    sxx += x * x;
+    sxz += x * z;
+  });
+  const den = n * sxx - sx * sx;
+  if (n < 2 || !(Math.abs(den) > 1e-9)) return 0;
+  const slope = (n * sxz - sx * sz) / den;
+  return Math.abs(slope) < 1 ? slope : 0;
+}
+
+/**
+ * Delay time of a point above the second refractor, ms, by the flat-layer form of the
+ * multi-layer head wave (Kearey, Brooks & Hill 2002, ch. 5; Telford, Geldart & Sheriff
+ * 1990, ch. 4): δ₂ = h1·cos θ13/V1 + h2·cos θ23/V2, sin θi3 = Vi/V3, h1 the depth to the
+ * first refractor and h2 = z2 − h1.
+ */
+function secondDelayMs(h1: number, z2: number, v1: number, v2: number, v3: number): number {
+  const c13 = Math.sqrt(Math.max(0, 1 - (v1 / v3) ** 2));
+  const c23 = Math.sqrt(Math.max(0, 1 - (v2 / v3) ** 2));
+  return 1000 * ((h1 * c13) / v1 + (Math.max(0, z2 - h1) * c23) / v2);
+}
+
+/**
+ * The second refractor under each shot beyond the outermost station with a second depth,
+ * from the shot's branch-2 picks, as shotAnchors does for the first: the shot's delay
+ *     δ₂(S) = median over branch-2 picks G of (t_G − δ₂(G) − |x_G − x_S|/V3)
+ * (delay-time form, Willmore & Bancroft 1960), δ₂(G) from the interpretation's two depths
+ * at G (secondDelayMs), then h2 under the shot solved from δ₂(S) with h1 read off the
+ * model's first refractor there. O(picks) per shot. Our choice, as for the first refractor:
+ * an off-end shot's branch-2 times depend on the unknown refractor under it through one
+ * number. Needs MIN_ANCHOR_PICKS picks and V1 < V2 < V3; else no anchor.
+ */
+function secondRefractorAnchors(
+  survey: Survey,
+  interpretation: Interpretation,
+  xs: number[],
+  ground: number[],
+  depths: (number | null)[],
+  surface: ModelPoint[],
+  firstTop: ModelPoint[],
+  v1At: (x: number) => number,
+  v2At: (x: number) => number,
+  v3: number,
+): ShotAnchor[] {
+  const known = xs.filter((_, i) => depths[i] !== null);
+  const lo = known[0];
+  const hi = known[known.length - 1];
+  const anchors: ShotAnchor[] = [];
+  for (const shot of survey.shots) {
+    if (shot.x >= lo && shot.x <= hi) continue;
+    const analysis = interpretation.shots?.find((a) => a.id === shot.id);
+    if (!analysis) continue;
+    const samples: number[] = [];
+    shot.times.forEach((t, i) => {
+      const z2 = depths[i];
+      const h1 = interpretation.stations[i]?.depths?.[0];
+      if (analysis.branchOfPick?.[i] !== 2 || typeof t !== 'number' || z2 === null || !isFiniteNumber(h1)) return;
+      const v1 = v1At(xs[i]);
+      const v2 = v2At(xs[i]);
+      if (!(v1 < v2 && v2 < v3)) return;
+      samples.push(t - secondDelayMs(h1, z2, v1, v2, v3) - (1000 * Math.abs(xs[i] - shot.x)) / v3);
+    });
+    if (samples.length < MIN_ANCHOR_PICKS) continue;
+    samples.sort((a, b) => a - b);
+    const m = samples.length >> 1;
+    const delayTimeMs = samples.length % 2 ? samples[m] : 0.5 * (samples[m - 1] + samples[m]);
+    const v1 = v1At(shot.x);
+    const v2 = v2At(shot.x);
+    const groundAt = elevationAt(surface, shot.x);
+    const h1 = Math.max(0, groundAt - elevationAt(firstTop, shot.x));
+    const c23 = Math.sqrt(Math.max(0, 1 - (v2 / v3) ** 2));
+    if (!(v1 < v2 && v2 < v3) || !(c23 > 0)) continue;
+    const h2 = ((delayTimeMs - secondDelayMs(h1, h1, v1, v2, v3)) * v2) / (1000 * c23);
+    if (!(h2 > 0)) continue;
+    anchors.push({ shot: shot.id, x: shot.x, delayTimeMs, refractorElevation: groundAt - h1 - h2, count: samples.length });
   }
   return anchors;
 }

@@ -201,6 +201,31 @@ export interface Residuals {
   refractorContinuation: 'planar-dip' | 'flat';
 }
 
+/** One candidate layer count compared by qc.layerChoice. */
+export interface LayerCandidate {
+  /** How it was made: the picks' own branch assignment ('auto') or a forced layer count. */
+  label: 'auto' | 'two-layer' | 'three-layer';
+  /** Layers the candidate's interpretation has. */
+  layers: number;
+  /** Residual RMS, ms, and picks compared. */
+  rmsMs: number;
+  count: number;
+  /** Σ(residual/σ)² with σ the pick uncertainty. */
+  chiSquare: number;
+  /** Free parameters counted: one depth per station per refractor plus one velocity per layer. */
+  parameters: number;
+  /** χ² + parameters·ln(count) (Schwarz 1978). */
+  bic: number;
+}
+
+/** qc.layerChoice: the layer count chosen by the picks' forward-model misfit (absent when not compared). */
+export interface LayerChoice {
+  criterion: 'bic';
+  candidates: LayerCandidate[];
+  /** Label of the candidate taken. */
+  chosen: 'auto' | 'two-layer' | 'three-layer';
+}
+
 export interface VelocityChange {
   x: number;
   left: number;
@@ -225,6 +250,8 @@ export interface Interpretation {
     warnings: Warning[];
     /** Absent with options.residuals = false, or when the check could not be made (a warning says why). */
     residuals?: Residuals;
+    /** Present when the layer count was chosen by comparing candidates (engine/qc/layer-choice.ts). */
+    layerChoice?: LayerChoice;
   };
   /** Per-shot branch analysis, for the time–distance plot and for checking. */
   shots: ShotAnalysis[];

@@ -37,10 +37,30 @@ import { coverageWarnings } from '../qc/coverage-warnings.js';
 import { structureWarnings } from '../qc/structure-warnings.js';
 import { withDataCautions } from '../qc/data-cautions.js';
 import { withResiduals } from '../qc/residuals.js';
+import { chooseLayerCount, needsLayerChoice } from '../qc/layer-choice.js';
 import { toInterpretation } from '../output/to-interpretation.js';
 import { isFiniteNumber } from '../shared/numbers.js';
 
+/**
+ * The interpretation of a line. Unforced (no options.layers) and with residuals on, a line
+ * whose residuals are high is interpreted again with two and with three layers forced and
+ * the layer count is chosen by the picks' misfit (qc/layer-choice.ts, qc.layerChoice).
+ */
 export function interpret(survey: Survey): Interpretation {
+  const options = resolveOptions(survey.options);
+  const auto = interpretOnce(survey);
+  if (!options.residuals || !needsLayerChoice(auto, options.pickUncertaintyMs, options.layers)) return auto;
+  // A forced two-layer run repeats the auto one when that already has two layers: O(1) saved solve.
+  const counts = auto.layers.length === 2 ? ([3] as const) : ([2, 3] as const);
+  const forced = counts.map((layers) => ({
+    label: layers === 2 ? ('two-layer' as const) : ('three-layer' as const),
+    interp: interpretOnce({ ...survey, options: { ...survey.options, layers } }),
+  }));
+  return chooseLayerCount(auto, forced, options.pickUncertaintyMs);
+}
+
+/** One pass of the stages with the survey's own options (see the file comment). */
+function interpretOnce(survey: Survey): Interpretation {
   const options = resolveOptions(survey.options);
   const sigmaMs = options.pickUncertaintyMs;
   const xs = survey.geophones.map((g) => g.x);

@@ -170,6 +170,19 @@ export const ResidualsSchema = Type.Object(
   { ...closed, title: 'Residuals' },
 );
 
+const layerLabel = literals(['auto', 'two-layer', 'three-layer'] as const);
+
+export const LayerChoiceSchema = Type.Object(
+  {
+    criterion: literals(['bic'] as const),
+    candidates: Type.Array(
+      Type.Object({ label: layerLabel, layers: int(), rmsMs: num(), count: int(), chiSquare: num(), parameters: int(), bic: num() }, closed),
+    ),
+    chosen: layerLabel,
+  },
+  { ...closed, title: 'LayerChoice' },
+);
+
 export const OpposingPairVelocitiesSchema = Type.Object(
   {
     shots: shotPair,
@@ -233,6 +246,7 @@ export const InterpretationSchema = Type.Object(
         reciprocal: Type.Array(ReciprocalCheckSchema),
         warnings: Type.Array(WarningSchema),
         residuals: opt(ResidualsSchema),
+        layerChoice: opt(LayerChoiceSchema),
       },
       closed,
     ),
