@@ -2,6 +2,7 @@
  * Joint adjustment of the reciprocal times of opposing shot pairs (plus-minus method,
  * Hagedoorn, Geophysical Prospecting 7, 1959). Units: ms, ms².
  */
+import { planStructuredAdjustment } from './structured-adjustment.js';
 
 /** What the adjustment reads and corrects of one opposing pair. */
 export interface AdjustablePair {
@@ -29,29 +30,52 @@ export interface AdjustablePair {
  * Only pairs whose reciprocal check passed (or could not be verified) take part: a pair
  * with a proven misfit stays a fallback. Mutates `pairWork` in place.
  *
- * Cost for k pairs over G geophones: building the normal equations O(Σ_i k_i²) ≤ O(k²·G),
- * one Cholesky factorisation k³/6 multiply-adds, the shifts O(k²) and the variances
- * (diagonal of the inverse) k³/6 from the same factor: O(k³) in all, O(k²) memory.
+ * Cost: the normal matrix N = Δ − U·Ω·Uᵀ (diagonal minus low rank: the pick variances at a
+ * geophone take few distinct values) is solved through that structure when it is cheaper
+ * (structured-adjustment.ts: O(R³ + Σ_p n_p²) for R class columns, a few per shot), else
+ * densely (building N O(Σ_i k_i²), one Cholesky factorisation k³/6, the shifts O(k²) and
+ * the diagonal of the inverse k³/6 from the same factor: O(k³), O(k²) memory). The choice
+ * is made on the counted work; both give the same numbers to rounding.
  */
 export function adjustReciprocalTimes(pairWork: AdjustablePair[]): void {
   const k = pairWork.length;
   if (k < 2) return;
-  const system = normalEquations(pairWork);
-  if (!system) return;
-  const factor = choleskyFactor(system.matrix, k);
-  if (!factor) return;
-  const shifts = choleskySolve(factor, k, system.rhs);
-  // Variance of each corrected tAB: the diagonal of the inverse normal matrix, from the same factor.
-  const inverseDiagonal = choleskyInverseDiagonal(factor, k);
+  const result = reciprocalAdjustment(pairWork);
+  if (!result) return;
   pairWork.forEach((p, m) => {
-    const shift = shifts[m];
-    const variance = inverseDiagonal[m];
+    const shift = result.shifts[m];
+    const variance = result.inverseDiagonal[m];
     if (!Number.isFinite(shift) || !(variance > 0)) return;
     p.plusTimeMs = p.plusTimeMs.map((v) => (v === null ? null : v - shift));
     p.reciprocalTimeMs += shift;
     p.plusVarianceMs2 = p.plusVarianceMs2.map((v) => (v === null ? null : v - p.reciprocalVarianceMs2 + variance));
     p.reciprocalVarianceMs2 = variance;
   });
+}
+
+/** Shifts and the diagonal of N⁻¹ by the cheaper of the two routes; null when no two pairs overlap. */
+export function reciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Float64Array; inverseDiagonal: Float64Array } | null {
+  const k = pairWork.length;
+  const plan = planStructuredAdjustment(pairWork);
+  const structuredWork = plan.columns ** 3 / 2 + 2 * plan.pairColumnWork;
+  const denseWork = k ** 3 / 3 + plan.denseBuildWork;
+  if (structuredWork < denseWork) {
+    const result = plan.solve();
+    if (result === 'no-overlap') return null;
+    if (result !== 'not-positive-definite') return result;
+  }
+  return denseReciprocalAdjustment(pairWork);
+}
+
+/** The dense route: normal equations, one Cholesky factor, the shifts and the inverse's diagonal from it. O(k³). */
+export function denseReciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Float64Array; inverseDiagonal: Float64Array } | null {
+  const k = pairWork.length;
+  const system = normalEquations(pairWork);
+  if (!system) return null;
+  const factor = choleskyFactor(system.matrix, k);
+  if (!factor) return null;
+  // Variance of each corrected tAB: the diagonal of the inverse normal matrix, from the same factor.
+  return { shifts: choleskySolve(factor, k, system.rhs), inverseDiagonal: choleskyInverseDiagonal(factor, k) };
 }
 
 /**
