@@ -105,12 +105,25 @@ function checkOptions(opts: StepDetectorOptions, length: number): { ic: number; 
   return { ic, sidePoints, minSidePoints, alpha };
 }
 
-/** Largest depth known within `radius` of c, from a per-position depth list. */
+/**
+ * Largest depth known within `radius` of c, from a per-position depth list (positions
+ * increasing, as checkPositions requires). xM[i] − c is monotone in i, so the positions with
+ * |xM[i] − c| ≤ radius are one run, found by bisection with the same comparison: O(log n + w)
+ * for w positions in the run (it was a scan of all n per call, O(n²) per profile since the
+ * jump scan asks at every centre).
+ */
 function localDepth(xM: readonly number[], depth: readonly (number | null)[], c: number, radius: number): number {
+  let lo = 0;
+  let hi = xM.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (xM[mid] - c >= -radius) hi = mid;
+    else lo = mid + 1;
+  }
   let best = 0;
-  for (let i = 0; i < xM.length; i++) {
+  for (let i = lo; i < xM.length && xM[i] - c <= radius; i++) {
     const d = depth[i];
-    if (d !== null && Math.abs(xM[i] - c) <= radius && d > best) best = d;
+    if (d !== null && d > best) best = d;
   }
   return best;
 }
