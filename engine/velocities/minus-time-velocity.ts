@@ -5,8 +5,9 @@
  * T− against x is 2/V2 (ms per m = 2000/V2 with V2 in m/s). Several pairs have the same
  * slope but different constants (their shots sit at different places), so they are fitted
  * with one common slope and one intercept per pair: each pair's x and T− are centred on
- * the pair's means, and the pooled centred points are fitted by simple-statistics
- * `linearRegression` (the common-slope estimate of the analysis of covariance).
+ * the pair's means, and the pooled centred points are fitted by ordinary least squares
+ * (the common-slope estimate of the analysis of covariance; the arithmetic of
+ * simple-statistics `linearRegression`, inlined over typed arrays).
  *
  * Standard error of the slope (ordinary least squares):
  *   s² = Σ residual² / (n − k − 1),   SE(slope) = s / sqrt(Σ (x − x̄_pair)²)
@@ -18,8 +19,6 @@
  * found is the refractor velocity divided by cos θ (0.4 % high at 5°, 1 % at 8°). It is
  * reported as measured; the caller documents the bias.
  */
-import { linearRegression } from 'simple-statistics';
-
 export interface MinusTimeSeries {
   /** Geophone positions, m. */
   xM: number[];
@@ -56,33 +55,73 @@ export type MinusTimeVelocityResult =
  * minusTimeVelocity([{ xM: [0, 10, 20], minusTimeMs: [-8, 0, 8] }]) // V2 = 2000/0.8 = 2500 m/s
  */
 export function minusTimeVelocity(series: MinusTimeSeries[]): MinusTimeVelocityResult {
-  const centred: [number, number][] = [];
+  // Centred points in two typed arrays (no tuple per point: this runs once per segment and
+  // pass over every pair's T−, and the tuples were most of the garbage). O(n) for n points.
+  let capacity = 0;
+  for (const s of series) capacity += Math.min(s.xM.length, s.minusTimeMs.length);
+  const cx = new Float64Array(capacity);
+  const ct = new Float64Array(capacity);
+  let count = 0;
   let groups = 0;
   for (const s of series) {
-    const points: [number, number][] = [];
+    const start = count;
     const n = Math.min(s.xM.length, s.minusTimeMs.length);
     for (let i = 0; i < n; i++) {
       const x = s.xM[i];
       const t = s.minusTimeMs[i];
-      if (Number.isFinite(x) && Number.isFinite(t)) points.push([x, t]);
+      if (Number.isFinite(x) && Number.isFinite(t)) {
+        cx[count] = x;
+        ct[count] = t;
+        count++;
+      }
     }
+    const points = count - start;
     // A pair with one point only fixes its own intercept and says nothing about the slope.
-    if (points.length < 2) continue;
-    const meanX = points.reduce((a, p) => a + p[0], 0) / points.length;
-    const meanT = points.reduce((a, p) => a + p[1], 0) / points.length;
-    for (const [x, t] of points) centred.push([x - meanX, t - meanT]);
+    if (points < 2) {
+      count = start;
+      continue;
+    }
+    let sumX = 0;
+    let sumT = 0;
+    for (let i = start; i < count; i++) sumX += cx[i];
+    for (let i = start; i < count; i++) sumT += ct[i];
+    const meanX = sumX / points;
+    const meanT = sumT / points;
+    for (let i = start; i < count; i++) {
+      cx[i] -= meanX;
+      ct[i] -= meanT;
+    }
     groups++;
   }
-  const count = centred.length;
   const degreesOfFreedom = count - groups - 1;
-  const sumXX = centred.reduce((a, p) => a + p[0] * p[0], 0);
+  let sumXX = 0;
+  for (let i = 0; i < count; i++) sumXX += cx[i] * cx[i];
   if (degreesOfFreedom < 1 || !(sumXX > 0)) return { ok: false, reason: 'too-few-points', count, slopeMsPerM: null };
 
-  const { m: slope, b: intercept } = linearRegression(centred);
+  // Ordinary least squares of the pooled centred points, in the order of simple-statistics'
+  // linearRegression (means first, then the centred cross products), which this replaced.
+  let sumPX = 0;
+  let sumPT = 0;
+  for (let i = 0; i < count; i++) {
+    sumPX += cx[i];
+    sumPT += ct[i];
+  }
+  const meanPX = sumPX / count;
+  const meanPT = sumPT / count;
+  let sumXT = 0;
+  let sumDXX = 0;
+  for (let i = 0; i < count; i++) {
+    const dx = cx[i] - meanPX;
+    sumXT += dx * (ct[i] - meanPT);
+    sumDXX += dx * dx;
+  }
+  const slope = sumXT / sumDXX;
+  const intercept = meanPT - slope * meanPX;
   if (!(slope > 0) || !Number.isFinite(slope)) {
     return { ok: false, reason: 'non-positive-slope', count, slopeMsPerM: Number.isFinite(slope) ? slope : null };
   }
-  const sumSquaredResiduals = centred.reduce((a, [x, t]) => a + (t - (slope * x + intercept)) ** 2, 0);
+  let sumSquaredResiduals = 0;
+  for (let i = 0; i < count; i++) sumSquaredResiduals += (ct[i] - (slope * cx[i] + intercept)) ** 2;
   const slopeStandardError = Math.sqrt(sumSquaredResiduals / degreesOfFreedom / sumXX);
   const velocity = 2000 / slope;
   const standardError = (2000 * slopeStandardError) / (slope * slope);
