@@ -88,35 +88,48 @@ export interface WeightedCombination {
  * geophone (two passes over the pairs at each geophone: the sums, then χ² about the mean).
  */
 export function combineWeighted(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
+  // Pair by pair along each pair's row (its arrays are read in order, not one element of
+  // every pair per geophone), into per-geophone sums; each geophone still adds its pairs in
+  // pair order, so the sums are the same numbers. O(K·N), three arrays of N.
+  const sw = new Float64Array(geophoneCount);
+  const swv = new Float64Array(geophoneCount);
+  const used = new Int32Array(geophoneCount);
+  for (let k = 0; k < values.length; k++) {
+    const row = values[k];
+    const rowVariance = variances[k];
+    if (rowVariance === undefined) continue;
+    for (let i = 0; i < geophoneCount; i++) {
+      const v = row[i];
+      const variance = rowVariance[i];
+      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      sw[i] += 1 / variance;
+      swv[i] += v / variance;
+      used[i]++;
+    }
+  }
+  const mean = new Float64Array(geophoneCount);
+  for (let i = 0; i < geophoneCount; i++) mean[i] = sw[i] > 0 ? swv[i] / sw[i] : NaN;
+  // Σ w_k·(v_k − mean)² over the same pairs, in the same order, where more than one pair.
+  const chi = new Float64Array(geophoneCount);
+  for (let k = 0; k < values.length; k++) {
+    const row = values[k];
+    const rowVariance = variances[k];
+    if (rowVariance === undefined) continue;
+    for (let i = 0; i < geophoneCount; i++) {
+      if (used[i] < 2) continue;
+      const v = row[i];
+      const variance = rowVariance[i];
+      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      chi[i] = chi[i] + (1 / variance) * (v - mean[i]) ** 2;
+    }
+  }
   const out: WeightedCombination = { valueMs: [], sigmaMs: [], pairCount: [], chiSquare: [] };
   for (let i = 0; i < geophoneCount; i++) {
-    let sw = 0;
-    let swv = 0;
-    let used = 0;
-    for (let k = 0; k < values.length; k++) {
-      const v = values[k][i];
-      const variance = variances[k]?.[i];
-      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
-      sw += 1 / variance;
-      swv += v / variance;
-      used++;
-    }
-    const mean = sw > 0 ? swv / sw : null;
-    let chi: number | null = null;
-    if (mean !== null && used > 1) {
-      // Σ w_k·(v_k − mean)² over the same pairs, in the same order.
-      chi = 0;
-      for (let k = 0; k < values.length; k++) {
-        const v = values[k][i];
-        const variance = variances[k]?.[i];
-        if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
-        chi = chi + (1 / variance) * (v - mean) ** 2;
-      }
-    }
-    out.valueMs.push(mean);
-    out.sigmaMs.push(sw > 0 ? 1 / Math.sqrt(sw) : null);
-    out.pairCount.push(used);
-    out.chiSquare.push(chi);
+    const has = sw[i] > 0;
+    out.valueMs.push(has ? mean[i] : null);
+    out.sigmaMs.push(has ? 1 / Math.sqrt(sw[i]) : null);
+    out.pairCount.push(used[i]);
+    out.chiSquare.push(has && used[i] > 1 ? chi[i] : null);
   }
   return out;
 }
