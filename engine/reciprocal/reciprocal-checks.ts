@@ -28,11 +28,15 @@ const AT_SHOT_FRACTION_OF_SPACING = 0.25;
 /** A time read at another shot's position; gapM is how far it lies from the nearest pick used. */
 type Reading = { timeMs: number; source: 'geophone' | 'extrapolated'; gapM: number };
 
-/** Time that shot `from` records at position `atX`, or null when it cannot be read. */
-function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | null {
+/**
+ * Time that shot `from` records at position `atX`, or null when it cannot be read.
+ * `spacingM` is geophoneSpacingM(survey.geophones), computed once by the caller (a sort of
+ * the gaps, O(G log G), was repeated twice per pair of shots).
+ */
+function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number, spacingM: number): Reading | null {
   const shot = survey.shots.find((s) => s.id === from.id);
   if (!shot) return null;
-  const limit = AT_SHOT_FRACTION_OF_SPACING * geophoneSpacingM(survey.geophones);
+  const limit = AT_SHOT_FRACTION_OF_SPACING * spacingM;
   let nearest = -1;
   survey.geophones.forEach((g, i) => {
     if (nearest < 0 || Math.abs(g.x - atX) < Math.abs(survey.geophones[nearest].x - atX)) nearest = i;
@@ -41,7 +45,7 @@ function readTimeAt(survey: Survey, from: ShotAnalysis, atX: number): Reading | 
     const t = shot.times[nearest];
     if (t !== null && t !== undefined && Number.isFinite(t)) return { timeMs: t, source: 'geophone', gapM: 0 };
   }
-  const local = localExtrapolationMs(survey, shot.times, from, atX);
+  const local = localExtrapolationMs(survey, shot.times, from, atX, spacingM);
   if (local !== null) return { timeMs: local.timeMs, source: 'extrapolated', gapM: local.gapM };
   const side = atX > from.x ? from.right : from.left;
   const lines = side?.refracted ?? [];
@@ -65,6 +69,7 @@ function localExtrapolationMs(
   times: (number | null)[],
   from: ShotAnalysis,
   atX: number,
+  spacingM: number,
 ): { timeMs: number; gapM: number } | null {
   const facingRight = atX > from.x;
   const picks: { x: number; t: number; branch: number }[] = [];
@@ -80,7 +85,7 @@ function localExtrapolationMs(
   const branchPicks = picks.filter((p) => p.branch === picks[0]?.branch);
   if (branchPicks.length < 3) return null;
   const gapM = Math.abs(branchPicks[0].x - atX);
-  const reachM = 2 * gapM + LOCAL_WINDOW_SPACINGS * geophoneSpacingM(survey.geophones);
+  const reachM = 2 * gapM + LOCAL_WINDOW_SPACINGS * spacingM;
   const window = branchPicks.filter((p, k) => k < LOCAL_MIN_PICKS || Math.abs(p.x - atX) <= reachM);
   const n = window.length;
   const meanX = window.reduce((a, p) => a + p.x, 0) / n;
@@ -145,8 +150,8 @@ export function reciprocalChecks(
     for (let j = i + 1; j < byX.length; j++) {
       const b = byX[j];
       if (!b.left || !(a.x < b.x)) continue;
-      const forward = readTimeAt(survey, a, b.x);
-      const reverse = readTimeAt(survey, b, a.x);
+      const forward = readTimeAt(survey, a, b.x, spacingM);
+      const reverse = readTimeAt(survey, b, a.x, spacingM);
       if (!forward || !reverse) {
         const missing = !forward ? `${a.id} at ${b.id}'s position` : `${b.id} at ${a.id}'s position`;
         warnings.push({

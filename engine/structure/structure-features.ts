@@ -331,10 +331,21 @@ export function segmentMinusVelocity(
   abscissaM: (number | null)[],
   use: boolean[],
 ): MinusTimeVelocityResult {
+  // One pass per pair into two arrays (the former index list and two maps made four arrays
+  // of N per pair for every segment and pass). O(K·N).
   return minusTimeVelocity(
     pairMinusTimesMs.map((t) => {
-      const idx = t.map((_, i) => i).filter((i) => use[i] && t[i] !== null && abscissaM[i] !== null);
-      return { xM: idx.map((i) => abscissaM[i] as number), minusTimeMs: idx.map((i) => t[i] as number) };
+      const xM: number[] = [];
+      const minusTimeMs: number[] = [];
+      for (let i = 0; i < t.length; i++) {
+        const ti = t[i];
+        const xi = abscissaM[i];
+        if (use[i] && ti !== null && xi !== null) {
+          xM.push(xi);
+          minusTimeMs.push(ti);
+        }
+      }
+      return { xM, minusTimeMs };
     }),
   );
 }
