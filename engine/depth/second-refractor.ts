@@ -117,8 +117,13 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
     : { velocityMPerS: null, velocitySource: null, delayTimeMs: xs.map(() => null), delaySource: xs.map(() => null), pairCount: 0 };
   const warnings: Warning[] = [];
   const v1Line = positive(twoLayer.v1MPerS);
-  // The layer list gives V2 only under a V1 (toInterpretation); else the branch-1 velocity.
-  const v2Line = (v1Line !== null ? positive(twoLayer.v2MPerS) : null) ?? positive(first.velocityMPerS);
+  // V2 from the branch-1 picks' own minus times (both directions, Hagedoorn 1959) when
+  // they give one: on a three-layer line the two-layer section's V2 is refined on depths
+  // read from mixed branches (measured on the issue line: 1546 against 1600 m/s). Else the
+  // two-layer V2 (the layer list gives V2 only under a V1, toInterpretation), else the
+  // branch-1 velocity from any source.
+  const ownV2 = first.velocitySource === 'minus-times' ? positive(first.velocityMPerS) : null;
+  const v2Line = ownV2 ?? (v1Line !== null ? positive(twoLayer.v2MPerS) : null) ?? positive(first.velocityMPerS);
   const v3 = positive(second.velocityMPerS);
   const depthM: [number | null, number | null][] = xs.map(() => [null, null]);
   const result = (mapped: boolean): SecondRefractorMap => ({ mapped, first, second, velocitiesMPerS: [v1Line, v2Line, v3], depthM, warnings });
@@ -146,7 +151,7 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
 
   const velocityAt = (i: number): [number, number] | null => {
     const v1 = positive(twoLayer.v1At[i]) ?? v1Line;
-    const v2 = positive(twoLayer.v2At[i]) ?? v2Line;
+    const v2 = ownV2 ?? positive(twoLayer.v2At[i]) ?? v2Line;
     return v1 === null || v2 === null || !(v2 > v1) || !(v3 > v2) ? null : [v1, v2];
   };
   // First-refractor delay: its own (branch-1 picks), else the two-layer section's depth.
