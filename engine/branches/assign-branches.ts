@@ -29,10 +29,16 @@
  *         kink fixed in x is a lateral change or topography under the line). Where the
  *         breaks of such shots line up in x rather than in offset, the second refractor
  *         is dropped on every side facing that way.
- *  4. (unless two layers are forced) a far off-end side that is all refracted with one
- *     line, on a line where other sides show both refracted branches, is split at their
- *     median 1→2 break offset when its velocity is nearer their branch-2 velocity
- *     (relabelFarOffEndSides).
+ *     The reversal test counts a far off-end side as the deeper refractor's reversal when
+ *     its one line runs parallel to its own direction's branch 2 and matches the opposite
+ *     direction's (withFarOffEndSides, forReversal).
+ *  4. the line read jointly: a side whose middle of three segments never arrives before
+ *     both neighbouring lines by more than TRANSITION_UNDERCUT_SIGMAS·σ is read with two
+ *     branches (withoutTransitionSegment: the corner of the direct wave and the first
+ *     refractor is not a layer); then (unless two layers are forced) a far off-end side
+ *     that is all refracted with one line, on a line where other sides show both refracted
+ *     branches, is split at their median 1→2 break offset when its velocity is nearer
+ *     their branch-2 velocity (withFarOffEndSides).
  * options.branchOverrides replace the automatic split exactly (overridden: true).
  */
 import { median } from 'simple-statistics';

@@ -1,8 +1,9 @@
 /**
  * Three-layer lines: the second refractor by layer stripping, a stage that consumes delay
  * times. Both refractors' delay times come from refractor-delays.ts (the plus-minus core
- * of every refractor, on branch-1 and branch-2 picks); V1, V2 and the two-layer depths come
- * unrounded from the two-layer stages. Where the first refractor gives no first arrival at
+ * of every refractor, on branch-1 and branch-2 picks); V1 and the two-layer depths come
+ * unrounded from the two-layer stages, V2 from the branch-1 minus times where they give
+ * one (else from the two-layer stages). Where the first refractor gives no first arrival at
  * all (the second overtakes it first), its delay is interpolated between the nearest
  * stations that have one, or held beyond the last: common practice for a layer seen over
  * part of the line only; flagged per station and warned.
