@@ -29,10 +29,16 @@
  *         kink fixed in x is a lateral change or topography under the line). Where the
  *         breaks of such shots line up in x rather than in offset, the second refractor
  *         is dropped on every side facing that way.
- *  4. (unless two layers are forced) a far off-end side that is all refracted with one
- *     line, on a line where other sides show both refracted branches, is split at their
- *     median 1→2 break offset when its velocity is nearer their branch-2 velocity
- *     (relabelFarOffEndSides).
+ *     The reversal test counts a far off-end side as the deeper refractor's reversal when
+ *     its one line runs parallel to its own direction's branch 2 and matches the opposite
+ *     direction's (withFarOffEndSides, forReversal).
+ *  4. the line read jointly: a side whose middle of three segments never arrives before
+ *     both neighbouring lines by more than TRANSITION_UNDERCUT_SIGMAS·σ is read with two
+ *     branches (withoutTransitionSegment: the corner of the direct wave and the first
+ *     refractor is not a layer); then (unless two layers are forced) a far off-end side
+ *     that is all refracted with one line, on a line where other sides show both refracted
+ *     branches, is split at their median 1→2 break offset when its velocity is nearer
+ *     their branch-2 velocity (withFarOffEndSides).
  * options.branchOverrides replace the automatic split exactly (overridden: true).
  */
 import { median } from 'simple-statistics';
@@ -41,7 +47,7 @@ import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import type { BranchLine, ShotAnalysis, SideBranches } from '../output/interpretation.js';
 import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
-import { branchLineFromSegment, crossoverDistanceM } from './branch-line.js';
+import { branchLineFromSegment, crossoverDistanceM, timeOnBranchMs } from './branch-line.js';
 import { geophoneSpacingM, shotElevationM, shotPosition } from './shot-geometry.js';
 
 /**
@@ -142,6 +148,9 @@ export function assignBranches(survey: Survey, options: BranchOptions = resolveO
       ? overriddenSide(work.picks, work.override)
       : chooseSide(work.picks, work.fits, v1Provisional, forcedLayers, allowSecond);
   };
+  // Sides whose middle segment is only the corner of two branches, read with two (O(picks)).
+  const withoutTransitions = (cs: (SideChoice | null)[][]): (SideChoice | null)[][] =>
+    cs.map((pair, s) => pair.map((c, k) => c && withoutTransitionSegment(c, sides[s][k].picks, noiseFloorMs)));
   const choices = sides.map((pair) => pair.map((work) => choose(work, true)));
 
   // Pass 3: unforced, a second refractor must break at a consistent offset across shots.
@@ -164,7 +173,7 @@ export function assignBranches(survey: Survey, options: BranchOptions = resolveO
   // a common stretch of the line. Undulations of one refractor bend a branch one way from
   // one end and elsewhere from the other; a deeper layer is seen from both.
   const suppressed = new Set<string>();
-  if (forcedLayers === undefined && !secondRefractorReversed(choices, sides)) {
+  if (forcedLayers === undefined && !secondRefractorReversed(withFarOffEndSides(withoutTransitions(choices), (s, k) => sides[s][k].picks, true), sides)) {
     choices.forEach((pair, s) =>
       pair.forEach((c, k) => {
         if (!c || c.overridden || !c.branchOfSidePick.includes(2)) return;
@@ -173,9 +182,16 @@ export function assignBranches(survey: Survey, options: BranchOptions = resolveO
       }),
     );
   }
-  // Only now, with the deeper refractor confirmed by sides that show both branches, may a
-  // far off-end side be read as wholly beyond the crossover (never to supply the reversal).
-  if (forcedLayers !== 2) relabelFarOffEndSides(choices, (s, k) => sides[s][k].picks);
+  // Only now, with the deeper refractor confirmed, may a far off-end side be read as
+  // wholly or mostly beyond the crossover on every line that shows both refracted branches.
+  // Last, every side is read against the line (after the unforced tests, which keep
+  // seeing each side's own best fit, so that two-layer lines read as before).
+  const joint = withoutTransitions(choices);
+  joint.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
+  if (forcedLayers !== 2) {
+    const relabelled = withFarOffEndSides(choices, (s, k) => sides[s][k].picks, false);
+    relabelled.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
+  }
 
   return survey.shots.map((shot, s) => {
     const branchOfPick: (BranchIndex | null)[] = survey.geophones.map(() => null);
@@ -243,36 +259,97 @@ function secondRefractorReversed(
  * ch. 5): nearer picks branch 1, farther ones branch 2. Lines are refitted on each group;
  * with fewer than 2 picks on branch 1 the side lists no line, since `refracted` runs from
  * the first refractor down and cannot say that the first is absent.
+ *
+ * `forReversal`: the split is proposed only for the reversal test (secondRefractorReversed),
+ * and only where the side's velocity also lies within SECOND_REFRACTOR_MIN_CONTRAST (in
+ * ratio) of the median branch-2 velocity of the nearer sides shooting its own way and of
+ * those shooting the other way. A refractor is one surface: a far shot's branch runs
+ * parallel to the nearer shots' branch on it (the parallelism phantoming relies on,
+ * Hagedoorn 1959), and, shot the other way, the same refractor gives the other branch 2.
+ * The far shot then reverses the deeper refractor where the nearer shots of its own
+ * direction do not reach. (Requiring its own direction's branch 2 keeps a two-layer line
+ * whose one side bends at a lateral V1 change, golden reference-structure-step-velocity-09,
+ * two-layer.) Returns a new array of choices; the input is not changed. O(sides + picks).
  */
-function relabelFarOffEndSides(choices: (SideChoice | null)[][], picksOf: (s: number, k: number) => SidePick[]): void {
+function withFarOffEndSides(
+  choices: (SideChoice | null)[][],
+  picksOf: (s: number, k: number) => SidePick[],
+  forReversal: boolean,
+): (SideChoice | null)[][] {
   const first: number[] = [];
   const second: number[] = [];
+  const secondByDirection: [number[], number[]] = [[], []];
   const breakOffsets: number[] = [];
-  for (const c of choices.flat()) {
-    if (c && !c.overridden && c.refracted.length >= 2) {
-      first.push(c.refracted[0].velocity);
-      second.push(c.refracted[1].velocity);
-      if (c.breakPoint) breakOffsets.push(c.breakPoint.breakOffsetM);
-    }
-  }
-  if (first.length === 0) return;
+  choices.forEach((pair) =>
+    pair.forEach((c, k) => {
+      if (c && !c.overridden && c.refracted.length >= 2) {
+        first.push(c.refracted[0].velocity);
+        second.push(c.refracted[1].velocity);
+        secondByDirection[k].push(c.refracted[1].velocity);
+        if (c.breakPoint) breakOffsets.push(c.breakPoint.breakOffsetM);
+      }
+    }),
+  );
+  if (first.length === 0) return choices;
   const m1 = median(first);
   const m2 = median(second);
   const breakOffsetM = breakOffsets.length > 0 ? median(breakOffsets) : 0;
-  choices.forEach((pair, s) =>
-    pair.forEach((c, k) => {
-      if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return;
+  return choices.map((pair, s) =>
+    pair.map((c, k) => {
+      if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return c;
       const v = c.refracted[0].velocity;
-      if (!(Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1)))) return;
+      if (!(Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1)))) return c;
+      if (forReversal && !secondByDirection.every((vs) => vs.length > 0 && Math.abs(Math.log(v / median(vs))) < Math.log(SECOND_REFRACTOR_MIN_CONTRAST))) return c;
       const picks = picksOf(s, k);
-      c.branchOfSidePick = picks.map((p) => (p.offsetM < breakOffsetM ? 1 : 2));
       const near = lineOf(picks.filter((p) => p.offsetM < breakOffsetM));
       const far = lineOf(picks.filter((p) => p.offsetM >= breakOffsetM));
-      c.refracted = near && far ? [near, far] : [];
+      return {
+        ...c,
+        branchOfSidePick: picks.map((p) => (p.offsetM < breakOffsetM ? 1 : 2)),
+        refracted: near && far ? [near, far] : [],
+      };
     }),
   );
 }
 
+/**
+ * Twice the pick uncertainty: a middle segment whose picks never arrive earlier than both
+ * neighbouring lines by more than this brings no arrival of its own. Our choice (a 2σ
+ * band of the picks).
+ */
+export const TRANSITION_UNDERCUT_SIGMAS = 2;
+
+/**
+ * A side fitted with three segments may owe its middle one to the corner where two
+ * branches meet (picks of both, an apparent velocity between theirs), not to a layer:
+ * on the issue line the mid shot's 1020 m/s segment between the 400 m/s direct wave and
+ * the 1600 m/s refractor. First arrivals are the earliest of the branch lines (Kearey,
+ * Brooks & Hill 2002, ch. 5), so the middle segment is a layer only where it arrives
+ * before both its neighbours' lines extrapolated; when no pick of it does so by more than
+ * TRANSITION_UNDERCUT_SIGMAS·σ (σ the pick uncertainty), its picks go to whichever
+ * neighbour line is earlier at their offset, the two lines are refitted and the branches
+ * renumbered outward (the far neighbour takes the middle one's index). Cost O(picks).
+ */
+function withoutTransitionSegment(c: SideChoice, picks: SidePick[], sigmaMs: number): SideChoice {
+  const direct = c.direct;
+  if (c.overridden || !direct || c.refracted.length !== 2 || c.branchOfSidePick.length !== picks.length) return c;
+  const far = c.refracted[1];
+  const earlier = (p: SidePick): 0 | 1 => (timeOnBranchMs(direct, p.offsetM) <= timeOnBranchMs(far, p.offsetM) ? 0 : 1);
+  let undercutMs = Number.NEGATIVE_INFINITY;
+  picks.forEach((p, j) => {
+    if (c.branchOfSidePick[j] !== 1) return;
+    undercutMs = Math.max(undercutMs, Math.min(timeOnBranchMs(direct, p.offsetM), timeOnBranchMs(far, p.offsetM)) - p.timeMs);
+  });
+  if (!(undercutMs <= TRANSITION_UNDERCUT_SIGMAS * sigmaMs)) return c;
+  const branchOfSidePick = picks.map((p, j): BranchIndex => {
+    const b = c.branchOfSidePick[j];
+    return b === 0 ? 0 : b === 2 ? 1 : earlier(p);
+  });
+  const directLine = lineOf(picks.filter((_, j) => branchOfSidePick[j] === 0));
+  const refractedLine = lineOf(picks.filter((_, j) => branchOfSidePick[j] === 1));
+  if (!directLine || !refractedLine) return c;
+  return { branchOfSidePick, direct: directLine, refracted: [refractedLine], overridden: false };
+}
 
 /**
  * True when the second-refractor breaks of sides shooting the same way line up in x

@@ -1,8 +1,9 @@
 /**
  * Three-layer lines: the second refractor by layer stripping, a stage that consumes delay
  * times. Both refractors' delay times come from refractor-delays.ts (the plus-minus core
- * of every refractor, on branch-1 and branch-2 picks); V1, V2 and the two-layer depths come
- * unrounded from the two-layer stages. Where the first refractor gives no first arrival at
+ * of every refractor, on branch-1 and branch-2 picks); V1 and the two-layer depths come
+ * unrounded from the two-layer stages, V2 from the branch-1 minus times where they give
+ * one (else from the two-layer stages). Where the first refractor gives no first arrival at
  * all (the second overtakes it first), its delay is interpolated between the nearest
  * stations that have one, or held beyond the last: common practice for a layer seen over
  * part of the line only; flagged per station and warned.
@@ -117,8 +118,13 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
     : { velocityMPerS: null, velocitySource: null, delayTimeMs: xs.map(() => null), delaySource: xs.map(() => null), pairCount: 0 };
   const warnings: Warning[] = [];
   const v1Line = positive(twoLayer.v1MPerS);
-  // The layer list gives V2 only under a V1 (toInterpretation); else the branch-1 velocity.
-  const v2Line = (v1Line !== null ? positive(twoLayer.v2MPerS) : null) ?? positive(first.velocityMPerS);
+  // V2 from the branch-1 picks' own minus times (both directions, Hagedoorn 1959) when
+  // they give one: on a three-layer line the two-layer section's V2 is refined on depths
+  // read from mixed branches (measured on the issue line: 1546 against 1600 m/s). Else the
+  // two-layer V2 (the layer list gives V2 only under a V1, toInterpretation), else the
+  // branch-1 velocity from any source.
+  const ownV2 = first.velocitySource === 'minus-times' ? positive(first.velocityMPerS) : null;
+  const v2Line = ownV2 ?? (v1Line !== null ? positive(twoLayer.v2MPerS) : null) ?? positive(first.velocityMPerS);
   const v3 = positive(second.velocityMPerS);
   const depthM: [number | null, number | null][] = xs.map(() => [null, null]);
   const result = (mapped: boolean): SecondRefractorMap => ({ mapped, first, second, velocitiesMPerS: [v1Line, v2Line, v3], depthM, warnings });
@@ -146,7 +152,7 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
 
   const velocityAt = (i: number): [number, number] | null => {
     const v1 = positive(twoLayer.v1At[i]) ?? v1Line;
-    const v2 = positive(twoLayer.v2At[i]) ?? v2Line;
+    const v2 = ownV2 ?? positive(twoLayer.v2At[i]) ?? v2Line;
     return v1 === null || v2 === null || !(v2 > v1) || !(v3 > v2) ? null : [v1, v2];
   };
   // First-refractor delay: its own (branch-1 picks), else the two-layer section's depth.

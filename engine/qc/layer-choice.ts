@@ -26,6 +26,9 @@ export function layerCandidate(label: LayerCandidate['label'], interp: Interpret
   const res = interp.qc.residuals;
   if (!res || !(res.count > 0) || !(sigmaMs > 0)) return null;
   const layers = interp.layers.length;
+  // A forced run that did not come out with the layer count it forced (the branch
+  // assignment found no second refractor on any side) repeats another candidate.
+  if ((label === 'three-layer' && layers !== 3) || (label === 'two-layer' && layers !== 2)) return null;
   if (layers === 3 && !(interp.layers[2].velocity >= SECOND_REFRACTOR_MIN_CONTRAST * interp.layers[1].velocity)) return null;
   const stations = interp.stations.length;
   const parameters = (layers - 1) * stations + layers;

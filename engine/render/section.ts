@@ -11,7 +11,7 @@ import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM } from './page.js';
 import { INK, SECTION_COLOURS } from './palette.js';
-import { titleBlock, titleBlockBottomMm } from './title-block.js';
+import { layerCountNotes, titleBlock, titleBlockBottomMm } from './title-block.js';
 import { cautionNote, cautionNoteHeightMm } from './caution-note.js';
 import { legend, legendHeightMm, type LegendItem } from './legend.js';
 import { bottomAxis, leftAxis } from './axis.js';
@@ -84,7 +84,7 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
 
   // The title block's height (its number of lines) fixes the top of the plot, and the plot's
   // scales give the exaggeration the block states.
-  const qcNotes = qcSummary(interpretation);
+  const qcNotes = [...layerCountNotes(interpretation, survey.options?.layers), ...qcSummary(interpretation)];
   const ruleYPlanned = titleBlockBottomMm({ dateLine: survey.date, notes: [null, null, ...qcNotes] });
   const frame = sectionFrame(
     { xMinM, xMaxM: Math.max(xMaxM, xMinM + 1), topM: Number.isFinite(topM) ? topM : 0, bottomM },

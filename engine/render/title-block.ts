@@ -5,6 +5,8 @@
  * is set smaller, then cut with an ellipsis (the full name stays in the SVG's <title>).
  */
 import type { Container } from '@svgdotjs/svg.js';
+import type { Interpretation } from '../output/interpretation.js';
+import { fixed } from './format.js';
 import { INK } from './palette.js';
 import { PAGE, TEXT_MM, textWidthMm } from './page.js';
 import { addText } from './text.js';
@@ -66,4 +68,32 @@ export function titleBlock(parent: Container, content: TitleBlockContent): numbe
   const bottom = titleBlockBottomMm(content);
   group.line(left, bottom, right, bottom).attr({ stroke: INK.frame, 'stroke-width': 0.25 });
   return bottom;
+}
+
+/**
+ * Title-block notes that say how many layers the section shows and why, read from the
+ * interpretation (nothing computed here): with `qc.layerChoice` (issue 10) the criterion and
+ * each candidate's BIC and residual RMS as the engine reported them; else whether the count
+ * was asked for (`forcedLayers`, the survey's options.layers) or read from the picks' branches.
+ */
+export function layerCountNotes(interpretation: Interpretation, forcedLayers: 2 | 3 | undefined): { text: string; role: string }[] {
+  const n = interpretation.layers.length;
+  if (n === 0) return [];
+  const choice = interpretation.qc?.layerChoice;
+  if (choice && choice.candidates.length > 0) {
+    const taken = choice.candidates.find((c) => c.label === choice.chosen);
+    if (taken) {
+      return [
+        { text: `${taken.layers} layers taken (${taken.label}): lowest BIC`, role: 'layer-count' },
+        ...choice.candidates.map((c) => ({
+          text: `${c.label} · ${c.layers} layers · RMS ${fixed(c.rmsMs, 2)} ms · BIC ${fixed(c.bic, 1)}`,
+          role: 'layer-count-candidate',
+        })),
+      ];
+    }
+  }
+  if (forcedLayers !== undefined) {
+    return [{ text: forcedLayers === n ? `${n} layers, as asked (options.layers)` : `${n} layers (${forcedLayers} asked for; the picks show no more)`, role: 'layer-count' }];
+  }
+  return [{ text: `${n} layers, from the picks' branches`, role: 'layer-count' }];
 }

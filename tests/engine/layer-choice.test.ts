@@ -46,6 +46,17 @@ describe('layerCandidate', () => {
     } as unknown as Interpretation;
     expect(layerCandidate('three-layer', interp, 0.5)).toBeNull();
   });
+
+  it('drops a forced run that did not come out with the layer count it forced (it repeats another candidate)', () => {
+    const twoLayers = {
+      layers: [{ velocity: 600 }, { velocity: 2400 }],
+      stations: [],
+      qc: { residuals: { rmsMs: 1, count: 50, perShot: [], cellM: 0.5, refractorContinuation: 'flat' }, warnings: [], reciprocal: [] },
+    } as unknown as Interpretation;
+    expect(layerCandidate('three-layer', twoLayers, 0.5)).toBeNull();
+    expect(layerCandidate('two-layer', twoLayers, 0.5)).not.toBeNull();
+    expect(layerCandidate('auto', twoLayers, 0.5)).not.toBeNull();
+  });
 });
 
 describe('interpret: layer count chosen by the picks', () => {

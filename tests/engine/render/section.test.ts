@@ -2,6 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { renderSection } from '../../../engine/render/index.js';
 import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
 import { CAUTIONS } from '../../../engine/qc/cautions.js';
+import { interpret } from '../../../engine/pipeline/interpret.js';
+import { syntheticSurvey } from '../../../engine/forward/synthetic.js';
+import type { LayeredModel } from '../../../engine/forward/model.js';
 
 function points(el: Element): [number, number][] {
   return (el.getAttribute('points') ?? '')
@@ -225,5 +228,40 @@ describe('renderSection', () => {
     expect(byRole(root, 'refractor')).toHaveLength(0);
     expect(byRole(root, 'no-coverage')).toHaveLength(1);
     expect(byRole(root, 'geophone')).toHaveLength(24);
+  });
+});
+
+describe('renderSection: the title block says how many layers and why (issue 10)', () => {
+  // Invented three-layer eikonal line (500/2000/4000 m/s, 5 and 14 m, 32 × 3 m, off-end 40 m): read
+  // as two layers by the picks' own branches, the layer count is then chosen by BIC (qc.layerChoice).
+  const model: LayeredModel = {
+    surface: [{ x: -500, elevation: 0 }, { x: 500, elevation: 0 }],
+    layers: [
+      { velocity: 500 },
+      { velocity: 2000, top: [{ x: -500, elevation: -5 }, { x: 500, elevation: -5 }] },
+      { velocity: 4000, top: [{ x: -500, elevation: -14 }, { x: 500, elevation: -14 }] },
+    ],
+  };
+  const survey = syntheticSurvey(model, { geophoneCount: 32, firstX: 0, spacing: 3, shots: [{ x: -40 }, { x: -1.5 }, { x: 46.5 }, { x: 94.5 }, { x: 133 }] });
+
+  it('with qc.layerChoice: the count taken, the criterion, and every candidate\'s BIC and RMS as reported', () => {
+    const interpretation = interpret(survey);
+    const choice = interpretation.qc.layerChoice!;
+    expect(choice).toBeDefined();
+    const root = parseSvg(renderSection(survey, interpretation));
+    const taken = choice.candidates.find((c) => c.label === choice.chosen)!;
+    expect(textOf(byRole(root, 'layer-count')[0])).toBe(`${taken.layers} layers taken (${taken.label}): lowest BIC`);
+    const lines = byRole(root, 'layer-count-candidate').map(textOf);
+    expect(lines).toEqual(choice.candidates.map((c) => `${c.label} · ${c.layers} layers · RMS ${c.rmsMs.toFixed(2)} ms · BIC ${c.bic.toFixed(1)}`));
+  });
+
+  it('without a choice: asked for (options.layers), or read from the picks\' branches', () => {
+    const forced = { ...survey, options: { layers: 3 as const, residuals: false } };
+    const asked = parseSvg(renderSection(forced, interpret(forced)));
+    expect(textOf(byRole(asked, 'layer-count')[0])).toBe('3 layers, as asked (options.layers)');
+    expect(byRole(asked, 'layer-count-candidate')).toHaveLength(0);
+    const { survey: twoLayer, interpretation } = renderFixture();
+    const own = parseSvg(renderSection(twoLayer, interpretation));
+    expect(textOf(byRole(own, 'layer-count')[0])).toBe(`${interpretation.layers.length} layers, from the picks' branches`);
   });
 });
