@@ -27,6 +27,7 @@ import { scanForJumps } from '../engine/structure/jump-scan.js';
 import { demoLine } from '../engine/samples/demo-lines.js';
 import type { Survey } from '../engine/survey/survey.js';
 import type { CaseSpec } from './engine-case.js';
+import { WORKER_RESOURCE_LIMITS } from '../server/compute/pool.js';
 import { adjustReciprocalTimes as formerAdjust } from './former/reciprocal-adjustment.js';
 import { scanForJumps as formerScan } from './former/jump-scan.js';
 
@@ -47,7 +48,8 @@ interface CaseReport {
 /** Runs one case in a worker; resolves with what it reported before finishing or being stopped at capMs. */
 function runCase(spec: CaseSpec, capMs: number): Promise<{ report: CaseReport | null; stopped: boolean }> {
   return new Promise((resolve) => {
-    const worker = new Worker(new URL('./engine-case.js', import.meta.url), { workerData: spec });
+    // The same memory limits as the service's compute workers, so the table measures what they do.
+    const worker = new Worker(new URL('./engine-case.js', import.meta.url), { workerData: spec, resourceLimits: WORKER_RESOURCE_LIMITS });
     let report: CaseReport | null = null;
     let stopped = false;
     const timer = setTimeout(() => {
@@ -91,7 +93,7 @@ async function engineTable(): Promise<void> {
     // The largest line the service takes (SURVEY_LIMITS): the 2 s target of issue 9.
     { kind: 'flat', geophones: 1024, shots: 64, label: 'flat 1024 × 64' },
   ];
-  console.log('## Engine time (interpret, wall median of up to 3 runs) against JSON parse + serialise');
+  console.log('## Engine time (interpret, wall median of 3 to 200 runs, warm) against JSON parse + serialise');
   console.log('| line (geophones × shots) | residuals off, ms | residuals on, ms | on/off | JSON, ms | off/JSON | on/JSON | residual grid |');
   console.log('|---|---|---|---|---|---|---|---|');
   const start = performance.now();

@@ -60,11 +60,26 @@ function checkOrder(v1: number, v2: number, v3: number): void {
   }
 }
 
-/** The limit offset X for given crossover x12: x12 itself, or the k-th offset beyond it. */
-function limitOffset(x12: number, offsetsM: readonly number[] | undefined, minPicks: number): number | null {
-  if (!offsetsM) return x12;
-  const beyond = offsetsM.map(Math.abs).filter((o) => o > x12).sort((a, b) => a - b);
-  return beyond.length >= minPicks ? beyond[minPicks - 1] : null;
+/** |offset| of every geophone, increasing. O(n log n), once per spread. */
+function sortedDistances(offsetsM: readonly number[]): Float64Array {
+  return Float64Array.from(offsetsM, Math.abs).sort();
+}
+
+/**
+ * The limit offset X for given crossover x12: x12 itself, or the k-th offset beyond it.
+ * The offsets beyond x12 start at the first sorted distance > x12 (bisection): O(log n).
+ */
+function limitOffset(x12: number, distances: Float64Array | undefined, minPicks: number): number | null {
+  if (!distances) return x12;
+  let a = 0;
+  let b = distances.length;
+  while (a < b) {
+    const mid = (a + b) >> 1;
+    if (distances[mid] > x12) b = mid;
+    else a = mid + 1;
+  }
+  const k = a + minPicks - 1;
+  return k < distances.length ? distances[k] : null;
 }
 
 /** Largest thickness of a layer of velocity V2 under a top layer (V1, h1) that first arrivals would not show. */
@@ -83,12 +98,17 @@ export function maxHiddenLayerThickness(input: HiddenLayerInput): HiddenLayerBou
       if (typeof o !== 'number' || !Number.isFinite(o)) throw new StructureInputError(`offsetsM[${i}]`, `must be a finite offset in m, got ${String(o)}`);
     });
   }
+  return hiddenBound(v1, v2, v3, h1, input.offsetsM ? sortedDistances(input.offsetsM) : undefined, minPicks);
+}
+
+/** maxHiddenLayerThickness on checked input, the spread as sorted distances. O(log n). */
+function hiddenBound(v1: number, v2: number, v3: number, h1: number, distances: Float64Array | undefined, minPicks: number): HiddenLayerBound {
   const c12 = cosCritical(v1, v2);
   const c13 = cosCritical(v1, v3);
   const c23 = cosCritical(v2, v3);
   const ti2 = (2 * h1 * c12) / v1;
   const x12 = ti2 / (1 / v1 - 1 / v2);
-  const limit = limitOffset(x12, input.offsetsM, minPicks);
+  const limit = limitOffset(x12, distances, minPicks);
   if (limit === null) return { maxThicknessM: null, crossoverDirectM: x12, limitOffsetM: null };
   const h2 = (v2 * (limit * (1 / v2 - 1 / v3) - (2 * h1 * (c13 - c12)) / v1)) / (2 * c23);
   return { maxThicknessM: Math.max(0, h2), crossoverDirectM: x12, limitOffsetM: limit };
@@ -152,8 +172,14 @@ export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | nu
   const c23 = cosCritical(v2, v3);
   const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
   const h2AtZeroTop = (delayS * v2) / c23;
-  const hidden = (h2: number): boolean =>
-    isLayerHidden({ v1MPerS: v1, topThicknessM: Math.max(0, h1Of(h2)), hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM: input.offsetsM, minFirstArrivalPicks: input.minFirstArrivalPicks, hiddenThicknessM: h2 });
+  // The spread is checked and sorted once; each test below is then O(log n).
+  const minPicks = input.minFirstArrivalPicks ?? 3;
+  maxHiddenLayerThickness({ v1MPerS: v1, topThicknessM: 0, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM: input.offsetsM, minFirstArrivalPicks: minPicks });
+  const distances = sortedDistances(input.offsetsM);
+  const hidden = (h2: number): boolean => {
+    const bound = hiddenBound(v1, v2, v3, Math.max(0, h1Of(h2)), distances, minPicks);
+    return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
+  };
   // Scan upward for the first visible thickness, then bisect the boundary.
   const n = 200;
   let lo = 0;

@@ -63,6 +63,9 @@ function ramp(u: number, width: number): number {
 /** Work space of one scan, allocated once: O(n) memory for n points. */
 interface Scratch {
   line: WindowLine;
+  /** Window of the last stepFit, x[lo..hi−1]. */
+  lo: number;
+  hi: number;
   column: Float64Array;
   fit: ColumnFit;
 }
@@ -70,35 +73,57 @@ interface Scratch {
 function newScratch(n: number): Scratch {
   return {
     line: { n: 0, uMean: 0, yMean: 0, sxx: 0, slope: 0, rss: 0, sumU2: 0 },
+    lo: 0,
+    hi: 0,
     column: new Float64Array(n),
     fit: { rss: 0, coefficient: 0, unscaledVariance: 0 },
   };
 }
 
+/** Index of the first x ≥ bound (x increasing); binary search, O(log n). */
+function firstAtOrAbove(x: readonly number[], bound: number): number {
+  let a = 0;
+  let b = x.length;
+  while (a < b) {
+    const mid = (a + b) >> 1;
+    if (x[mid] < bound) a = mid + 1;
+    else b = mid;
+  }
+  return a;
+}
+
+/** Index of the first x > bound (x increasing); binary search, O(log n). */
+function firstAbove(x: readonly number[], bound: number): number {
+  let a = 0;
+  let b = x.length;
+  while (a < b) {
+    const mid = (a + b) >> 1;
+    if (x[mid] <= bound) a = mid + 1;
+    else b = mid;
+  }
+  return a;
+}
+
 /**
- * Step statistic (RSS_kink − RSS_step)/σ² at centre c and ramp width W; NaN when the
- * window has too few points on a side or a fit is singular. Cost O(m) for the m points
- * within W/2 + sidePoints spacings of c: one line fit, one ramp column (the logistic
- * depends on c, so it is evaluated per point), and the hinges by running sums.
+ * The window of centre c and ramp width W, and its step fit: writes the window's line
+ * into s.line and returns RSS_step, or NaN when the window has too few points on a side
+ * or a fit is singular. Cost O(m) for the m points within W/2 + sidePoints spacings of c:
+ * one line fit and one ramp column (the logistic depends on c, so it is evaluated per
+ * point); the points beyond each end of the ramp are counted by bisection.
  */
-function evaluate(x: readonly number[], y: readonly number[], c: number, width: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
+function stepFit(x: readonly number[], y: readonly number[], c: number, width: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
   const reach = width / 2 + opts.sidePoints * spacing;
   const lo = windowStart(x, c, reach);
   const hi = windowEnd(x, c, reach);
-  let nLeft = 0;
-  let nRight = 0;
-  for (let i = lo; i < hi; i++) {
-    if (x[i] <= c - width / 2) nLeft++;
-    if (x[i] >= c + width / 2) nRight++;
-  }
+  const nLeft = Math.max(0, Math.min(hi, firstAbove(x, c - width / 2)) - lo);
+  const nRight = Math.max(0, hi - Math.max(lo, firstAtOrAbove(x, c + width / 2)));
   if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return NaN;
   if (!fitWindowLine(x, y, lo, hi, c, s.line)) return NaN;
+  s.lo = lo;
+  s.hi = hi;
   for (let i = lo; i < hi; i++) s.column[i - lo] = ramp(x[i] - c, width);
   if (!addColumn(x, y, lo, c, s.line, s.column, s.fit)) return NaN;
-  const stepRss = s.fit.rss;
-  const kinkRss = bestKinkRss(x, y, lo, hi, c, s.line);
-  if (!Number.isFinite(kinkRss)) return NaN;
-  return (kinkRss - stepRss) / (opts.sigma * opts.sigma);
+  return s.fit.rss;
 }
 
 /**
@@ -154,17 +179,26 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
  * Finds jumps in y(x); x strictly increasing, no nulls. Cost O(n·F·m) for n points, F
  * widths and m points per window (m grows with the ramp width, i.e. the depth, not with
  * the line length), plus O(D·T·m) to refine D detections; O(n) memory.
+ *
+ * Two passes. The first fits the line and the step in every window and counts the trials
+ * (the Bonferroni m). RSS_kink ≤ RSS_line (the kink model nests the line), so
+ * (RSS_line − RSS_step)/σ² bounds the statistic from above; the second pass fits the kink
+ * only where that bound exceeds the threshold, for there alone can the statistic pass.
+ * A trial whose kink cannot be fitted (no hinge with two points either side, which the
+ * side counts already rule out) counts as a trial that did not pass.
  */
 export function scanForJumps(x: readonly number[], y: readonly number[], opts: JumpScanOptions): JumpDetection[] {
   if (x.length < 2 * opts.minSidePoints) return [];
   const factors = opts.widthFactors ?? [1, 1.5, 2, 3];
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
   const s = newScratch(x.length);
-  // Every evaluated (centre, width), in scan order: centre, half width, statistic.
+  const sigma2 = opts.sigma * opts.sigma;
+  // Every trial (centre, width) with a line and a step fit, in scan order: centre, width,
+  // the statistic's upper bound (RSS_line − RSS_step)/σ².
   const slots = (2 * x.length - 1) * factors.length;
   const centres = new Float64Array(slots);
-  const halfWidths = new Float64Array(slots);
-  const statistics = new Float64Array(slots);
+  const widths = new Float64Array(slots);
+  const bounds = new Float64Array(slots);
   let evaluated = 0;
   for (let i = 0; i < x.length; i++) {
     for (let half = 0; half < 2; half++) {
@@ -172,11 +206,11 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
       const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
       const w0 = Math.max(0, opts.rampWidthAt(c));
       for (const f of factors) {
-        const statistic = evaluate(x, y, c, w0 * f, opts, spacing, s);
-        if (Number.isNaN(statistic)) continue;
+        const stepRss = stepFit(x, y, c, w0 * f, opts, spacing, s);
+        if (Number.isNaN(stepRss)) continue;
         centres[evaluated] = c;
-        halfWidths[evaluated] = (w0 * f) / 2;
-        statistics[evaluated] = statistic;
+        widths[evaluated] = w0 * f;
+        bounds[evaluated] = (s.line.rss - stepRss) / sigma2;
         evaluated++;
       }
     }
@@ -184,8 +218,18 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   if (!evaluated) return [];
   const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
   const threshold = z * z;
+  const statistics = new Float64Array(evaluated);
+  const halfWidths = new Float64Array(evaluated);
   const passing: number[] = [];
-  for (let r = 0; r < evaluated; r++) if (statistics[r] > threshold) passing.push(r);
+  for (let r = 0; r < evaluated; r++) {
+    halfWidths[r] = widths[r] / 2;
+    if (!(bounds[r] > threshold)) continue;
+    const stepRss = stepFit(x, y, centres[r], widths[r], opts, spacing, s);
+    const kinkRss = bestKinkRss(x, y, s.lo, s.hi, centres[r], s.line);
+    if (!Number.isFinite(kinkRss)) continue;
+    statistics[r] = (kinkRss - stepRss) / sigma2;
+    if (statistics[r] > threshold) passing.push(r);
+  }
   passing.sort((a, b) => statistics[b] - statistics[a]);
   const kept: number[] = [];
   for (const p of passing) {

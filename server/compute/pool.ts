@@ -41,6 +41,16 @@ export const DEFAULT_TIME_LIMIT_MS = 10_000;
 export const QUEUED_PER_THREAD = 4;
 
 /**
+ * Memory limits of a compute worker. A large line keeps hundreds of thousands of per-pair
+ * numbers alive while it is interpreted; with V8's default young generation (16 MB
+ * semi-spaces) they are copied by scavenge after scavenge (a quarter of the time of a
+ * 1,024-geophone, 64-shot line). 96 MB of young generation (32 MB semi-spaces) took that
+ * line from about 3.6 to 3.2 s in bench/profile.ts (measured 2026-12-04); it is an upper
+ * bound, not an allocation.
+ */
+export const WORKER_RESOURCE_LIMITS = { maxYoungGenerationSizeMb: 96 } as const;
+
+/**
  * The worker entry: compiled JavaScript in production (dist/), the TypeScript source
  * through tsx when the service itself runs from source (tests).
  */
@@ -71,6 +81,7 @@ export class ComputePool {
       // One task per thread at a time: a second would wait behind the first anyway, and
       // would be lost with it when a time limit terminates the worker.
       concurrentTasksPerWorker: 1,
+      resourceLimits: WORKER_RESOURCE_LIMITS,
     });
   }
 
