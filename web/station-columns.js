@@ -59,6 +59,7 @@ const LEADING_COLUMNS = Object.freeze([
   column('depth', 'Depth', 'm', 'depth_m', UNIT_DECIMALS.m, (s) => s.depth),
   column('depthUncertainty', '± depth', 'm', 'depth_uncertainty_m', UNIT_DECIMALS.m, (s) => s.depthUncertainty, true),
   column('refractorElevation', 'Refractor elevation', 'm', 'refractor_elevation_m', UNIT_DECIMALS.m, (s) => s.refractorElevation),
+  column('hiddenLayerDepth', 'Depth if a hidden layer', 'm', 'depth_if_hidden_layer_m', UNIT_DECIMALS.m, (s) => s.hiddenLayerDepth, true),
 ]);
 
 /** Columns after the deeper refractors, in table order. */

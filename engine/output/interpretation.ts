@@ -32,6 +32,11 @@ export interface Station {
   pairCount?: number;
   /** Three-layer lines: how the delay time to each refractor was found, top first (null: none). */
   delaySources?: (DelaySource | null)[];
+  /**
+   * Where the hidden-layer warning is given: the deepest the first refractor could lie if a
+   * layer too thin to arrive first sits above it, m (depth + the extra depth it allows).
+   */
+  hiddenLayerDepth?: number | null;
 }
 
 /** How a station's delay time to a refractor was found. */

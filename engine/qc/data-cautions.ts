@@ -27,7 +27,8 @@
 import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
 import { median } from 'simple-statistics';
-import { hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
+import { hiddenLayerAllowance, hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
+import { roundM } from '../output/output-decimals.js';
 import { isFiniteNumber as isNum } from '../shared/numbers.js';
 
 /** Fewest picks that show a straight branch (two fix a line, a third tests it). Common practice. */
@@ -50,22 +51,67 @@ function sideBranchCounts(survey: Survey, shot: ShotAnalysis, side: 'left' | 'ri
   return counts;
 }
 
-/** Hidden layer above the first refractor, from the interpreted V1, V2 and median depth. */
-function hiddenLayerCaution(survey: Survey, interp: Interpretation): Warning | null {
+/** Offsets of the picks on each shot side, m, one array per side that has any (the spreads a hidden layer must hide on). O(S·G). */
+function shotSideSpreads(survey: Survey): number[][] {
+  const spreads: number[][] = [];
+  for (const shot of survey.shots) {
+    const left: number[] = [];
+    const right: number[] = [];
+    survey.geophones.forEach((g, i) => {
+      if (!isNum(shot.times[i])) return;
+      const offset = g.x - shot.x;
+      if (offset > 0) right.push(offset);
+      else if (offset < 0) left.push(-offset);
+    });
+    for (const side of [left, right]) if (side.length > 0) spreads.push(side);
+  }
+  return spreads;
+}
+
+/** Depths at which the hidden-layer allowance is computed across a section, to be interpolated between. Our choice. */
+const ALLOWANCE_SAMPLES = 9;
+
+/** The hidden-layer caution and, per station, the deepest the first refractor could lie under it. */
+interface HiddenLayerFinding {
+  warning: Warning;
+  /** Depth + the extra depth a hidden layer allows, per station (null where no depth), m. */
+  deepestM: (number | null)[];
+}
+
+/**
+ * Hidden layer above the first refractor, from the interpreted V1, V2 and depths. The
+ * layer must stay hidden on every shot side of the line (hiddenLayerAllowance), so an
+ * off-end shot far from the spread does not widen the blind zone that the end shots'
+ * near offsets close. The warning is worded at the median depth; the range under each
+ * station is the allowance at ALLOWANCE_SAMPLES depths spanning the section, interpolated
+ * linearly in depth (the allowance grows almost in proportion to depth: the crossover
+ * distances do). Cost: O(ALLOWANCE_SAMPLES · 250 · S·log G) after sorting the spreads.
+ */
+function hiddenLayerCaution(survey: Survey, interp: Interpretation): HiddenLayerFinding | null {
   const v1 = interp.layers[0]?.velocity;
   const v2 = interp.layers[1]?.velocity;
   const depths = interp.stations.map((s) => s.depth).filter((d): d is number => isNum(d) && d > 0);
   if (!isNum(v1) || !isNum(v2) || !(v2 > v1) || depths.length === 0) return null;
-  // Offsets of the shot with the longest reach: if a layer would show anywhere, it shows there.
-  let offsetsM: number[] = [];
-  for (const shot of survey.shots) {
-    const o = survey.geophones.map((g, i) => (isNum(shot.times[i]) ? Math.abs(g.x - shot.x) : NaN)).filter((v) => Number.isFinite(v) && v > 0);
-    if (o.length > 0 && Math.max(...o) > (offsetsM.length ? Math.max(...offsetsM) : 0)) offsetsM = o;
-  }
-  if (offsetsM.length === 0) return null;
+  const spreadsM = shotSideSpreads(survey);
+  if (spreadsM.length === 0) return null;
   try {
-    const w = hiddenLayerWarning({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: median(depths), offsetsM });
-    return w ? { ...w, message: `${w.message} (Blind zone: such a layer would never arrive first at these offsets; ASTM D5777; USACE EM 1110-1-1802.)` } : null;
+    const w = hiddenLayerWarning({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: median(depths), spreadsM });
+    if (!w) return null;
+    const lo = Math.min(...depths);
+    const hi = Math.max(...depths);
+    const samples = Array.from({ length: hi > lo ? ALLOWANCE_SAMPLES : 1 }, (_, k) => lo + ((hi - lo) * k) / Math.max(1, ALLOWANCE_SAMPLES - 1));
+    const extra = samples.map((d) => hiddenLayerAllowance({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: d, spreadsM })?.extraDepthM ?? 0);
+    const extraAt = (d: number): number => {
+      if (samples.length === 1 || d <= lo) return extra[0];
+      if (d >= hi) return extra[extra.length - 1];
+      const t = ((d - lo) / (hi - lo)) * (samples.length - 1);
+      const k = Math.min(samples.length - 2, Math.floor(t));
+      return extra[k] + (extra[k + 1] - extra[k]) * (t - k);
+    };
+    return {
+      warning: { ...w, message: `${w.message} The section shows that deeper limit as a dashed line. (Blind zone: such a layer would never arrive first at these offsets; ASTM D5777; USACE EM 1110-1-1802.)` },
+      deepestM: interp.stations.map((s) => (isNum(s.depth) && s.depth > 0 ? roundM(s.depth + extraAt(s.depth)) : null)),
+    };
   } catch {
     return null; // inputs outside the bound's domain: no caution can be worded
   }
@@ -154,7 +200,7 @@ export function dataCautions(survey: Survey, interp: Interpretation): Warning[] 
     if (out.some((o) => o.code === w.code && o.message === w.message)) return;
     out.push(w);
   };
-  add(hiddenLayerCaution(survey, interp), true);
+  add(hiddenLayerCaution(survey, interp)?.warning ?? null, true);
   const velocities = interp.layers.map((l) => l.velocity).filter((v) => isNum(v) && v > 0);
   if (velocities.length === interp.layers.length) {
     for (const w of velocityInversion(velocities)) add({ ...w, message: `${w.message} (ASTM D5777; USACE EM 1110-1-1802.)` }, true);
@@ -166,9 +212,15 @@ export function dataCautions(survey: Survey, interp: Interpretation): Warning[] 
   return out;
 }
 
-/** The interpretation with dataCautions appended to its warnings. */
+/**
+ * The interpretation with dataCautions appended to its warnings and, where the hidden-layer
+ * caution is given, each station's hiddenLayerDepth (the deepest the first refractor could
+ * lie under a layer hidden from first arrivals).
+ */
 export function withDataCautions(survey: Survey, interp: Interpretation): Interpretation {
   const extra = dataCautions(survey, interp);
   if (extra.length === 0) return interp;
-  return { ...interp, qc: { ...interp.qc, warnings: [...interp.qc.warnings, ...extra] } };
+  const hidden = extra.some((w) => w.code === 'hidden-layer') ? hiddenLayerCaution(survey, interp) : null;
+  const stations = hidden ? interp.stations.map((s, i) => ({ ...s, hiddenLayerDepth: hidden.deepestM[i] })) : interp.stations;
+  return { ...interp, stations, qc: { ...interp.qc, warnings: [...interp.qc.warnings, ...extra] } };
 }

@@ -50,6 +50,8 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
         return d === null || d === undefined ? null : s.elevation - d;
       })
     : [];
+  // Where the hidden-layer warning is given: the deepest the refractor could lie (qc).
+  const hiddenLimit = profileRuns(stations, (s) => s.x, (s) => (typeof s.hiddenLayerDepth === 'number' ? s.elevation - s.hiddenLayerDepth : null));
   const firstX = geophones.length > 0 ? geophones[0].x : 0;
   const lastX = geophones.length > 0 ? geophones[geophones.length - 1].x : 0;
   const offEnd = shots.filter((s) => s.x < firstX || s.x > lastX).map((s) => ({ x: s.x, elevation: s.elevation }));
@@ -60,7 +62,7 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
   const xMinM = allXs.length > 0 ? Math.min(...allXs) : 0;
   const xMaxM = allXs.length > 0 ? Math.max(...allXs) : 1;
   const topM = Math.max(...ground.map((p) => p.elevation), ...shots.map((s) => s.elevation), -Infinity);
-  const refractorElevations = [...refractor, ...refractor2].flat().map((p) => p.elevation);
+  const refractorElevations = [...refractor, ...refractor2, ...hiddenLimit].flat().map((p) => p.elevation);
   const groundMin = Math.min(...ground.map((p) => p.elevation), Infinity);
   const bottomM = refractorElevations.length > 0 ? Math.min(...refractorElevations) : (Number.isFinite(groundMin) ? groundMin : 0) - 0.15 * Math.max(1, xMaxM - xMinM);
   const contentWidth = PAGE.widthMm - 2 * PAGE.marginMm;
@@ -70,6 +72,7 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
   const arcsWanted = options.showArcs !== false && stations.some((s) => typeof s.normalDepth === 'number' && s.normalDepth > 0);
   const legendItems = sectionLegend({
     hasSecond,
+    hiddenLimit: hiddenLimit.length > 0,
     arcs: arcsWanted,
     uncovered: hasUncovered,
     steps: (interpretation.features?.steps ?? []).length > 0,
@@ -113,6 +116,7 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
   const hatchCentres = uncoveredStretches(stations).map((stretch) => noCoverageHatch(plot, stretch, frame));
   if (arcsWanted) depthArcs(plot, stations, frame);
   if (hasSecond) refractorPath(plot, refractor2, frame.x, frame.elevation, { colour: SECTION_COLOURS.refractor2, widthMm: 0.6, dash: '2 1.2', role: 'refractor-2' });
+  if (hiddenLimit.length > 0) refractorPath(plot, hiddenLimit, frame.x, frame.elevation, { colour: SECTION_COLOURS.refractor, widthMm: 0.35, dash: '0.8 1.6', role: 'hidden-layer-limit' });
   refractorPath(plot, refractor, frame.x, frame.elevation, { colour: SECTION_COLOURS.refractor, widthMm: 0.8, role: 'refractor' });
   groundLine(plot, ground, frame);
   geophoneMarkers(svg, geophones, frame);
@@ -183,6 +187,7 @@ function drawLayerLabels(
 
 interface LegendNeeds {
   hasSecond: boolean;
+  hiddenLimit: boolean;
   arcs: boolean;
   uncovered: boolean;
   steps: boolean;
@@ -210,6 +215,7 @@ function sectionLegend(needs: LegendNeeds): LegendItem[] {
     { label: 'refractor', glyph: stroke(SECTION_COLOURS.refractor, 0.8) },
   ];
   if (needs.hasSecond) items.push({ label: 'second refractor', glyph: stroke(SECTION_COLOURS.refractor2, 0.6, '2 1.2') });
+  if (needs.hiddenLimit) items.push({ label: 'deepest refractor if a hidden layer is present (see warnings)', glyph: stroke(SECTION_COLOURS.refractor, 0.35, '0.8 1.6') });
   if (needs.arcs) {
     items.push({
       label: 'depth arcs',

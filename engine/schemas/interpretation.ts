@@ -45,6 +45,9 @@ export const StationSchema = Type.Object(
         description: 'Three-layer lines: how the delay time to each refractor was found, top first.',
       }),
     ),
+    hiddenLayerDepth: opt(
+      nullable(num('Where the hidden-layer warning is given: the deepest the first refractor could lie under a layer too thin to arrive first, m.')),
+    ),
   },
   { ...closed, title: 'Station' },
 );

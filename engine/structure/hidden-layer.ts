@@ -143,7 +143,14 @@ export interface HiddenLayerWarningInput {
   refractorVelocityMPerS: number;
   /** Interpreted (two-layer) depth to the refractor, m. */
   depthM: number;
-  offsetsM: number[];
+  /** Source–geophone offsets of one spread, m (used when spreadsM is absent). */
+  offsetsM?: number[];
+  /**
+   * Offsets of every shot side of the line, m, one array per side. The layer is hidden
+   * only if it is hidden on every one of them: a far off-end shot whose nearest geophone
+   * is tens of metres out cannot hide what the end shots' near offsets would show.
+   */
+  spreadsM?: number[][];
   /** Velocity assumed for the possible hidden layer; default √(V1·V3), our choice of a representative value. */
   hiddenVelocityMPerS?: number;
   minFirstArrivalPicks?: number;
@@ -151,14 +158,28 @@ export interface HiddenLayerWarningInput {
   x?: number;
 }
 
+/** What a hidden layer could do to a two-layer depth: its largest thickness and how much deeper the refractor would be, m. */
+export interface HiddenLayerAllowance {
+  /** Largest thickness of the layer that stays hidden on every spread, m. */
+  thicknessM: number;
+  /** Top-layer thickness left over it (the observed delay time held), m. */
+  topThicknessM: number;
+  /** How much deeper than the two-layer depth the refractor would then lie, m. */
+  extraDepthM: number;
+  /** Velocity the layer was checked at, m/s. */
+  velocityMPerS: number;
+}
+
 /**
- * Warning about a layer that the interpreted two-layer section could be hiding. The
- * observed delay time t = z·cos θ13/V1 is kept fixed, so a hidden layer of thickness h2
- * leaves h1 = (t − h2·cos θ23/V2)·V1/cos θ13 for the top layer; the largest h2 that stays
- * hidden is found by bisection, and the refractor would then lie h1 + h2 − z deeper than
- * shown. Returns null when no such layer could hide on this spread.
+ * How much a hidden layer could deepen a two-layer depth (see hiddenLayerWarning), or null
+ * when no layer could hide. The observed delay time t = z·cos θ13/V1 is kept fixed, so a
+ * hidden layer of thickness h2 leaves h1 = (t − h2·cos θ23/V2)·V1/cos θ13 for the top
+ * layer; h2 is hidden when it is hidden on every spread (each spread's bound from
+ * maxHiddenLayerThickness); the largest such h2 is found by a scan of 200 steps and 50
+ * bisections. Cost: O(250 · S · log n) for S spreads of n offsets, after sorting each
+ * spread once (O(S·n log n)).
  */
-export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | null {
+export function hiddenLayerAllowance(input: HiddenLayerWarningInput): HiddenLayerAllowance | null {
   const v1 = input.v1MPerS;
   const v3 = input.refractorVelocityMPerS;
   positive(v1, 'v1MPerS');
@@ -167,18 +188,25 @@ export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | nu
   positive(input.depthM, 'depthM');
   const v2 = input.hiddenVelocityMPerS ?? Math.sqrt(v1 * v3);
   checkOrder(v1, v2, v3);
+  const spreads = input.spreadsM ?? (input.offsetsM ? [input.offsetsM] : null);
+  if (!spreads || spreads.length === 0) throw new StructureInputError('spreadsM', 'must give the offsets of at least one spread (or offsetsM)');
   const delayS = (input.depthM * cosCritical(v1, v3)) / v1;
   const c13 = cosCritical(v1, v3);
   const c23 = cosCritical(v2, v3);
   const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
   const h2AtZeroTop = (delayS * v2) / c23;
-  // The spread is checked and sorted once; each test below is then O(log n).
+  // Each spread is checked and sorted once; each test below is then O(S·log n).
   const minPicks = input.minFirstArrivalPicks ?? 3;
-  maxHiddenLayerThickness({ v1MPerS: v1, topThicknessM: 0, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM: input.offsetsM, minFirstArrivalPicks: minPicks });
-  const distances = sortedDistances(input.offsetsM);
+  const distances = spreads.map((offsetsM) => {
+    maxHiddenLayerThickness({ v1MPerS: v1, topThicknessM: 0, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM, minFirstArrivalPicks: minPicks });
+    return sortedDistances(offsetsM);
+  });
   const hidden = (h2: number): boolean => {
-    const bound = hiddenBound(v1, v2, v3, Math.max(0, h1Of(h2)), distances, minPicks);
-    return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
+    const h1 = Math.max(0, h1Of(h2));
+    return distances.every((d) => {
+      const bound = hiddenBound(v1, v2, v3, h1, d, minPicks);
+      return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
+    });
   };
   // Scan upward for the first visible thickness, then bisect the boundary.
   const n = 200;
@@ -201,11 +229,22 @@ export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | nu
     }
   }
   if (lo <= 0) return null;
-  const extraDepth = Math.max(0, h1Of(lo)) + lo - input.depthM;
+  const topThicknessM = Math.max(0, h1Of(lo));
+  return { thicknessM: lo, topThicknessM, extraDepthM: Math.max(0, topThicknessM + lo - input.depthM), velocityMPerS: v2 };
+}
+
+/**
+ * Warning about a layer that the interpreted two-layer section could be hiding
+ * (hiddenLayerAllowance); null when no such layer could hide on these spreads.
+ */
+export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | null {
+  const allowance = hiddenLayerAllowance(input);
+  if (allowance === null) return null;
   const r = (v: number): string => (Math.abs(v) >= 10 ? v.toFixed(0) : v.toFixed(1));
+  const where = input.spreadsM && input.spreadsM.length > 1 ? 'on any shot of this line' : 'on this spread';
   return {
     code: 'hidden-layer',
-    message: `A layer of up to ${r(lo)} m with a velocity between ${Math.round(v1)} and ${Math.round(v3)} m/s (checked at ${Math.round(v2)} m/s) could be hidden above the refractor on this spread; the refractor would then be up to ${r(extraDepth)} m deeper than shown.`,
+    message: `A layer of up to ${r(allowance.thicknessM)} m with a velocity between ${Math.round(input.v1MPerS)} and ${Math.round(input.refractorVelocityMPerS)} m/s (checked at ${Math.round(allowance.velocityMPerS)} m/s) could be hidden above the refractor ${where}; the refractor would then be up to ${r(allowance.extraDepthM)} m deeper than shown.`,
     ...(input.x !== undefined ? { x: input.x } : {}),
   };
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { dataCautions, MIN_PICKS_PER_BRANCH } from '../../engine/qc/data-cautions.js';
-import { isLayerHidden } from '../../engine/structure/hidden-layer.js';
+import { hiddenLayerAllowance, isLayerHidden } from '../../engine/structure/hidden-layer.js';
 import { demoLine, flatLine, flatLineModel } from '../../engine/samples/demo-lines.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
@@ -34,6 +34,27 @@ describe('hidden layer / blind zone (Soske 1959; Kearey, Brooks & Hill 2002 ch. 
     const hiddenAt = (t: number): boolean => isLayerHidden({ v1MPerS: v1, topThicknessM: 0.5, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM, hiddenThicknessM: t });
     expect(hiddenAt(0.1)).toBe(true);
     expect(hiddenAt(20 * h)).toBe(false);
+    expectFinite(r);
+  });
+});
+
+describe('hidden layer on the section: the deepest refractor it allows under each station', () => {
+  it('on the demo line, every station with a depth gets a deeper limit; at the median depth it is the warning\'s own extra depth', () => {
+    const survey = demoLine();
+    const r = interpret(survey);
+    const withDepth = r.stations.filter((s) => typeof s.depth === 'number' && s.depth > 0);
+    expect(withDepth.length).toBeGreaterThan(0);
+    for (const s of withDepth) expect(s.hiddenLayerDepth as number).toBeGreaterThan(s.depth as number);
+    const m = /up to ([\d.]+) m deeper than shown/.exec(r.qc.warnings.find((w) => w.code === 'hidden-layer')!.message)!;
+    // The same allowance, computed directly on every shot side at the median depth.
+    const depths = withDepth.map((s) => s.depth as number).sort((a, b) => a - b);
+    const medianDepth = depths.length % 2 ? depths[depths.length >> 1] : 0.5 * (depths[depths.length / 2 - 1] + depths[depths.length / 2]);
+    const spreadsM = survey.shots.flatMap((shot) => [
+      survey.geophones.filter((g, i) => typeof shot.times[i] === 'number' && g.x < shot.x).map((g) => shot.x - g.x),
+      survey.geophones.filter((g, i) => typeof shot.times[i] === 'number' && g.x > shot.x).map((g) => g.x - shot.x),
+    ]).filter((o) => o.length > 0);
+    const a = hiddenLayerAllowance({ v1MPerS: r.layers[0].velocity, refractorVelocityMPerS: r.layers[1].velocity, depthM: medianDepth, spreadsM })!;
+    expect(a.extraDepthM).toBeCloseTo(Number(m[1]), 1);
     expectFinite(r);
   });
 });

@@ -183,6 +183,22 @@ describe('renderSection', () => {
     expect(byRole(root, 'layer-label').map(textOf)).toContain('layer 3: 4,200 m/s');
   });
 
+  it('draws the hidden-layer limit at elevation − hiddenLayerDepth, with its legend entry, only where the interpretation gives one', () => {
+    const { survey, interpretation } = renderFixture();
+    const plain = parseSvg(renderSection(survey, interpretation));
+    expect(byRole(plain, 'hidden-layer-limit')).toHaveLength(0);
+    const withLimit = { ...interpretation, stations: interpretation.stations.map((s) => ({ ...s, hiddenLayerDepth: typeof s.depth === 'number' ? s.depth + 3 : null })) };
+    const root = parseSvg(renderSection(survey, withLimit));
+    const y = axisMap(root, 'y-tick');
+    const lines = byRole(root, 'hidden-layer-limit');
+    expect(lines).toHaveLength(1);
+    points(lines[0]).forEach(([, py], i) => {
+      const s = withLimit.stations[i];
+      expect(Math.abs(y.toData(py) - (s.elevation - (s.hiddenLayerDepth as number)))).toBeLessThan(0.01);
+    });
+    expect(textOf(root)).toContain('deepest refractor if a hidden layer is present');
+  });
+
   it('draws one depth arc per station with a normal depth, and none when asked not to', () => {
     const { survey, interpretation } = renderFixture({ uncovered: [4] });
     const withArcs = parseSvg(renderSection(survey, interpretation));

@@ -5,7 +5,7 @@
  * x/V_n + intercept).
  */
 import { describe, expect, it } from 'vitest';
-import { hiddenLayerWarning, isLayerHidden, maxHiddenLayerThickness } from '../../../engine/structure/hidden-layer.js';
+import { hiddenLayerAllowance, hiddenLayerWarning, isLayerHidden, maxHiddenLayerThickness } from '../../../engine/structure/hidden-layer.js';
 
 const V1 = 500;
 const V2 = 1200;
@@ -76,5 +76,41 @@ describe('hiddenLayerWarning', () => {
     expect(h1 + h2 - 6).toBeCloseTo(extra, 0);
     expect(layer2FirstArrivals(h1, h2 * 0.98, OFFSETS)).toBeLessThan(3);
     console.log(`[hidden-layer] depth 6 m, V1 500, V3 3000, checked at 1200 m/s: ${w.message}`);
+  });
+});
+
+describe('hiddenLayerAllowance over every shot side of a line', () => {
+  // An end shot's side (offsets 2 … 46 m) and a far off-end shot's (40 … 84 m) of the same
+  // 23-geophone spread: a layer that the end shot's near offsets would show is not hidden,
+  // whatever the far shot sees.
+  const END = OFFSETS;
+  const FAR = OFFSETS.map((o) => o + 38);
+  const input = { v1MPerS: V1, refractorVelocityMPerS: V3, depthM: 6, hiddenVelocityMPerS: V2 };
+  const c13 = Math.sqrt(1 - (V1 / V3) ** 2);
+  const c23 = Math.sqrt(1 - (V2 / V3) ** 2);
+  const topOver = (h2: number): number => ((6 * c13) / V1 - (h2 * c23) / V2) * (V1 / c13);
+
+  it('is the smallest of the sides’ own allowances, not the widest reach’s', () => {
+    const both = hiddenLayerAllowance({ ...input, spreadsM: [END, FAR] })!;
+    const endOnly = hiddenLayerAllowance({ ...input, spreadsM: [END] })!;
+    const farOnly = hiddenLayerAllowance({ ...input, spreadsM: [FAR] })!;
+    expect(farOnly.thicknessM).toBeGreaterThan(endOnly.thicknessM);
+    expect(both.thicknessM).toBeCloseTo(endOnly.thicknessM, 9);
+  });
+
+  it('agrees with first arrivals counted on each side from the three branch times (Kearey, Brooks & Hill 2002, ch. 5)', () => {
+    const a = hiddenLayerAllowance({ ...input, spreadsM: [END, FAR] })!;
+    // Just below the bound the layer arrives first at fewer than 3 offsets on every side…
+    const below = a.thicknessM * 0.98;
+    for (const side of [END, FAR]) expect(layer2FirstArrivals(topOver(below), below, side)).toBeLessThan(3);
+    // …and just above it, on at least one side it makes a branch of 3 picks.
+    const above = a.thicknessM * 1.05;
+    expect(Math.max(...[END, FAR].map((side) => layer2FirstArrivals(topOver(above), above, side)))).toBeGreaterThanOrEqual(3);
+    // The refractor would lie h1 + h2 − z deeper than the two-layer depth.
+    expect(a.extraDepthM).toBeCloseTo(a.topThicknessM + a.thicknessM - 6, 9);
+  });
+
+  it('refuses a call without any spread, naming the field', () => {
+    expect(() => hiddenLayerAllowance({ ...input })).toThrow(/spreadsM/);
   });
 });
