@@ -117,6 +117,17 @@ export function envelopeElevationM(arcs: DepthArc[], xM: number): number | null 
   return envelopeAt(circles, tangentPieces(circles), xM);
 }
 
+/**
+ * Elevation of the envelope of the arcs at each of several x, m (null where nothing
+ * reaches): one set of circles and tangent pieces for all of them. Cost O(n log n + X·n)
+ * for n arcs and X positions.
+ */
+export function envelopeElevationsM(arcs: DepthArc[], xsM: readonly number[]): (number | null)[] {
+  const circles = validCircles(arcs);
+  const pieces = tangentPieces(circles);
+  return xsM.map((x) => envelopeAt(circles, pieces, x));
+}
+
 function envelopeAt(circles: Circle[], pieces: TangentPiece[], xM: number): number | null {
   let lowest: number | null = null;
   for (const c of circles) {

@@ -8,10 +8,16 @@
  * stations that have one, or held beyond the last: common practice for a layer seen over
  * part of the line only; flagged per station and warned.
  * Depth: layer stripping (layer-stripping.ts; Kearey, Brooks & Hill 2002, ch. 5; Telford,
- * Geldart & Sheriff 1990, ch. 4):
- *   delay₁ = h1·cos θ12/V1,   delay₂ = h1·cos θ13/V1 + h2·cos θ23/V2,   sin θij = Vi/Vj,
- *   depths = [h1, h1 + h2]. Layers are taken as locally parallel to the ground (flat-layer
- *   formulas at each station).
+ * Geldart & Sheriff 1990, ch. 4) gives the thickness of each layer measured normal to the
+ * interfaces at each station:
+ *   delay₁ = h1·cos θ12/V1,   delay₂ = h1·cos θ13/V1 + h2·cos θ23/V2,   sin θij = Vi/Vj.
+ * Each thickness is then placed as an envelope of arcs (Hagedoorn 1959; depth-arcs.ts), as
+ * the first refractor of a two-layer line is: arcs of radius h1 about the geophones give
+ * the first refractor and the foot of each arc on it; arcs of radius h2 about those feet
+ * give the second, whose elevation under each geophone is read off its envelope (where no
+ * arc reaches, h2 is hung below the first refractor). Under dipping or curved interfaces
+ * this puts the depth below the geophone rather than along the normal, the same care as
+ * the first refractor; on flat layers it is h1 and h1 + h2.
  * Why the first refractor is redone here on a three-layer line: the two-layer section's
  * reciprocal times are read from the earliest arrival, which on such a line is often the
  * second refractor's, and that inflates T+ of the first refractor.
@@ -24,6 +30,7 @@ import { isFiniteNumber as isNum } from '../shared/numbers.js';
 import { positionsTextShort as describeXs } from '../qc/wording.js';
 import { refractorDelays, type RefractorDelays } from './refractor-delays.js';
 import { stripLayers } from './layer-stripping.js';
+import { arcFootPointsM, envelopeElevationsM, verticalDepthsFromArcsM } from './depth-arcs.js';
 
 /** What the two-layer stages found, unrounded: the input of the three-layer stage. */
 export interface TwoLayerRecord {
@@ -46,6 +53,8 @@ export interface SecondRefractorMap {
   velocitiesMPerS: (number | null)[];
   /** Vertical depth to each refractor per geophone, m: [first, second]. */
   depthM: [number | null, number | null][];
+  /** Thickness of layers 1 and 2 normal to the interfaces (the arc radii), m. */
+  normalThicknessM: [number | null, number | null][];
   warnings: Warning[];
 }
 
@@ -127,7 +136,8 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
   const v2Line = ownV2 ?? (v1Line !== null ? positive(twoLayer.v2MPerS) : null) ?? positive(first.velocityMPerS);
   const v3 = positive(second.velocityMPerS);
   const depthM: [number | null, number | null][] = xs.map(() => [null, null]);
-  const result = (mapped: boolean): SecondRefractorMap => ({ mapped, first, second, velocitiesMPerS: [v1Line, v2Line, v3], depthM, warnings });
+  const normalM: [number | null, number | null][] = xs.map(() => [null, null]);
+  const result = (mapped: boolean): SecondRefractorMap => ({ mapped, first, second, velocitiesMPerS: [v1Line, v2Line, v3], depthM, normalThicknessM: normalM, warnings });
   if (!shots.some((s) => s.branchOfPick.includes(2))) return result(false);
   if (v3 === null) {
     warnings.push({
@@ -184,12 +194,13 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
       if (d2 !== null) noFirst.push(xs[i]);
       continue;
     }
-    depthM[i][0] = stripLayers([d1], [v1, v2])?.depthsM[0] ?? null;
+    normalM[i][0] = stripLayers([d1], [v1, v2])?.depthsM[0] ?? null;
     if (d2 === null) continue;
     const stripped = d2 >= 0 ? stripLayers([d1, d2], [v1, v2, v3]) : null;
     if (stripped === null) noAnswer.push(xs[i]);
-    else depthM[i][1] = stripped.depthsM[1];
+    else normalM[i][1] = stripped.thicknessesM[1];
   }
+  placeByArcs(survey, normalM, depthM);
   if (noFirst.length > 0) {
     warnings.push({
       code: 'second-refractor-no-first-depth',
@@ -221,6 +232,35 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
     });
   }
   return result(depthM.some((d) => d[1] !== null));
+}
+
+/**
+ * Vertical depths from the normal thicknesses (see the file comment): the first refractor
+ * as the envelope of arcs of radius h1 about the geophones, the second as the envelope of
+ * arcs of radius h2 about the first arcs' feet. Writes depthM. Cost: that of depth-arcs.ts,
+ * O(n²) for n stations.
+ */
+function placeByArcs(survey: Survey, normalM: [number | null, number | null][], depthM: [number | null, number | null][]): void {
+  const xs = survey.geophones.map((g) => g.x);
+  const elevation = survey.geophones.map((g) => g.elevation ?? 0);
+  const firstArcs = xs.map((x, i) => ({ xM: x, elevationM: elevation[i], normalDepthM: normalM[i][0] }));
+  const firstDepth = verticalDepthsFromArcsM(firstArcs);
+  const feet = arcFootPointsM(firstArcs);
+  const secondArcs = xs.flatMap((_, i) => {
+    const foot = feet[i];
+    const h2 = normalM[i][1];
+    return foot && h2 !== null ? [{ xM: foot.xM, elevationM: foot.elevationM, normalDepthM: h2 }] : [];
+  });
+  const secondElevation = envelopeElevationsM(secondArcs, xs);
+  for (let i = 0; i < xs.length; i++) {
+    const [h1, h2] = normalM[i];
+    if (h1 === null) continue;
+    const z1 = firstDepth[i] ?? h1;
+    depthM[i][0] = z1;
+    if (h2 === null) continue;
+    const below = secondElevation[i];
+    depthM[i][1] = below !== null ? Math.max(z1, elevation[i] - below) : z1 + h2;
+  }
 }
 
 /**

@@ -103,6 +103,8 @@ export function toInterpretation(r: LineRecord): Interpretation {
             refractorElevation: roundM(elevation[i] - z1),
             delayTime: d1 !== null && Number.isFinite(d1) ? roundMs(d1) : st.delayTime,
             depths: [roundM(z1), roundMOrNull(z2)],
+            // The arc radius of the first refractor on this line: the stripped layer-1 thickness.
+            ...(st.normalDepth !== undefined ? { normalDepth: roundMOrNull(map.normalThicknessM[i][0]) } : {}),
             delaySources: [map.first.delaySource[i] ?? (st.depth !== null ? 'pair' : null), map.second.delaySource[i]],
           };
         })

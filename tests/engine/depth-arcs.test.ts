@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   arcFootPointsM,
   envelopeElevationM,
+  envelopeElevationsM,
   lowerArcElevationM,
   verticalDepthsFromArcsM,
   type DepthArc,
@@ -81,6 +82,28 @@ describe('verticalDepthsFromArcsM', () => {
     }
     // ...and touches the arc of the geophone above it or lies below it; never above ground − z.
     verticalDepthsFromArcsM(arcs).forEach((d, i) => expect(d as number).toBeGreaterThanOrEqual(arcs[i].normalDepthM as number - 1e-9));
+  });
+});
+
+describe('envelopeElevationsM', () => {
+  it('gives at every x what envelopeElevationM gives there', () => {
+    const xs = Array.from({ length: 24 }, (_, i) => 2 * i);
+    const arcs: DepthArc[] = xs.map((x, i) => ({ xM: x, elevationM: 50 + Math.sin(i), normalDepthM: i === 7 ? null : 6 + 2 * Math.cos(i * 0.7) }));
+    const at = [-30, -3, 0, 1.3, 13, 14, 27.5, 46, 49, 80];
+    expect(envelopeElevationsM(arcs, at)).toEqual(at.map((x) => envelopeElevationM(arcs, x)));
+  });
+
+  it('over a planar refractor, the envelope of arcs about the feet of a first set of arcs is the plane a normal thickness below (Hagedoorn 1959, applied twice)', () => {
+    // Two parallel planes 4 m apart, dipping 10°, under a flat ground at 100 m: arcs of the
+    // normal depth to the first about the geophones, then arcs of 4 m about their feet.
+    const dip = (10 * Math.PI) / 180;
+    const xs = Array.from({ length: 31 }, (_, i) => 2 * i);
+    const firstTop = (x: number): number => 95 - x * Math.tan(dip);
+    const first = xs.map((x) => ({ xM: x, elevationM: 100, normalDepthM: (100 - firstTop(x)) * Math.cos(dip) }));
+    const feet = arcFootPointsM(first);
+    const second = feet.map((f) => ({ xM: f!.xM, elevationM: f!.elevationM, normalDepthM: 4 }));
+    const y = envelopeElevationsM(second, xs.slice(5, 26));
+    y.forEach((e, k) => expect(e as number).toBeCloseTo(firstTop(xs[k + 5]) - 4 / Math.cos(dip), 6));
   });
 });
 
