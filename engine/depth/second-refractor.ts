@@ -31,6 +31,7 @@ import { positionsTextShort as describeXs } from '../qc/wording.js';
 import { refractorDelays, type RefractorDelays } from './refractor-delays.js';
 import { stripLayers } from './layer-stripping.js';
 import { arcFootPointsM, envelopeElevationsM, verticalDepthsFromArcsM } from './depth-arcs.js';
+import { lowerRefractorStructure, type LowerRefractorStructure } from '../structure/lower-refractor.js';
 
 /** What the two-layer stages found, unrounded: the input of the three-layer stage. */
 export interface TwoLayerRecord {
@@ -55,6 +56,8 @@ export interface SecondRefractorMap {
   depthM: [number | null, number | null][];
   /** Thickness of layers 1 and 2 normal to the interfaces (the arc radii), m. */
   normalThicknessM: [number | null, number | null][];
+  /** Steps and dip of the second refractor; null until it is mapped. */
+  structure: LowerRefractorStructure | null;
   warnings: Warning[];
 }
 
@@ -137,7 +140,16 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
   const v3 = positive(second.velocityMPerS);
   const depthM: [number | null, number | null][] = xs.map(() => [null, null]);
   const normalM: [number | null, number | null][] = xs.map(() => [null, null]);
-  const result = (mapped: boolean): SecondRefractorMap => ({ mapped, first, second, velocitiesMPerS: [v1Line, v2Line, v3], depthM, normalThicknessM: normalM, warnings });
+  const result = (mapped: boolean, structure: LowerRefractorStructure | null = null): SecondRefractorMap => ({
+    mapped,
+    first,
+    second,
+    velocitiesMPerS: [v1Line, v2Line, v3],
+    depthM,
+    normalThicknessM: normalM,
+    structure,
+    warnings,
+  });
   if (!shots.some((s) => s.branchOfPick.includes(2))) return result(false);
   if (v3 === null) {
     warnings.push({
@@ -231,7 +243,18 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
       x: fromIntercepts[0],
     });
   }
-  return result(depthM.some((d) => d[1] !== null));
+  const mapped = depthM.some((d) => d[1] !== null);
+  const structure =
+    mapped && v1Line !== null && v2Line !== null
+      ? lowerRefractorStructure({
+          xsM: xs,
+          elevationM: survey.geophones.map((g) => g.elevation ?? 0),
+          depthM: depthM.map((d) => d[1]),
+          velocitiesMPerS: [v1Line, v2Line, v3],
+          pickSigmaMs: options.pickUncertaintyMs,
+        })
+      : null;
+  return result(mapped, structure);
 }
 
 /**

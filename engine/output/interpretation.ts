@@ -249,6 +249,8 @@ export interface Interpretation {
     dip: Dip | null;
     /** One straight line per piece between steps and velocity changes. */
     localDips: LocalDip[];
+    /** Three-layer lines: the dip of the second refractor, tested as that of the first (structure/lower-refractor.ts; steps in it are not sought yet). */
+    lowerRefractor?: { dip: Dip | null; localDips: LocalDip[] };
   };
   qc: {
     reciprocal: ReciprocalCheck[];

@@ -122,7 +122,15 @@ export function toInterpretation(r: LineRecord): Interpretation {
     dip: r.dip === null ? null : roundDip(r.dip),
     // Added: a straight line through the refractor elevations of each piece between steps
     // and velocity changes (positive where the refractor deepens toward +x).
-    localDips: r.localDips.map((d) => ({ from: roundM(d.from), to: roundM(d.to), degrees: roundDeg(d.degrees), rmsM: roundM(d.rmsM), count: d.count })),
+    localDips: r.localDips.map(roundLocalDip),
+    ...(map && v3 !== null && map.structure
+      ? {
+          lowerRefractor: {
+            dip: map.structure.dip ? { degrees: roundDeg(map.structure.dip.degrees), source: 'refractor-elevations' as const, rmsM: roundM(map.structure.dip.rmsM) } : null,
+            localDips: map.structure.local.map(roundLocalDip),
+          },
+        }
+      : {}),
   };
 
   // The minus-time fit of the single segment, else the line's.
@@ -168,6 +176,10 @@ export function toInterpretation(r: LineRecord): Interpretation {
     },
     cautions: [...CAUTIONS],
   };
+}
+
+function roundLocalDip(d: LocalDip): Interpretation['features']['localDips'][number] {
+  return { from: roundM(d.from), to: roundM(d.to), degrees: roundDeg(d.degrees), rmsM: roundM(d.rmsM), count: d.count };
 }
 
 function roundDip(d: LineDip): NonNullable<Interpretation['features']['dip']> {

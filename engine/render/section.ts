@@ -88,14 +88,21 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
   // The title block's height (its number of lines) fixes the top of the plot, and the plot's
   // scales give the exaggeration the block states.
   const qcNotes = [...layerCountNotes(interpretation, survey.options?.layers), ...qcSummary(interpretation)];
-  const ruleYPlanned = titleBlockBottomMm({ dateLine: survey.date, notes: [null, null, ...qcNotes] });
+  const lowerDip = interpretation.features?.lowerRefractor;
+  const dipNotes = lowerDip
+    ? [
+        { text: dipText(interpretation.features?.dip, 'first refractor'), role: 'dip' },
+        { text: dipText(lowerDip.dip, 'second refractor'), role: 'dip-2' },
+      ]
+    : [{ text: dipText(interpretation.features?.dip, 'refractor'), role: 'dip' }];
+  const ruleYPlanned = titleBlockBottomMm({ dateLine: survey.date, notes: [null, ...dipNotes.map(() => null), ...qcNotes] });
   const frame = sectionFrame(
     { xMinM, xMaxM: Math.max(xMaxM, xMinM + 1), topM: Number.isFinite(topM) ? topM : 0, bottomM },
     { x0: PLOT_LEFT_MM, y0: ruleYPlanned + 4, x1: PAGE.widthMm - PAGE.marginMm, y1: plotBottom },
   );
   const notes = [
     { text: `vertical exaggeration ${formatExaggeration(frame.verticalExaggeration)}`, role: 'vertical-exaggeration' },
-    { text: dipText(interpretation), role: 'dip' },
+    ...dipNotes,
     ...qcNotes,
   ];
   const subtitle = ['Depth section', describeMethod(interpretation.method), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`]
@@ -148,12 +155,12 @@ export function renderSection(survey: Survey, interpretation: Interpretation, op
   return canvas.serialize();
 }
 
-function dipText(interpretation: Interpretation): string {
-  const dip = interpretation.features?.dip;
-  if (!dip || !Number.isFinite(dip.degrees)) return 'no single planar dip';
+/** The title block's dip line for one refractor ("refractor", or "first"/"second refractor" on three-layer lines). */
+function dipText(dip: Interpretation['features']['dip'] | undefined, refractor: string): string {
+  if (!dip || !Number.isFinite(dip.degrees)) return refractor === 'refractor' ? 'no single planar dip' : `${refractor}: no single planar dip`;
   const degrees = dip.degrees;
-  if (Math.abs(degrees) < 0.05) return 'refractor dip 0.0° (level)';
-  return `refractor dip ${fixed(Math.abs(degrees), 1)}°, deepening to ${degrees > 0 ? '+x' : '−x'}`;
+  if (Math.abs(degrees) < 0.05) return `${refractor} dip 0.0° (level)`;
+  return `${refractor} dip ${fixed(Math.abs(degrees), 1)}°, deepening to ${degrees > 0 ? '+x' : '−x'}`;
 }
 
 function drawLayerLabels(

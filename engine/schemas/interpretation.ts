@@ -241,6 +241,12 @@ export const InterpretationSchema = Type.Object(
         velocityChanges: Type.Array(Type.Object({ x: num(), left: num(), right: num() }, closed)),
         dip: nullable(DipSchema),
         localDips: Type.Array(LocalDipSchema),
+        lowerRefractor: opt(
+          Type.Object(
+            { dip: nullable(DipSchema), localDips: Type.Array(LocalDipSchema) },
+            { ...closed, description: 'Three-layer lines: the dip of the second refractor, tested as that of the first (steps in it are not sought yet).' },
+          ),
+        ),
       },
       closed,
     ),

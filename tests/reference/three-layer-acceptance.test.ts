@@ -214,3 +214,23 @@ describe('second refractor under a dipping rock surface: every station within 2 
     }
   });
 });
+
+/**
+ * The dip of the second refractor (engine/structure/lower-refractor.ts), tested as the first
+ * refractor's: the χ²-accepted plane through the rock elevations. Against each model's own
+ * dip (the family above, flat and 4°, and the 12° line): within 0.5°.
+ */
+describe('second-refractor dip against the model', () => {
+  const cases: ThreeLayerCase[] = [
+    ...FAMILY,
+    { name: 'rock dipping 12°: 400/1600/3400, 4 m, 12 m at x = 0', v: [400, 1600, 3400], z1: 4, z2: 12, dipDeg: 12, geophones: 48, spacingM: 1.5, offEndM: 15 },
+  ];
+  for (const c of cases) {
+    it(`${c.name}: dip ${c.dipDeg}° within 0.5°`, () => {
+      const r = interpret({ ...lineOf(c), options: { layers: 3, residuals: false } });
+      const dip = r.features.lowerRefractor?.dip;
+      expect(dip, 'a single planar dip of the second refractor').toBeTruthy();
+      expect(Math.abs(dip!.degrees - c.dipDeg)).toBeLessThan(0.5);
+    });
+  }
+});

@@ -164,6 +164,19 @@ describe('renderSection', () => {
     expect(textOf(byRole(root, 'dip')[0])).toBe('refractor dip 4.2°, deepening to +x');
   });
 
+  it('on a three-layer line names each refractor in its dip line', () => {
+    const { survey, interpretation } = renderFixture({ secondRefractorBelowM: 8 });
+    const withLower = {
+      ...interpretation,
+      features: { ...interpretation.features, lowerRefractor: { dip: { degrees: 11.93, source: 'refractor-elevations' as const, rmsM: 0.02 }, localDips: [] } },
+    };
+    const root = parseSvg(renderSection(survey, withLower));
+    expect(textOf(byRole(root, 'dip')[0])).toBe('first refractor dip 4.2°, deepening to +x');
+    expect(textOf(byRole(root, 'dip-2')[0])).toBe('second refractor dip 11.9°, deepening to +x');
+    const unplanar = { ...withLower, features: { ...withLower.features, lowerRefractor: { dip: null, localDips: [] } } };
+    expect(textOf(byRole(parseSvg(renderSection(survey, unplanar)), 'dip-2')[0])).toBe('second refractor: no single planar dip');
+  });
+
   it('says "no single planar dip" when the interpretation has none', () => {
     const { survey, interpretation } = renderFixture({ noDip: true });
     const root = parseSvg(renderSection(survey, interpretation));
