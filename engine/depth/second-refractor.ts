@@ -164,6 +164,13 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
       message: `The second refractor's arrivals were recorded shooting one way only, so its velocity (${Math.round(v3)} m/s) is an apparent velocity: too high shooting up-dip, too low down-dip. Shoot from the other end to measure it.`,
     });
   }
+  if (first.velocitySource === 'one-way-apparent') {
+    const seenBy = shots.filter((s) => s.branchOfPick.includes(1)).map((s) => s.id);
+    warnings.push({
+      code: 'middle-layer-one-way',
+      message: `The middle layer's head waves (the first refractor) were recorded shooting one way only${seenBy.length > 0 ? ` (${seenBy.join(', ')})` : ''}, so no opposing pair measures it: its velocity${v2Line !== null ? ` (${Math.round(v2Line)} m/s)` : ''} may be an apparent one (too high shooting up-dip, too low down-dip) and the depths of both refractors rest on one-way delay times. Shoot from the other end, close enough that the middle layer arrives first, to reverse it.`,
+    });
+  }
   if (v2Line !== null && !(v3 > v2Line)) {
     warnings.push({
       code: 'velocity-inversion',

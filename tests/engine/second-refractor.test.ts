@@ -5,6 +5,8 @@ import { refractorDelays } from '../../engine/depth/refractor-delays.js';
 import { flatLine } from '../../engine/samples/demo-lines.js';
 import { readingVarianceMs2, reciprocalTimeOf } from '../../engine/plus-minus/weighted-plus-times.js';
 import type { Survey } from '../../engine/survey/survey.js';
+import { syntheticSurvey } from '../../engine/forward/synthetic.js';
+import type { LayeredModel } from '../../engine/forward/model.js';
 
 /**
  * Three flat layers (invented test model); closed-form first arrivals and delay times,
@@ -137,5 +139,33 @@ describe('the second refractor in interpret', () => {
     expect(codes).toContain('second-refractor-one-way');
     expect(JSON.parse(JSON.stringify(found))).toEqual(found);
     expect(JSON.parse(JSON.stringify(r))).toEqual(r);
+  });
+});
+
+describe('a middle layer seen from one direction only', () => {
+  // Invented flat model (soil 400 m/s, 4 m; weathered 1600 m/s; rock 3400 m/s at 15 m),
+  // eikonal picks: one end shot and two far off-end shots, so only the west end shot
+  // records the middle layer's head wave as a first arrival.
+  const FAR = 500;
+  const flat = (depth: number) => [{ x: -FAR, elevation: -depth }, { x: FAR, elevation: -depth }];
+  const model: LayeredModel = {
+    surface: [{ x: -FAR, elevation: 0 }, { x: FAR, elevation: 0 }],
+    layers: [{ velocity: 400 }, { velocity: 1600, top: flat(4) }, { velocity: 3400, top: flat(15) }],
+  };
+  const lineWith = (shots: { x: number; id: string }[]): Survey =>
+    ({ ...syntheticSurvey(model, { geophoneCount: 48, firstX: 0, spacing: 1.5, shots, name: 'one-way middle layer' }), options: { layers: 3, residuals: false } });
+
+  it('says so, naming the shot, when no opposing pair records it', () => {
+    const r = interpret(lineWith([{ x: -45, id: 'W-off' }, { x: -0.75, id: 'W-end' }, { x: 115.5, id: 'E-off' }]));
+    const w = r.qc.warnings.find((x) => x.code === 'middle-layer-one-way');
+    expect(w, r.qc.warnings.map((x) => x.code).join(', ')).toBeDefined();
+    expect(w!.message).toContain('W-end');
+    expect(r.shots.filter((s) => s.branchOfPick.includes(1)).map((s) => s.id)).toEqual(['W-end']);
+  });
+
+  it('stays silent when both end shots record it', () => {
+    const r = interpret(lineWith([{ x: -45, id: 'W-off' }, { x: -0.75, id: 'W-end' }, { x: 35.25, id: 'mid' }, { x: 71.25, id: 'E-end' }, { x: 115.5, id: 'E-off' }]));
+    expect(r.layers).toHaveLength(3);
+    expect(r.qc.warnings.map((x) => x.code)).not.toContain('middle-layer-one-way');
   });
 });
