@@ -294,8 +294,19 @@ function withFarOffEndSides(
   const m1 = median(first);
   const m2 = median(second);
   const breakOffsetM = breakOffsets.length > 0 ? median(breakOffsets) : 0;
+  const nearerSecond = (v: number): boolean => Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1));
   return choices.map((pair, s) =>
     pair.map((c, k) => {
+      // A far side read as two refracted branches that are both nearer the line's branch 2
+      // than its branch 1 has seen the deeper refractor only, bent or offset (a step in it
+      // kinks a far shot's branch): all its picks are branch 2. Forced three-layer reading
+      // prefers two refracted segments, so this is where such a side would otherwise give
+      // the first refractor a rock velocity.
+      if (!forReversal && c && !c.overridden && !c.direct && c.refracted.length === 2 && c.refracted.every((l) => nearerSecond(l.velocity))) {
+        const picks = picksOf(s, k);
+        const { breakPoint: _notABreak, ...rest } = c;
+        return { ...rest, branchOfSidePick: picks.map((): BranchIndex => 2), refracted: [] };
+      }
       if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return c;
       const v = c.refracted[0].velocity;
       if (!(Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1)))) return c;

@@ -6,14 +6,10 @@
  * σ·√3/2, converted to a thickness of the middle layer over the rock
  * (normalDepthFromDelayM with V2 and V3, as the first refractor uses V1 and V2).
  *
- * Steps in the rock surface are not reported yet. Measured on eikonal lines (soil 400 m/s,
- * 4 m; weathered layer 1600 m/s; rock 3400 m/s at 12 m, a 3 m step at mid-line): the
- * three-layer map across the step is distorted — V3 comes out about 10 % high from the
- * minus times, the rock profile shows a hump up-throw of the step and a fall of 8 m where
- * the step is 3 m — so the jump scan of steps.ts, run on the middle layer's delay
- * h2·cos θ23/V2, found the step 12 m from its place with a 13 m throw, and on other lines
- * steps that are not there. A plane test over such a profile rejects the single dip
- * (dip null) on most of these lines; it is what is reported.
+ * Steps in the rock surface are not reported yet: a rock step of Δh2 is a delay jump of
+ * only Δh2·cos θ23/V2 (1.66 ms for 3 m under 1600 m/s), below the jump scan's detection
+ * limit at common pick noise, and larger steps still upset the three-layer branch reading
+ * (measurements in docs/developers/three-layer.md).
  * Units: m, m/s, degrees. Pure; unrounded.
  */
 import { normalDepthFromDelayM } from '../plus-minus/plus-minus.js';

@@ -234,3 +234,51 @@ describe('second-refractor dip against the model', () => {
     });
   }
 });
+
+/**
+ * A step in the rock under a three-layer line, three layers asked for. Model: soil 400 m/s
+ * over a flat weathered layer 1600 m/s at 4 m over rock 3400 m/s at 12 m, 3 m deeper for
+ * x > 35 m (a vertical step); 48 geophones at 1.5 m, off-end shots 45 m out, eikonal picks.
+ * The far shots see only the rock, and the step kinks their branch: read alone, each looks
+ * like two refracted branches (3076 and 3386 m/s on the west). Read against the line (both
+ * nearer the line's branch 2 than its branch 1) they are rock throughout
+ * (engine/branches/assign-branches.ts, withFarOffEndSides). Before that rule this line came
+ * out 400/2403/4771 m/s with rock depths 20 m off.
+ */
+describe('three layers asked for over a step in the rock', () => {
+  const FAR_X = 500;
+  const stepX = 35;
+  const model: LayeredModel = {
+    surface: [{ x: -FAR_X, elevation: 0 }, { x: FAR_X, elevation: 0 }],
+    layers: [
+      { velocity: 400 },
+      { velocity: 1600, top: [{ x: -FAR_X, elevation: -4 }, { x: FAR_X, elevation: -4 }] },
+      { velocity: 3400, top: [{ x: -FAR_X, elevation: -12 }, { x: stepX - 0.01, elevation: -12 }, { x: stepX + 0.01, elevation: -15 }, { x: FAR_X, elevation: -15 }] },
+    ],
+  };
+  const L = 47 * 1.5;
+  const survey = syntheticSurvey(model, {
+    geophoneCount: 48,
+    firstX: 0,
+    spacing: 1.5,
+    shots: [{ x: -45, id: 'W-off' }, { x: -0.75, id: 'W-end' }, { x: L / 2, id: 'mid' }, { x: L + 0.75, id: 'E-end' }, { x: L + 45, id: 'E-off' }],
+    name: 'rock step 3 m at x = 35 m',
+  });
+  const r = interpret({ ...survey, options: { layers: 3, residuals: false } });
+
+  it('reads the far off-end shots as rock throughout', () => {
+    for (const id of ['W-off', 'E-off']) {
+      const shot = r.shots.find((s) => s.id === id)!;
+      expect(shot.branchOfPick.filter((b) => b !== null).every((b) => b === 2), id).toBe(true);
+    }
+  });
+
+  it('gives the three velocities within 3 % and the rock within 5 % away from the step (more than 10 m from it)', () => {
+    [400, 1600, 3400].forEach((v, i) => expect(Math.abs(r.layers[i].velocity / v - 1), `V${i + 1} = ${r.layers[i].velocity}`).toBeLessThan(0.03));
+    for (const s of r.stations) {
+      if (Math.abs(s.x - stepX) <= 10 || typeof s.depths[1] !== 'number') continue;
+      const truth = s.x > stepX ? 15 : 12;
+      expect(Math.abs(s.depths[1] / truth - 1), `x = ${s.x}: ${s.depths[1]} m against ${truth} m`).toBeLessThan(0.05);
+    }
+  });
+});
