@@ -27,7 +27,7 @@
 import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
 import { median } from 'simple-statistics';
-import { hiddenLayerAllowance, hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
+import { hiddenLayerAllowances, hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
 import { roundM } from '../output/output-decimals.js';
 import { isFiniteNumber as isNum } from '../shared/numbers.js';
 
@@ -100,7 +100,7 @@ function hiddenLayerCaution(survey: Survey, interp: Interpretation): HiddenLayer
     const lo = Math.min(...depths);
     const hi = Math.max(...depths);
     const samples = Array.from({ length: hi > lo ? ALLOWANCE_SAMPLES : 1 }, (_, k) => lo + ((hi - lo) * k) / Math.max(1, ALLOWANCE_SAMPLES - 1));
-    const extra = samples.map((d) => hiddenLayerAllowance({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: d, spreadsM })?.extraDepthM ?? 0);
+    const extra = hiddenLayerAllowances({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: lo, spreadsM }, samples).map((a) => a?.extraDepthM ?? 0);
     const extraAt = (d: number): number => {
       if (samples.length === 1 || d <= lo) return extra[0];
       if (d >= hi) return extra[extra.length - 1];
@@ -191,6 +191,11 @@ function unreversedDeeperBranch(interp: Interpretation): Warning | null {
 
 /** The cautions this line's data call for (not yet present in `interp`). */
 export function dataCautions(survey: Survey, interp: Interpretation): Warning[] {
+  return cautionsWith(survey, interp, hiddenLayerCaution(survey, interp));
+}
+
+/** dataCautions with the hidden-layer finding already made (it is the costly one). */
+function cautionsWith(survey: Survey, interp: Interpretation, hidden: HiddenLayerFinding | null): Warning[] {
   const existing = interp.qc.warnings;
   const has = (code: string, x?: number): boolean => existing.some((w) => w.code === code && (x === undefined || w.x === x));
   const out: Warning[] = [];
@@ -200,7 +205,7 @@ export function dataCautions(survey: Survey, interp: Interpretation): Warning[] 
     if (out.some((o) => o.code === w.code && o.message === w.message)) return;
     out.push(w);
   };
-  add(hiddenLayerCaution(survey, interp)?.warning ?? null, true);
+  add(hidden?.warning ?? null, true);
   const velocities = interp.layers.map((l) => l.velocity).filter((v) => isNum(v) && v > 0);
   if (velocities.length === interp.layers.length) {
     for (const w of velocityInversion(velocities)) add({ ...w, message: `${w.message} (ASTM D5777; USACE EM 1110-1-1802.)` }, true);
@@ -218,9 +223,10 @@ export function dataCautions(survey: Survey, interp: Interpretation): Warning[] 
  * lie under a layer hidden from first arrivals).
  */
 export function withDataCautions(survey: Survey, interp: Interpretation): Interpretation {
-  const extra = dataCautions(survey, interp);
+  const finding = hiddenLayerCaution(survey, interp);
+  const extra = cautionsWith(survey, interp, finding);
   if (extra.length === 0) return interp;
-  const hidden = extra.some((w) => w.code === 'hidden-layer') ? hiddenLayerCaution(survey, interp) : null;
+  const hidden = extra.some((w) => w.code === 'hidden-layer') ? finding : null;
   const stations = hidden ? interp.stations.map((s, i) => ({ ...s, hiddenLayerDepth: hidden.deepestM[i] })) : interp.stations;
   return { ...interp, stations, qc: { ...interp.qc, warnings: [...interp.qc.warnings, ...extra] } };
 }

@@ -176,61 +176,70 @@ export interface HiddenLayerAllowance {
  * hidden layer of thickness h2 leaves h1 = (t − h2·cos θ23/V2)·V1/cos θ13 for the top
  * layer; h2 is hidden when it is hidden on every spread (each spread's bound from
  * maxHiddenLayerThickness); the largest such h2 is found by a scan of 200 steps and 50
- * bisections. Cost: O(250 · S · log n) for S spreads of n offsets, after sorting each
- * spread once (O(S·n log n)).
+ * bisections.
  */
 export function hiddenLayerAllowance(input: HiddenLayerWarningInput): HiddenLayerAllowance | null {
+  return hiddenLayerAllowances(input, [input.depthM])[0];
+}
+
+/**
+ * hiddenLayerAllowance at several two-layer depths on the same spreads and velocities
+ * (input.depthM is ignored): the input is checked and each spread sorted once. Cost
+ * O(S·n log n) for S spreads of n offsets, then O(250 · S · log n) per depth.
+ */
+export function hiddenLayerAllowances(input: HiddenLayerWarningInput, depthsM: readonly number[]): (HiddenLayerAllowance | null)[] {
   const v1 = input.v1MPerS;
   const v3 = input.refractorVelocityMPerS;
   positive(v1, 'v1MPerS');
   positive(v3, 'refractorVelocityMPerS');
   if (!(v3 > v1)) throw new StructureInputError('refractorVelocityMPerS', `must exceed the top-layer velocity ${v1} m/s, got ${v3} m/s`);
-  positive(input.depthM, 'depthM');
+  depthsM.forEach((d, i) => positive(d, depthsM.length === 1 ? 'depthM' : `depthsM[${i}]`));
   const v2 = input.hiddenVelocityMPerS ?? Math.sqrt(v1 * v3);
   checkOrder(v1, v2, v3);
   const spreads = input.spreadsM ?? (input.offsetsM ? [input.offsetsM] : null);
   if (!spreads || spreads.length === 0) throw new StructureInputError('spreadsM', 'must give the offsets of at least one spread (or offsetsM)');
-  const delayS = (input.depthM * cosCritical(v1, v3)) / v1;
-  const c13 = cosCritical(v1, v3);
-  const c23 = cosCritical(v2, v3);
-  const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
-  const h2AtZeroTop = (delayS * v2) / c23;
-  // Each spread is checked and sorted once; each test below is then O(S·log n).
   const minPicks = input.minFirstArrivalPicks ?? 3;
   const distances = spreads.map((offsetsM) => {
     maxHiddenLayerThickness({ v1MPerS: v1, topThicknessM: 0, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM, minFirstArrivalPicks: minPicks });
     return sortedDistances(offsetsM);
   });
-  const hidden = (h2: number): boolean => {
-    const h1 = Math.max(0, h1Of(h2));
-    return distances.every((d) => {
-      const bound = hiddenBound(v1, v2, v3, h1, d, minPicks);
-      return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
-    });
-  };
-  // Scan upward for the first visible thickness, then bisect the boundary.
-  const n = 200;
-  let lo = 0;
-  let hi: number | null = null;
-  for (let k = 1; k <= n; k++) {
-    const h2 = (h2AtZeroTop * k) / n;
-    if (hidden(h2)) lo = h2;
-    else {
-      hi = h2;
-      break;
+  const c13 = cosCritical(v1, v3);
+  const c23 = cosCritical(v2, v3);
+  return depthsM.map((depthM) => {
+    const delayS = (depthM * c13) / v1;
+    const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
+    const h2AtZeroTop = (delayS * v2) / c23;
+    const hidden = (h2: number): boolean => {
+      const h1 = Math.max(0, h1Of(h2));
+      return distances.every((d) => {
+        const bound = hiddenBound(v1, v2, v3, h1, d, minPicks);
+        return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
+      });
+    };
+    // Scan upward for the first visible thickness, then bisect the boundary.
+    const n = 200;
+    let lo = 0;
+    let hi: number | null = null;
+    for (let k = 1; k <= n; k++) {
+      const h2 = (h2AtZeroTop * k) / n;
+      if (hidden(h2)) lo = h2;
+      else {
+        hi = h2;
+        break;
+      }
     }
-  }
-  if (hi !== null) {
-    let upper: number = hi;
-    for (let it = 0; it < 50; it++) {
-      const mid: number = 0.5 * (lo + upper);
-      if (hidden(mid)) lo = mid;
-      else upper = mid;
+    if (hi !== null) {
+      let upper: number = hi;
+      for (let it = 0; it < 50; it++) {
+        const mid: number = 0.5 * (lo + upper);
+        if (hidden(mid)) lo = mid;
+        else upper = mid;
+      }
     }
-  }
-  if (lo <= 0) return null;
-  const topThicknessM = Math.max(0, h1Of(lo));
-  return { thicknessM: lo, topThicknessM, extraDepthM: Math.max(0, topThicknessM + lo - input.depthM), velocityMPerS: v2 };
+    if (lo <= 0) return null;
+    const topThicknessM = Math.max(0, h1Of(lo));
+    return { thicknessM: lo, topThicknessM, extraDepthM: Math.max(0, topThicknessM + lo - depthM), velocityMPerS: v2 };
+  });
 }
 
 /**
