@@ -38,14 +38,17 @@
  *     refractor is not a layer); then (unless two layers are forced) a far off-end side
  *     that is all refracted with one line, on a line where other sides show both refracted
  *     branches, is split at their median 1→2 break offset when its velocity is nearer
- *     their branch-2 velocity (withFarOffEndSides).
+ *     their branch-2 velocity (withFarOffEndSides); last, a side read as one branch-1 line
+ *     that runs past its direction's median crossover offset is split there when a far
+ *     line parallel to the line's branch 2 fits its far picks better by a χ² test
+ *     (withLineCrossover).
  * options.branchOverrides replace the automatic split exactly (overridden: true).
  */
 import { median } from 'simple-statistics';
 import type { BranchOverride, Survey } from '../survey/survey.js';
 import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import type { BranchLine, ShotAnalysis, SideBranches } from '../output/interpretation.js';
-import { robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
+import { fitLine, robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
 import { branchLineFromSegment, crossoverDistanceM, timeOnBranchMs } from './branch-line.js';
 import { geophoneSpacingM, shotElevationM, shotPosition } from './shot-geometry.js';
@@ -191,6 +194,8 @@ export function assignBranches(survey: Survey, options: BranchOptions = resolveO
   if (forcedLayers !== 2) {
     const relabelled = withFarOffEndSides(choices, (s, k) => sides[s][k].picks, false);
     relabelled.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
+    const crossed = withLineCrossover(choices, (s, k) => sides[s][k].picks, noiseFloorMs);
+    crossed.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
   }
 
   return survey.shots.map((shot, s) => {
@@ -318,6 +323,82 @@ function withFarOffEndSides(
         ...c,
         branchOfSidePick: picks.map((p) => (p.offsetM < breakOffsetM ? 1 : 2)),
         refracted: near && far ? [near, far] : [],
+      };
+    }),
+  );
+}
+
+/**
+ * χ² with one degree of freedom at the 99 % level (6.63; any χ² table, e.g. Abramowitz &
+ * Stegun 1964, table 26.8): the misfit a side's own line must lose before its far picks
+ * are read as the deeper refractor the rest of the line found (withLineCrossover).
+ */
+export const LINE_CROSSOVER_CHI2_99 = 6.635;
+/** Fewest picks beyond the line's crossover offset for withLineCrossover to read them. */
+export const LINE_CROSSOVER_MIN_FAR_PICKS = 3;
+
+/**
+ * A side read as one refracted line (branch 1) whose picks run past the crossover offset
+ * at which the other sides shooting its way break onto the second refractor: with noisy
+ * picks a side's own fit may miss a short branch 2 that the line as a whole has shown
+ * (48 geophones at 1.5 m, 0.3 ms noise: the mid shot's last 7 picks, 9 m of branch 2,
+ * BIC margin 4 against the 10 an unforced side needs on its own). Read jointly: flat
+ * layers give every shot the same crossover offset, and the second refractor's branches
+ * are parallel (Kearey, Brooks & Hill 2002, ch. 5; Hagedoorn 1959), so the far picks are
+ * tried on a line with the line's branch-2 apparent velocity for that direction (median
+ * of the sides that show it; only the intercept is fitted) and the near picks on a line
+ * of their own. The split is kept when it lowers the misfit by more than
+ * LINE_CROSSOVER_CHI2_99 (χ² on one extra parameter, σ the pick uncertainty) and the far
+ * picks arrive on average before the near line's extrapolation (first arrivals are the
+ * earliest branch; a late outlier cannot pass). Two-layer lines have no side with two
+ * refracted branches and are returned as they are. Returns new choices. O(sides + picks).
+ */
+function withLineCrossover(
+  choices: (SideChoice | null)[][],
+  picksOf: (s: number, k: number) => SidePick[],
+  sigmaMs: number,
+): (SideChoice | null)[][] {
+  const breaks: [number[], number[]] = [[], []];
+  const slowness2: [number[], number[]] = [[], []];
+  choices.forEach((pair) =>
+    pair.forEach((c, k) => {
+      if (!c || c.overridden || c.refracted.length < 2 || !c.breakPoint) return;
+      breaks[k].push(c.breakPoint.breakOffsetM);
+      slowness2[k].push(1000 / c.refracted[1].velocity);
+    }),
+  );
+  return choices.map((pair, s) =>
+    pair.map((c, k) => {
+      if (!c || c.overridden || c.refracted.length !== 1 || breaks[k].length === 0) return c;
+      if (!c.branchOfSidePick.some((b) => b === 1) || c.branchOfSidePick.some((b) => b === 2)) return c;
+      const picks = picksOf(s, k);
+      const breakOffsetM = median(breaks[k]);
+      const p2 = median(slowness2[k]);
+      const refracted = picks.filter((_, j) => c.branchOfSidePick[j] === 1);
+      const near = refracted.filter((p) => p.offsetM < breakOffsetM);
+      const far = refracted.filter((p) => p.offsetM >= breakOffsetM);
+      if (far.length < LINE_CROSSOVER_MIN_FAR_PICKS || near.length < 2) return c;
+      const points = (g: SidePick[]) => g.map((p) => ({ offsetM: p.offsetM, timeMs: p.timeMs }));
+      const all = fitLine(points(refracted), refracted.map((_, j) => j));
+      const nearLine = fitLine(points(near), near.map((_, j) => j));
+      if (!all || !nearLine || !(nearLine.slownessMsPerM > p2)) return c;
+      // Far line with the line's branch-2 slowness: least-squares intercept is the mean of t − p2·x.
+      const a2 = far.reduce((sum, p) => sum + p.timeMs - p2 * p.offsetM, 0) / far.length;
+      const sseFar = far.reduce((sum, p) => sum + (p.timeMs - a2 - p2 * p.offsetM) ** 2, 0);
+      const sseSplit = nearLine.rmsMs ** 2 * near.length + sseFar;
+      const sseOne = all.rmsMs ** 2 * refracted.length;
+      const earlier = far.reduce((sum, p) => sum + p.timeMs - (nearLine.interceptMs + nearLine.slownessMsPerM * p.offsetM), 0) < 0;
+      if (!earlier || (sseOne - sseSplit) / (sigmaMs * sigmaMs) <= LINE_CROSSOVER_CHI2_99) return c;
+      const nearBranch = lineOf(near);
+      const farBranch = lineOf(far);
+      if (!nearBranch || !farBranch) return c;
+      const firstFar = far[0];
+      const lastNear = near[near.length - 1];
+      return {
+        ...c,
+        branchOfSidePick: c.branchOfSidePick.map((b, j): BranchIndex => (b === 1 && picks[j].offsetM >= breakOffsetM ? 2 : b)),
+        refracted: [nearBranch, farBranch],
+        breakPoint: { breakX: (lastNear.x + firstFar.x) / 2, breakOffsetM: (lastNear.offsetM + firstFar.offsetM) / 2 },
       };
     }),
   );

@@ -13,17 +13,24 @@ import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import type { Interpretation, Survey } from '../../engine/index.js';
 
 /** Invented model: 500 / 2000 / 4000 m/s, refractors flat at 5 and 14 m; 32 geophones at 3 m; off-end shots 40 m out. */
-const COARSE = syntheticSurvey(
-  {
-    surface: [{ x: -500, elevation: 0 }, { x: 500, elevation: 0 }],
-    layers: [
-      { velocity: 500 },
-      { velocity: 2000, top: [{ x: -500, elevation: -5 }, { x: 500, elevation: -5 }] },
-      { velocity: 4000, top: [{ x: -500, elevation: -14 }, { x: 500, elevation: -14 }] },
-    ],
-  },
-  { geophoneCount: 32, firstX: 0, spacing: 3, shots: [{ x: -40 }, { x: -1.5 }, { x: 46.5 }, { x: 94.5 }, { x: 133 }] },
-);
+function coarseLine(noiseMs: number): Survey {
+  return syntheticSurvey(
+    {
+      surface: [{ x: -500, elevation: 0 }, { x: 500, elevation: 0 }],
+      layers: [
+        { velocity: 500 },
+        { velocity: 2000, top: [{ x: -500, elevation: -5 }, { x: 500, elevation: -5 }] },
+        { velocity: 4000, top: [{ x: -500, elevation: -14 }, { x: 500, elevation: -14 }] },
+      ],
+    },
+    { geophoneCount: 32, firstX: 0, spacing: 3, shots: [{ x: -40 }, { x: -1.5 }, { x: 46.5 }, { x: 94.5 }, { x: 133 }] },
+    { noiseMs, seed: 1 },
+  );
+}
+/** Exact picks: the branch assignment reads three layers by itself (withLineCrossover). */
+const COARSE = coarseLine(0);
+/** 0.3 ms pick noise, seed 1: the first reading misfits the picks (RMS 0.63 ms), so layer counts are compared. */
+const COARSE_NOISY = coarseLine(0.3);
 
 describe('layerCandidate', () => {
   it('counts one depth per station per refractor and one velocity per layer, χ² = n·RMS²/σ², BIC = χ² + k·ln n', () => {
@@ -60,8 +67,14 @@ describe('layerCandidate', () => {
 });
 
 describe('interpret: layer count chosen by the picks', () => {
-  it('on a three-layer line misread without the hint, takes the three-layer candidate, reports every candidate and says why', () => {
+  it('reads the exact line as three layers without the hint and without comparing (velocities within 1 %)', () => {
     const r = interpret(COARSE);
+    expect(r.qc.layerChoice).toBeUndefined();
+    [500, 2000, 4000].forEach((v, i) => expect(Math.abs(r.layers[i].velocity / v - 1)).toBeLessThan(0.01));
+  });
+
+  it('on a three-layer line misread without the hint, takes the three-layer candidate, reports every candidate and says why', () => {
+    const r = interpret(COARSE_NOISY);
     expect(r.layers).toHaveLength(3);
     const choice = r.qc.layerChoice!;
     expect(choice.chosen).toBe('three-layer');

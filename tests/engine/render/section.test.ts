@@ -261,8 +261,9 @@ describe('renderSection', () => {
 });
 
 describe('renderSection: the title block says how many layers and why (issue 10)', () => {
-  // Invented three-layer eikonal line (500/2000/4000 m/s, 5 and 14 m, 32 × 3 m, off-end 40 m): read
-  // as two layers by the picks' own branches, the layer count is then chosen by BIC (qc.layerChoice).
+  // Invented three-layer eikonal line (500/2000/4000 m/s, 5 and 14 m, 32 × 3 m, off-end 40 m) with
+  // 0.3 ms pick noise (seed 1): the first reading misfits the picks, so the layer count is then
+  // chosen by BIC (qc.layerChoice).
   const model: LayeredModel = {
     surface: [{ x: -500, elevation: 0 }, { x: 500, elevation: 0 }],
     layers: [
@@ -271,7 +272,7 @@ describe('renderSection: the title block says how many layers and why (issue 10)
       { velocity: 4000, top: [{ x: -500, elevation: -14 }, { x: 500, elevation: -14 }] },
     ],
   };
-  const survey = syntheticSurvey(model, { geophoneCount: 32, firstX: 0, spacing: 3, shots: [{ x: -40 }, { x: -1.5 }, { x: 46.5 }, { x: 94.5 }, { x: 133 }] });
+  const survey = syntheticSurvey(model, { geophoneCount: 32, firstX: 0, spacing: 3, shots: [{ x: -40 }, { x: -1.5 }, { x: 46.5 }, { x: 94.5 }, { x: 133 }] }, { noiseMs: 0.3, seed: 1 });
 
   it('with qc.layerChoice: the count taken, the criterion, and every candidate\'s BIC and RMS as reported', () => {
     const interpretation = interpret(survey);
