@@ -95,27 +95,29 @@ function interpretOnce(survey: Survey): Interpretation {
   const v2 = layerVelocity(section.segments, xs.filter((_, i) => plus.delayTimeMs[i] !== null)) ?? lineV2.velocity;
 
   const verticalDepthM = section.depths.verticalDepthM;
-  const dips = sectionDips({
-    xsM: xs,
-    elevationM: elevation,
-    depthM: verticalDepthM,
-    stepXsM: section.steps.map((st) => st.x),
-    changeXsM: section.changes.map((c) => c.x),
-    v1,
-    v2,
-    v1At: topLayer.v1MPerS,
-    v2At: section.v2At,
-    pickSigmaMs: sigmaMs,
-    pairs: pairVelocities,
-    shots,
-  });
-
   const threeLayer = secondRefractor(
     survey,
     shots,
     { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM },
     options,
   );
+  // The first refractor's dip from the depths the section shows: on a three-layer line the
+  // map's (branch-1 picks only), not the two-layer section's, which mixed in rock arrivals.
+  const mapped = threeLayer?.map?.mapped ? threeLayer.map : null;
+  const dips = sectionDips({
+    xsM: xs,
+    elevationM: elevation,
+    depthM: mapped ? mapped.depthM.map((d) => d[0]) : verticalDepthM,
+    stepXsM: section.steps.map((st) => st.x),
+    changeXsM: section.changes.map((c) => c.x),
+    v1,
+    v2: mapped?.velocitiesMPerS[1] ?? v2,
+    v1At: topLayer.v1MPerS,
+    v2At: mapped ? xs.map(() => mapped.velocitiesMPerS[1]) : section.v2At,
+    pickSigmaMs: sigmaMs,
+    pairs: pairVelocities,
+    shots,
+  });
 
   const twoLayerWarnings = [
     ...methodWarnings(options),

@@ -232,6 +232,12 @@ describe('second-refractor dip against the model', () => {
       expect(dip, 'a single planar dip of the second refractor').toBeTruthy();
       expect(Math.abs(dip!.degrees - c.dipDeg)).toBeLessThan(0.5);
     });
+    it(`${c.name}: the first refractor (flat in the model) planar within 0.5° of level, from the three-layer map's depths`, () => {
+      const r = interpret({ ...lineOf(c), options: { layers: 3, residuals: false } });
+      const dip = r.features.dip;
+      expect(dip?.source, 'a χ²-accepted plane through the first refractor').toBe('refractor-elevations');
+      expect(Math.abs(dip!.degrees)).toBeLessThan(0.5);
+    });
   }
 });
 
