@@ -302,15 +302,16 @@ function withFarOffEndSides(
   const nearerSecond = (v: number): boolean => Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1));
   return choices.map((pair, s) =>
     pair.map((c, k) => {
-      // A far side read as two refracted branches that are both nearer the line's branch 2
+      // A side read as two refracted branches that are both nearer the line's branch 2
       // than its branch 1 has seen the deeper refractor only, bent or offset (a step in it
-      // kinks a far shot's branch): all its picks are branch 2. Forced three-layer reading
-      // prefers two refracted segments, so this is where such a side would otherwise give
-      // the first refractor a rock velocity.
-      if (!forReversal && c && !c.overridden && !c.direct && c.refracted.length === 2 && c.refracted.every((l) => nearerSecond(l.velocity))) {
-        const picks = picksOf(s, k);
+      // kinks the branch): all its refracted picks are branch 2, its direct wave (if any)
+      // stays. Forced three-layer reading prefers two refracted segments, so this is where
+      // such a side would otherwise give the first refractor a rock velocity. A far
+      // off-end shot has no direct wave; an end shot over a rock step does (its few
+      // middle-layer picks, too few for a line, go with the rock).
+      if (!forReversal && c && !c.overridden && c.refracted.length === 2 && c.refracted.every((l) => nearerSecond(l.velocity))) {
         const { breakPoint: _notABreak, ...rest } = c;
-        return { ...rest, branchOfSidePick: picks.map((): BranchIndex => 2), refracted: [] };
+        return { ...rest, branchOfSidePick: c.branchOfSidePick.map((b): BranchIndex => (b === 0 ? 0 : 2)), refracted: [] };
       }
       if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return c;
       const v = c.refracted[0].velocity;

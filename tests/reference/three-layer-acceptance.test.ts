@@ -337,3 +337,59 @@ describe('noisy picks (0.3 ms, seeds 1–10): short rock branches read against t
     }
   });
 });
+
+/**
+ * A rock step at mid-spread, no layer hint (engine/branches/assign-branches.ts,
+ * withFarOffEndSides). Invented model: soil 400 m/s 2 m thick over weathered rock 1600 m/s
+ * over rock 3400 m/s at 6 m, 10 m beyond x = 47 m (a vertical 4 m step); 48 geophones at
+ * 2 m, shots 40 m off each end, at both ends and mid-spread; eikonal picks. The west end
+ * shot records its rock branch across the step, kinked: read alone it is direct
+ * 401 m/s, "first refractor" 3042 m/s, rock 3399 m/s. Before the end shots were read
+ * against the line this gave V2 1977 m/s and rock depths of 8–19 m (RMS 2.5 ms).
+ * Bounds: velocities within 3 % and median depths within 5 % (issue 10 acceptance) on
+ * each side of the step, more than 10 m from it; every rock depth within 15 % (the first
+ * stations past the west end shot's direct wave take middle-layer arrivals as rock and
+ * come up to 14 % shallow).
+ */
+describe('a rock step under the end shots, layer count from the picks', () => {
+  const FAR_X = 500;
+  const stepX = 47;
+  const model: LayeredModel = {
+    surface: [{ x: -FAR_X, elevation: 0 }, { x: FAR_X, elevation: 0 }],
+    layers: [
+      { velocity: 400 },
+      { velocity: 1600, top: [{ x: -FAR_X, elevation: -2 }, { x: FAR_X, elevation: -2 }] },
+      { velocity: 3400, top: [{ x: -FAR_X, elevation: -6 }, { x: stepX - 0.01, elevation: -6 }, { x: stepX + 0.01, elevation: -10 }, { x: FAR_X, elevation: -10 }] },
+    ],
+  };
+  const survey = syntheticSurvey(model, {
+    geophoneCount: 48,
+    firstX: 0,
+    spacing: 2,
+    shots: [-40, -1, 47, 95, 134].map((x) => ({ x })),
+    name: 'rock step 4 m at x = 47 m',
+  });
+  const r = interpret(survey);
+
+  it('three layers, each velocity within 3 %, residual RMS under 1 ms', () => {
+    expect(r.layers).toHaveLength(3);
+    [400, 1600, 3400].forEach((v, i) => expect(Math.abs(r.layers[i].velocity / v - 1), `V${i + 1} = ${r.layers[i].velocity}`).toBeLessThan(0.03));
+    expect(r.qc.residuals!.rmsMs).toBeLessThan(1);
+  });
+
+  it('rock: median depth on each side of the step within 5 %, every station within 15 %', () => {
+    const truth = (x: number): number => (x > stepX ? 10 : 6);
+    for (const side of [-1, 1]) {
+      const depths = r.stations
+        .filter((s) => Math.sign(s.x - stepX) === side && Math.abs(s.x - stepX) > 10 && typeof s.depths[1] === 'number')
+        .map((s) => s.depths[1] as number)
+        .sort((a, b) => a - b);
+      expect(depths.length).toBeGreaterThan(10);
+      expect(Math.abs(depths[depths.length >> 1] / (side > 0 ? 10 : 6) - 1), `side ${side}`).toBeLessThan(0.05);
+    }
+    for (const s of r.stations) {
+      if (Math.abs(s.x - stepX) <= 10) continue;
+      expect(Math.abs((s.depths[1] as number) / truth(s.x) - 1), `x = ${s.x}: ${s.depths[1]}`).toBeLessThan(0.15);
+    }
+  });
+});
