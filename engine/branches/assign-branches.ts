@@ -35,7 +35,9 @@
  *  4. the line read jointly: a side whose middle of three segments never arrives before
  *     both neighbouring lines by more than TRANSITION_UNDERCUT_SIGMAS·σ is read with two
  *     branches (withoutTransitionSegment: the corner of the direct wave and the first
- *     refractor is not a layer); then (unless two layers are forced) a far off-end side
+ *     refractor is not a layer); a side read with no direct wave keeps the picks nearest
+ *     the shot that lie on the line's direct wave as direct (withDirectNearShot); then
+ *     (unless two layers are forced) a far off-end side
  *     that is all refracted with one line, on a line where other sides show both refracted
  *     branches, is split at their median 1→2 break offset when its velocity is nearer
  *     their branch-2 velocity (withFarOffEndSides); last, a side read as one branch-1 line
@@ -190,7 +192,8 @@ export function assignBranches(survey: Survey, options: BranchOptions = resolveO
   // Last, every side is read against the line (after the unforced tests, which keep
   // seeing each side's own best fit, so that two-layer lines read as before).
   const joint = withoutTransitions(choices);
-  joint.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
+  const crossoverM = lineCrossoverDistanceM(joint);
+  joint.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c && withDirectNearShot(c, sides[s][k].picks, v1Provisional, crossoverM, noiseFloorMs))));
   if (forcedLayers !== 2) {
     const relabelled = withFarOffEndSides(choices, (s, k) => sides[s][k].picks, false);
     relabelled.forEach((pair, s) => pair.forEach((c, k) => (choices[s][k] = c)));
@@ -327,6 +330,67 @@ function withFarOffEndSides(
       };
     }),
   );
+}
+
+/**
+ * A pick on the direct-wave line within this many pick uncertainties is a direct arrival
+ * (withDirectNearShot). Our choice: a 3σ band of the picks.
+ */
+export const DIRECT_MATCH_SIGMAS = 3;
+
+/**
+ * A side read with no direct wave whose picks nearest the shot lie on the line's direct
+ * wave, t = offset/V1 (no more than DIRECT_MATCH_SIGMAS·σ late, σ early), and arrive before its first refracted
+ * line by more than 2σ: those picks are direct. The robust segmented fit trims up to a
+ * fifth of a side's picks as outliers, so an end shot with only two or three direct picks
+ * before the crossover (thin soil, 4 m crossover at 1.5 m spacing) could be read as
+ * refracted from the shot with its direct picks "trimmed", which put them on branch 1 and
+ * biased its delays (a 412/1937/4426 m/s line with 1.7 m of soil: RMS 1.0 ms on exact
+ * picks). First arrivals nearest the shot are the direct wave wherever V1 predicts them
+ * (Kearey, Brooks & Hill 2002, ch. 5). Only picks nearer the shot than the line's
+ * crossover distance (the median of the sides that show both branches) are tried: near
+ * the crossover the two waves arrive within the picks' scatter of each other, and a head
+ * wave taken for direct there would pull V1 up. Picks are walked outward from the shot and
+ * the run stops at the first that fails; the refracted line is refitted without them.
+ * O(picks).
+ */
+function withDirectNearShot(c: SideChoice, picks: SidePick[], v1: number | null, crossoverM: number | null, sigmaMs: number): SideChoice {
+  if (v1 === null || crossoverM === null || c.overridden || c.direct || c.refracted.length === 0 || c.branchOfSidePick.length !== picks.length) return c;
+  const first = c.refracted[0];
+  let run = 0;
+  while (run < picks.length && c.branchOfSidePick[run] === 1 && picks[run].offsetM < crossoverM) {
+    const p = picks[run];
+    // Late by up to 3σ, early by at most σ: past the crossover the head wave arrives before
+    // the direct wave would, so a pick well before offset/V1 is more likely a head wave.
+    const lateMs = p.timeMs - (1000 * p.offsetM) / v1;
+    const onDirect = lateMs <= DIRECT_MATCH_SIGMAS * sigmaMs && lateMs >= -sigmaMs;
+    const beforeRefracted = p.timeMs < timeOnBranchMs(first, p.offsetM) - 2 * sigmaMs;
+    if (!onDirect || !beforeRefracted) break;
+    run++;
+  }
+  // A direct wave is a run with the line's V1 (within SECOND_REFRACTOR_MIN_CONTRAST): one
+  // pick near the crossover, or two that run at a head wave's speed, stay refracted.
+  const direct = run >= 2 ? lineOf(picks.slice(0, run)) : null;
+  if (!direct || Math.abs(Math.log(direct.velocity / v1)) > Math.log(SECOND_REFRACTOR_MIN_CONTRAST)) return c;
+  const branchOfSidePick = c.branchOfSidePick.map((b, j): BranchIndex => (j < run ? 0 : b));
+  const refitted = lineOf(picks.filter((_, j) => branchOfSidePick[j] === 1));
+  if (!refitted) return c;
+  return { ...c, branchOfSidePick, direct, refracted: [refitted, ...c.refracted.slice(1)] };
+}
+
+/**
+ * The line's crossover distance from the direct wave to the first refractor: the median
+ * over sides that show both (crossoverDistanceM); null when none does. O(sides log sides).
+ */
+function lineCrossoverDistanceM(choices: (SideChoice | null)[][]): number | null {
+  const xs: number[] = [];
+  for (const pair of choices) {
+    for (const c of pair) {
+      const x = c && !c.overridden ? crossoverDistanceM(c.direct, c.refracted[0]) : null;
+      if (x !== null) xs.push(x);
+    }
+  }
+  return xs.length > 0 ? median(xs) : null;
 }
 
 /**
