@@ -2,6 +2,7 @@
  * Noise of the combined minus times, the level the lateral-velocity detector tests against.
  */
 import type { PairPlusMinus } from '../plus-minus/refractor-plus-times.js';
+import { isSome } from '../shared/nan-none.js';
 
 /**
  * Per-pick noise of the combined T−, ms. Pairs share shots, so averaging K pairs does not
@@ -12,7 +13,7 @@ import type { PairPlusMinus } from '../plus-minus/refractor-plus-times.js';
 export function minusTimeNoiseMs(pairs: PairPlusMinus[], geophoneCount: number, pickSigmaMs: number): number | null {
   const sigmas: number[] = [];
   for (let i = 0; i < geophoneCount; i++) {
-    const covering = pairs.filter((p) => p.minusTimeMs[i] !== null);
+    const covering = pairs.filter((p) => isSome(p.minusTimeMs[i]));
     const forward = new Set(covering.map((p) => p.left.id)).size;
     const reverse = new Set(covering.map((p) => p.right.id)).size;
     if (forward > 0 && reverse > 0) sigmas.push(pickSigmaMs * Math.sqrt(1 / forward + 1 / reverse));

@@ -16,6 +16,7 @@
  * ms; velocities in m/s.
  */
 import type { Step } from '../output/interpretation.js';
+import type { NanNone } from '../shared/nan-none.js';
 import {
   combineStepEvidence,
   findBranchSteps,
@@ -327,7 +328,7 @@ export function lateralRefractorVelocity(
  * geophones flagged in `use`.
  */
 export function segmentMinusVelocity(
-  pairMinusTimesMs: (number | null)[][],
+  pairMinusTimesMs: readonly NanNone[],
   abscissaM: (number | null)[],
   use: boolean[],
 ): MinusTimeVelocityResult {
@@ -340,7 +341,7 @@ export function segmentMinusVelocity(
       for (let i = 0; i < t.length; i++) {
         const ti = t[i];
         const xi = abscissaM[i];
-        if (use[i] && ti !== null && xi !== null) {
+        if (use[i] && ti === ti && xi !== null) { // ti NaN: none (shared/nan-none.ts)
           xM.push(xi);
           minusTimeMs.push(ti);
         }
