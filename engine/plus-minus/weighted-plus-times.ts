@@ -77,11 +77,12 @@ export function weightedPlusTimes(pairs: WeightablePair[], geophoneCount: number
     out.plusSigmaMs.push(source.sigmaMs[i]);
     out.fromUntrusted.push(fallback);
     const used: number[] = [];
-    pairs.forEach((p, k) => {
+    for (let k = 0; k < pairs.length; k++) {
+      const p = pairs[k];
       const v = p.plusVarianceMs2[i];
       // NaN is "none" in the per-pair arrays (shared/nan-none.ts); NaN > 0 is false.
       if (p.trusted !== fallback && isSome(p.plusTimeMs[i]) && v > 0) used.push(k);
-    });
+    }
     out.contributing.push(used);
   }
   return out;
