@@ -11,11 +11,6 @@
 /** A per-pair array: one value per geophone, NaN where there is none. */
 export type NanNone = Float64Array;
 
-/** An array of `length` values, all "none". O(n). */
-export function noneArray(length: number): NanNone {
-  return new Float64Array(length).fill(Number.NaN);
-}
-
 /** True where the array holds a value (not NaN). */
 export function isSome(value: number): boolean {
   return value === value;
