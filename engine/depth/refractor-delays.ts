@@ -22,6 +22,7 @@ import type { Survey } from '../survey/survey.js';
 import type { ShotAnalysis } from '../output/interpretation.js';
 import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import { isFiniteNumber } from '../shared/numbers.js';
+import { fromNullable, isSome, type NanNone } from '../shared/nan-none.js';
 import { refractedTimes, type RefractorIndex, type Side } from '../branches/refracted-times.js';
 import { fitLine, type FitPoint } from '../branches/segmented-fit.js';
 import { geophoneSpacingM } from '../branches/shot-geometry.js';
@@ -50,10 +51,11 @@ interface OneWayTimes {
   shot: ShotAnalysis;
   /** Direction the arrivals travel from the shot. */
   side: Side;
-  timesMs: (number | null)[];
+  /** Branch-k time per geophone, ms; NaN where none (shared/nan-none.ts: it feeds the per-pair arrays). */
+  timesMs: NanNone;
   phantomed: boolean[];
-  /** Variance of each time, ms²: σ² for a pick, the phantom's variance (phantom.ts) for a phantom. */
-  varianceMs2: (number | null)[];
+  /** Variance of each time, ms²: σ² for a pick, the phantom's variance (phantom.ts) for a phantom; NaN where none. */
+  varianceMs2: NanNone;
   /** Branch-k picks of that side as a straight line (least squares), when ≥ 2 picks. */
   line: { velocity: number; interceptMs: number } | null;
 }
@@ -90,9 +92,9 @@ function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: Refra
     return {
       shot,
       side,
-      timesMs: timesMs.map((t, i) => (t !== null ? t : phantomed[i] ? best!.timesMs[i] : null)),
+      timesMs: fromNullable(timesMs.map((t, i) => (t !== null ? t : phantomed[i] ? best!.timesMs[i] : null))),
       phantomed,
-      varianceMs2: timesMs.map((t, i) => (t !== null ? pickSigmaMs * pickSigmaMs : phantomed[i] ? phantomVariance : null)),
+      varianceMs2: fromNullable(timesMs.map((t, i) => (t !== null ? pickSigmaMs * pickSigmaMs : phantomed[i] ? phantomVariance : null))),
       line: branchLine(survey, shot.x, timesMs),
     };
   });
@@ -107,7 +109,7 @@ function oneWayTimes(survey: Survey, shots: ShotAnalysis[], side: Side, k: Refra
 function reciprocalReading(survey: Survey, w: OneWayTimes, toX: number): ReciprocalReading | null {
   const limit = 0.25 * geophoneSpacingM(survey.geophones);
   const i = survey.geophones.findIndex((g) => Math.abs(g.x - toX) <= limit);
-  if (i >= 0 && isFiniteNumber(w.timesMs[i]) && !w.phantomed[i]) return { timeMs: w.timesMs[i] as number, gapM: 0 };
+  if (i >= 0 && isFiniteNumber(w.timesMs[i]) && !w.phantomed[i]) return { timeMs: w.timesMs[i], gapM: 0 };
   if (!w.line) return null;
   const gaps = survey.geophones.filter((_, j) => isFiniteNumber(w.timesMs[j]) && !w.phantomed[j]).map((g) => Math.abs(g.x - toX));
   return { timeMs: w.line.interceptMs + (1000 * Math.abs(toX - w.shot.x)) / w.line.velocity, gapM: gaps.length > 0 ? Math.min(...gaps) : 0 };
@@ -129,7 +131,7 @@ export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: Refrac
   for (const a of toRight) {
     for (const b of toLeft) {
       if (!(b.shot.x > a.shot.x)) continue;
-      const overlap = xs.some((x, i) => x > a.shot.x && x < b.shot.x && a.timesMs[i] !== null && b.timesMs[i] !== null);
+      const overlap = xs.some((x, i) => x > a.shot.x && x < b.shot.x && isSome(a.timesMs[i]) && isSome(b.timesMs[i]));
       if (!overlap) continue;
       const forward = reciprocalReading(survey, a, b.shot.x);
       const reverse = reciprocalReading(survey, b, a.shot.x);
@@ -149,8 +151,8 @@ export function refractorDelays(survey: Survey, shots: ShotAnalysis[], k: Refrac
   let velocitySource: RefractorDelays['velocitySource'] = null;
   const fit = minusTimeVelocity(
     pairs.map((p) => {
-      const idx = xs.map((_, i) => i).filter((i) => p.minusTimeMs[i] !== null);
-      return { xM: idx.map((i) => xs[i]), minusTimeMs: idx.map((i) => p.minusTimeMs[i] as number) };
+      const idx = xs.map((_, i) => i).filter((i) => isSome(p.minusTimeMs[i]));
+      return { xM: idx.map((i) => xs[i]), minusTimeMs: idx.map((i) => p.minusTimeMs[i]) };
     }),
   );
   if (fit.ok) {

@@ -21,7 +21,11 @@
  * shrunk until its cells share the source cell's slowness) gets the straight-ray time t = r·s, so the point-source singularity does
  * not spoil the field; the source may lie anywhere, not only on a node.
  *
- * Cost: O(N log N) for N nodes; memory about 26 bytes per node.
+ * Cost: O(N log N) for N nodes; memory about 26 bytes per node. Several shots on one grid
+ * share one MarchWorkspace (the padded slownesses built once, the work arrays reused), and a
+ * march told which nodes are wanted (`stopAfter`) ends once they are all accepted: fast
+ * marching accepts nodes in order of time and never changes an accepted one, so those
+ * nodes read exactly what the whole march gives them.
  */
 import { NodeHeap } from './node-heap.js';
 import { GridError, checkGridSize, type VelocityGrid } from './velocity-grid.js';
@@ -42,6 +46,35 @@ export interface EikonalOptions {
    * is uniform.
    */
   initRadiusCells?: number;
+}
+
+/**
+ * The work arrays of fast marching on one grid, built once and reused by every source solved
+ * on it (the residual check solves every shot of a line on one grid): the slownesses padded
+ * with air (O(N) to build, once), the times, the node states and the heap (about 25 bytes
+ * per node). The times a solve returns are the workspace's own array, overwritten by the
+ * next solve on it.
+ */
+export class MarchWorkspace {
+  readonly grid: VelocityGrid;
+  readonly slow: Float64Array;
+  readonly times: Float64Array;
+  readonly state: Uint8Array;
+  readonly heap: NodeHeap;
+
+  /** @throws GridError when the grid's size or slowness count is wrong. */
+  constructor(grid: VelocityGrid) {
+    const { nx, nz, cellM } = grid;
+    checkGridSize(nx, nz, cellM);
+    if (grid.cellSlownessMsPerM.length !== (nx - 1) * (nz - 1)) {
+      throw new GridError('cellSlownessMsPerM', `Expected ${(nx - 1) * (nz - 1)} cell slownesses, got ${grid.cellSlownessMsPerM.length}.`);
+    }
+    this.grid = grid;
+    this.slow = paddedSlowness(grid);
+    this.times = new Float64Array(nx * nz);
+    this.state = new Uint8Array(nx * nz);
+    this.heap = new NodeHeap(this.times);
+  }
 }
 
 /** Fewest cells of straight-ray start around the source (when the medium allows). */
@@ -66,34 +99,91 @@ const ACCEPTED = 2;
  *   solveFirstArrivals(grid, { x: 5, z: 0 })
  */
 export function solveFirstArrivals(grid: VelocityGrid, source: SourcePoint, options: EikonalOptions = {}): Float64Array {
+  return solveOnWorkspace(new MarchWorkspace(grid), source, options);
+}
+
+/**
+ * As solveFirstArrivals, on a workspace reused from shot to shot; returns the workspace's
+ * times array (valid until its next solve). With `stopAfter` (node indices, e.g.
+ * samplingNodes of the receivers), the march ends once every one of them that touches the
+ * ground is accepted: those nodes hold their final times, nodes reached later hold
+ * Infinity or a provisional time. Cost O(N log N) at most, less when the wanted nodes are
+ * reached before the far corners of the grid.
+ * @throws GridError when the source lies outside the grid or in the air.
+ */
+export function solveOnWorkspace(workspace: MarchWorkspace, source: SourcePoint, options: EikonalOptions = {}, stopAfter?: ArrayLike<number>): Float64Array {
+  const { grid, slow, times, state, heap } = workspace;
   const { nx, nz, cellM: h } = grid;
-  checkGridSize(nx, nz, h);
-  if (grid.cellSlownessMsPerM.length !== (nx - 1) * (nz - 1)) {
-    throw new GridError('cellSlownessMsPerM', `Expected ${(nx - 1) * (nz - 1)} cell slownesses, got ${grid.cellSlownessMsPerM.length}.`);
-  }
   const secondOrder = (options.order ?? 2) === 2;
   const initRadiusCells = Math.max(
     1,
     Math.floor(options.initRadiusCells ?? Math.max(MIN_INIT_RADIUS_CELLS, Math.ceil(DEFAULT_INIT_RADIUS_M / h))),
   );
-
-  const n = nx * nz;
-  const times = new Float64Array(n).fill(Infinity);
-  const state = new Uint8Array(n);
-  const slow = paddedSlowness(grid);
-  const heap = new NodeHeap(times);
+  times.fill(Infinity);
+  state.fill(0);
+  heap.clear();
   const ctx: MarchContext = { nx, nz, h, times, state, slow, secondOrder };
 
   const initialised = startAtSource(grid, slow, source, initRadiusCells, times, state);
+  // Wanted nodes still to accept; only ground nodes count (an air node is never reached).
+  // A wanted node that could never be reached leaves the march to run to its end, as without stopAfter.
+  let wanted: Uint8Array | null = null;
+  let remaining = 0;
+  if (stopAfter) {
+    wanted = new Uint8Array(nx * nz);
+    for (let m = 0; m < stopAfter.length; m++) {
+      const k = stopAfter[m];
+      const i = k % nx;
+      const j = (k - i) / nx;
+      if (wanted[k] || !touchesGround(slow, nx, i, j)) continue;
+      wanted[k] = 1;
+      if (state[k] !== ACCEPTED) remaining++;
+    }
+    if (remaining === 0) return times;
+  }
   for (let m = 0; m < initialised.length; m++) pushNeighbours(ctx, heap, initialised[m]);
 
   for (;;) {
     const k = heap.pop();
     if (k < 0) break;
     state[k] = ACCEPTED;
+    if (wanted !== null && wanted[k] === 1 && --remaining === 0) break;
     pushNeighbours(ctx, heap, k);
   }
   return times;
+}
+
+/**
+ * The nodes sampleTime may read for a point: the corners of the cell holding it and of the
+ * cells whose edge it lies on (the same cells, found by the same rule). Empty for a point
+ * outside the grid (sampleTime throws there).
+ */
+export function samplingNodes(grid: VelocityGrid, x: number, z: number): number[] {
+  const cells = candidateCells(grid, x, z);
+  if (!cells) return [];
+  const { nx } = grid;
+  const out: number[] = [];
+  for (const j of cells.jList) for (const i of cells.iList) out.push(j * nx + i, j * nx + i + 1, (j + 1) * nx + i, (j + 1) * nx + i + 1);
+  return out;
+}
+
+/** The cells a point's time is read from (see sampleTime), or null outside the grid. */
+function candidateCells(grid: VelocityGrid, x: number, z: number): { u: number; w: number; iList: number[]; jList: number[] } | null {
+  const { nx, nz, xMin, zMin, cellM: h } = grid;
+  const u = (x - xMin) / h;
+  const w = (z - zMin) / h;
+  const tol = 1e-9;
+  if (!(u >= -tol && u <= nx - 1 + tol) || !(w >= -tol && w <= nz - 1 + tol)) return null;
+  const i0 = clampInt(Math.floor(u), 0, nx - 2);
+  const j0 = clampInt(Math.floor(w), 0, nz - 2);
+  // Candidate cells: the one holding the point, then neighbours when the point is on their edge.
+  const iList = [i0];
+  const jList = [j0];
+  if (Math.abs(u - i0) < 1e-7 && i0 > 0) iList.push(i0 - 1);
+  if (Math.abs(u - (i0 + 1)) < 1e-7 && i0 + 1 <= nx - 2) iList.push(i0 + 1);
+  if (Math.abs(w - j0) < 1e-7 && j0 > 0) jList.push(j0 - 1);
+  if (Math.abs(w - (j0 + 1)) < 1e-7 && j0 + 1 <= nz - 2) jList.push(j0 + 1);
+  return { u, w, iList, jList };
 }
 
 /**
@@ -105,28 +195,16 @@ export function solveFirstArrivals(grid: VelocityGrid, source: SourcePoint, opti
  * @throws GridError when the point (or the source) lies outside the grid.
  */
 export function sampleTime(grid: VelocityGrid, times: Float64Array, x: number, z: number, source?: SourcePoint): number {
-  const { nx, nz, xMin, zMin, cellM: h } = grid;
+  const { nx, xMin, zMin, cellM: h } = grid;
   // With the source known, interpolate the smooth remainder t − s0·r and add s0·r back:
   // near the source the cone t = s0·r is exact instead of cut by a bilinear chord.
   const s0 = source ? locateSource(grid, source).srcSlowness : 0;
   const sx = source ? source.x : 0;
   const sz = source ? source.z : 0;
   const cone = (px: number, pz: number): number => (s0 === 0 ? 0 : s0 * Math.hypot(px - sx, pz - sz));
-  const u = (x - xMin) / h;
-  const w = (z - zMin) / h;
-  const tol = 1e-9;
-  if (!(u >= -tol && u <= nx - 1 + tol) || !(w >= -tol && w <= nz - 1 + tol)) {
-    throw new GridError('point', `Point x=${x} m, elevation ${z} m lies outside the model grid.`);
-  }
-  const i0 = clampInt(Math.floor(u), 0, nx - 2);
-  const j0 = clampInt(Math.floor(w), 0, nz - 2);
-  // Candidate cells: the one holding the point, then neighbours when the point is on their edge.
-  const iList = [i0];
-  const jList = [j0];
-  if (Math.abs(u - i0) < 1e-7 && i0 > 0) iList.push(i0 - 1);
-  if (Math.abs(u - (i0 + 1)) < 1e-7 && i0 + 1 <= nx - 2) iList.push(i0 + 1);
-  if (Math.abs(w - j0) < 1e-7 && j0 > 0) jList.push(j0 - 1);
-  if (Math.abs(w - (j0 + 1)) < 1e-7 && j0 + 1 <= nz - 2) jList.push(j0 + 1);
+  const cells = candidateCells(grid, x, z);
+  if (!cells) throw new GridError('point', `Point x=${x} m, elevation ${z} m lies outside the model grid.`);
+  const { u, w, iList, jList } = cells;
   for (const j of jList) {
     for (const i of iList) {
       const k = j * nx + i;

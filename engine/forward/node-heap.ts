@@ -21,6 +21,12 @@ export class NodeHeap {
     this.slotOfNode = new Int32Array(keys.length).fill(-1);
   }
 
+  /** Empties the heap for the next march on the same nodes. O(m) for the m nodes left in it. */
+  clear(): void {
+    for (let slot = 0; slot < this.count; slot++) this.slotOfNode[this.nodes[slot]] = -1;
+    this.count = 0;
+  }
+
   get size(): number {
     return this.count;
   }

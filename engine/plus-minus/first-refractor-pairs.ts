@@ -10,6 +10,7 @@ import { geophoneSpacingM } from '../branches/shot-geometry.js';
 import type { EndShotPhantom } from './end-shot-phantoms.js';
 import type { HeadWaveTimes, OpposingPairInput } from './refractor-plus-times.js';
 import { reciprocalTimeOf } from './weighted-plus-times.js';
+import { fromNullable } from '../shared/nan-none.js';
 
 /**
  * One input per opposing pair whose reciprocal check could be made (reciprocal-checks.ts
@@ -93,9 +94,10 @@ function headWaveTimes(survey: Survey, shot: ShotAnalysis, side: Side, phantoms:
   const w = phantoms.find((q) => q.shot.id === shot.id && q.side === side);
   const p = w?.result;
   const phantomed = own.map((t, i) => t === null && !!p && p.timesMs[i] !== null);
+  // Per-pair form (shared/nan-none.ts): NaN where the shot has no time. O(N).
   return {
-    timesMs: own.map((t, i) => (t !== null ? t : phantomed[i] ? p!.timesMs[i] : null)),
+    timesMs: fromNullable(own.map((t, i) => (t !== null ? t : phantomed[i] ? p!.timesMs[i] : null))),
     phantomed,
-    varianceMs2: own.map((t, i) => (t !== null ? pickSigmaMs * pickSigmaMs : phantomed[i] ? w!.varianceMs2[i] : null)),
+    varianceMs2: fromNullable(own.map((t, i) => (t !== null ? pickSigmaMs * pickSigmaMs : phantomed[i] ? w!.varianceMs2[i] : null))),
   };
 }

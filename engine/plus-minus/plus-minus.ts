@@ -14,7 +14,9 @@
  *
  * Normal depth (radius of G's depth arc): aG = zG·cos(ic)/V1 with sin(ic) = V1/V2, so
  *   zG = (T+/2)·V1·V2 / sqrt(V2² − V1²)            (T+ in s, V in m/s, z in m).
+ * Per-pair arrays are Float64Arrays with NaN for "none" (shared/nan-none.ts).
  */
+import type { NanNone } from '../shared/nan-none.js';
 
 export interface PlusMinusPairInput {
   /** Shot positions along the line, m; leftShotXM < rightShotXM. */
@@ -22,44 +24,47 @@ export interface PlusMinusPairInput {
   rightShotXM: number;
   /** Geophone positions along the line, m, in survey order. */
   geophoneXM: number[];
-  /** Head-wave arrivals from the left shot at each geophone (picked or phantomed), ms; null where none. */
-  leftTimesMs: (number | null)[];
-  /** Head-wave arrivals from the right shot at each geophone, ms; null where none. */
-  rightTimesMs: (number | null)[];
+  /** Head-wave arrivals from the left shot at each geophone (picked or phantomed), ms; NaN where none. */
+  leftTimesMs: NanNone;
+  /** Head-wave arrivals from the right shot at each geophone, ms; NaN where none. */
+  rightTimesMs: NanNone;
   /** Reciprocal time tAB between the two shots, ms. */
   reciprocalTimeMs: number;
 }
 
 export interface PlusMinusPairResult {
-  /** T+ per geophone, ms; null where the geophone is not strictly between the shots or lacks an arrival. */
-  plusTimeMs: (number | null)[];
-  /** T− per geophone, ms; null where T+ is null. */
-  minusTimeMs: (number | null)[];
+  /** T+ per geophone, ms; NaN where the geophone is not strictly between the shots or lacks an arrival. */
+  plusTimeMs: NanNone;
+  /** T− per geophone, ms; NaN where T+ is NaN. */
+  minusTimeMs: NanNone;
 }
 
 /**
  * Plus and minus times of one opposing shot pair at every geophone it covers.
  * @example
  * plusMinus({ leftShotXM: 0, rightShotXM: 30, geophoneXM: [10, 20],
- *   leftTimesMs: [15, 19], rightTimesMs: [19, 15], reciprocalTimeMs: 22 })
- * // → { plusTimeMs: [12, 12], minusTimeMs: [-4, 4] }
+ *   leftTimesMs: Float64Array.of(15, 19), rightTimesMs: Float64Array.of(19, 15), reciprocalTimeMs: 22 })
+ * // → { plusTimeMs: Float64Array [12, 12], minusTimeMs: Float64Array [-4, 4] }
+ * Cost O(N), two arrays of N.
  */
 export function plusMinus(input: PlusMinusPairInput): PlusMinusPairResult {
   const { leftShotXM, rightShotXM, geophoneXM, leftTimesMs, rightTimesMs, reciprocalTimeMs } = input;
-  const plusTimeMs: (number | null)[] = [];
-  const minusTimeMs: (number | null)[] = [];
-  for (let i = 0; i < geophoneXM.length; i++) {
+  const n = geophoneXM.length;
+  const plusTimeMs = new Float64Array(n);
+  const minusTimeMs = new Float64Array(n);
+  const tabOk = isTime(reciprocalTimeMs);
+  for (let i = 0; i < n; i++) {
     const x = geophoneXM[i];
     const tA = leftTimesMs[i];
     const tB = rightTimesMs[i];
     const between = x > leftShotXM && x < rightShotXM;
-    if (!between || !isTime(tA) || !isTime(tB) || !isTime(reciprocalTimeMs)) {
-      plusTimeMs.push(null);
-      minusTimeMs.push(null);
+    if (!between || !Number.isFinite(tA) || !Number.isFinite(tB) || !tabOk) {
+      plusTimeMs[i] = Number.NaN;
+      minusTimeMs[i] = Number.NaN;
       continue;
     }
-    plusTimeMs.push(tA + tB - reciprocalTimeMs);
-    minusTimeMs.push(tA - tB);
+    plusTimeMs[i] = tA + tB - reciprocalTimeMs;
+    minusTimeMs[i] = tA - tB;
   }
   return { plusTimeMs, minusTimeMs };
 }
@@ -87,7 +92,7 @@ export interface WeightedCombination {
  * leaves the value out. Cost O(K·N) for K pairs and N geophones, no allocation per
  * geophone (two passes over the pairs at each geophone: the sums, then χ² about the mean).
  */
-export function combineWeighted(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
+export function combineWeighted(values: readonly NanNone[], variances: readonly NanNone[], geophoneCount: number): WeightedCombination {
   // Pair by pair along each pair's row (its arrays are read in order, not one element of
   // every pair per geophone), into per-geophone sums; each geophone still adds its pairs in
   // pair order, so the sums are the same numbers. O(K·N), three arrays of N.
@@ -101,7 +106,7 @@ export function combineWeighted(values: (number | null)[][], variances: (number 
     for (let i = 0; i < geophoneCount; i++) {
       const v = row[i];
       const variance = rowVariance[i];
-      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      if (!Number.isFinite(v) || !Number.isFinite(variance) || !(variance > 0)) continue;
       sw[i] += 1 / variance;
       swv[i] += v / variance;
       used[i]++;
@@ -119,7 +124,7 @@ export function combineWeighted(values: (number | null)[][], variances: (number 
       if (used[i] < 2) continue;
       const v = row[i];
       const variance = rowVariance[i];
-      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      if (!Number.isFinite(v) || !Number.isFinite(variance) || !(variance > 0)) continue;
       chi[i] = chi[i] + (1 / variance) * (v - mean[i]) ** 2;
     }
   }
@@ -151,7 +156,7 @@ export function combineWeighted(values: (number | null)[][], variances: (number 
  * O(K²·N)) is tests/helpers/plain-minus-times.ts, compared with this one in
  * tests/engine/combine-minus-times.test.ts.
  */
-export function combineMinusTimes(values: (number | null)[][], variances: (number | null)[][], geophoneCount: number): WeightedCombination {
+export function combineMinusTimes(values: readonly NanNone[], variances: readonly NanNone[], geophoneCount: number): WeightedCombination {
   const pairCount = values.length;
   const n = geophoneCount;
   // has[k·N + i]: pair k has a usable value at geophone i. O(K·N).
@@ -161,7 +166,7 @@ export function combineMinusTimes(values: (number | null)[][], variances: (numbe
     for (let i = 0; i < n; i++) {
       const v = values[k][i];
       const variance = variances[k][i];
-      if (isTime(v) && isTime(variance) && variance > 0) {
+      if (Number.isFinite(v) && Number.isFinite(variance) && variance > 0) {
         has[k * n + i] = 1;
         count[k]++;
       }
@@ -176,16 +181,16 @@ export function combineMinusTimes(values: (number | null)[][], variances: (numbe
   const swv = new Float64Array(n);
   const overlap = new Int32Array(pairCount);
   const pending = order.slice(1);
-  const shifted: (number | null)[][] = [];
-  const shiftedVar: (number | null)[][] = [];
+  const shifted: NanNone[] = [];
+  const shiftedVar: NanNone[] = [];
   /** Adds one (shifted) pair to the running sums; counts newly covered geophones for the pending pairs. O(N + K·new). */
-  const add = (row: (number | null)[], rowVar: (number | null)[]): void => {
+  const add = (row: NanNone, rowVar: NanNone): void => {
     shifted.push(row);
     shiftedVar.push(rowVar);
     for (let i = 0; i < n; i++) {
       const v = row[i];
       const variance = rowVar[i];
-      if (!isTime(v) || !isTime(variance) || !(variance > 0)) continue;
+      if (!Number.isFinite(v) || !Number.isFinite(variance) || !(variance > 0)) continue;
       const wasCovered = sw[i] > 0;
       sw[i] += 1 / variance;
       swv[i] += v / variance;
@@ -210,12 +215,12 @@ export function combineMinusTimes(values: (number | null)[][], variances: (numbe
     for (let i = 0; i < n; i++) {
       if (!(sw[i] > 0) || !has[k * n + i]) continue;
       const c = swv[i] / sw[i];
-      const w = 1 / (variances[k][i] as number);
+      const w = 1 / variances[k][i];
       sumW += w;
-      sumWD += w * ((values[k][i] as number) - c);
+      sumWD += w * (values[k][i] - c);
     }
     const offset = sumWD / sumW;
-    add(values[k].map((v) => (isTime(v) ? v - offset : null)), variances[k]);
+    add(values[k].map((v) => (Number.isFinite(v) ? v - offset : Number.NaN)), variances[k]);
   }
   return combineWeighted(shifted, shiftedVar, geophoneCount);
 }

@@ -6,19 +6,21 @@
  * pairs of its refractor (which picks, which phantoms, which reciprocal readings); from
  * there on the first and the second refractor go through this one code.
  * Units: ms, ms², m. Cost: O(pairs · geophones) plus the adjustment (reciprocal-adjustment.ts).
+ * Per-pair arrays are Float64Arrays with NaN for "none" (shared/nan-none.ts).
  */
 import type { ShotAnalysis } from '../output/interpretation.js';
+import { isSome, type NanNone } from '../shared/nan-none.js';
 import { plusMinus } from './plus-minus.js';
 import { weightedPlusTimes, type WeightablePair, type WeightedPlusTimes } from './weighted-plus-times.js';
 
 /** The arrivals a shot contributes toward the other shot of a pair. */
 export interface HeadWaveTimes {
-  /** Refracted time per geophone, ms: the shot's own pick, else a phantom; null elsewhere. */
-  timesMs: (number | null)[];
+  /** Refracted time per geophone, ms: the shot's own pick, else a phantom; NaN elsewhere. */
+  timesMs: NanNone;
   /** Where the time is a phantom. */
   phantomed: boolean[];
-  /** Variance of each time, ms². */
-  varianceMs2: (number | null)[];
+  /** Variance of each time, ms²; NaN where no time. */
+  varianceMs2: NanNone;
 }
 
 /** One opposing pair as the core needs it: left shot shooting right, right shot shooting left. */
@@ -38,11 +40,12 @@ export interface OpposingPairInput {
 export interface PairPlusMinus extends WeightablePair {
   left: ShotAnalysis;
   right: ShotAnalysis;
-  minusTimeMs: (number | null)[];
-  /** Variance of T− per geophone, ms² (the two picks'; tAB cancels out of T−). */
-  minusVarianceMs2: (number | null)[];
-  /** Geophones where either shot's time was phantomed. */
-  phantomUsed: boolean[];
+  /** T− per geophone, ms; NaN where none. */
+  minusTimeMs: NanNone;
+  /** Variance of T− per geophone, ms² (the two picks'; tAB cancels out of T−); NaN where none. */
+  minusVarianceMs2: NanNone;
+  /** Geophones where either shot's time was phantomed (1), with a T+. */
+  phantomUsed: Uint8Array;
 }
 
 /** How a geophone's delay time was found: from picks of a pair, with a phantom, or none. */
@@ -57,7 +60,7 @@ export interface RefractorPlusTimes {
   delaySource: PairDelaySource[];
 }
 
-/** T+ and T− of one pair at every geophone with their variances (no adjustment yet). */
+/** T+ and T− of one pair at every geophone with their variances (no adjustment yet). O(N), five arrays of N. */
 export function pairPlusMinus(pair: OpposingPairInput, geophoneXM: number[]): PairPlusMinus {
   const { left, right, leftTimes, rightTimes } = pair;
   const pm = plusMinus({
@@ -68,7 +71,20 @@ export function pairPlusMinus(pair: OpposingPairInput, geophoneXM: number[]): Pa
     rightTimesMs: rightTimes.timesMs,
     reciprocalTimeMs: pair.reciprocalTimeMs,
   });
-  const pickVariance = (i: number): number => (leftTimes.varianceMs2[i] ?? 0) + (rightTimes.varianceMs2[i] ?? 0);
+  const n = geophoneXM.length;
+  const phantomUsed = new Uint8Array(n);
+  const minusVarianceMs2 = new Float64Array(n);
+  const plusVarianceMs2 = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    // A time without a variance counts as variance 0, as before the arrays were typed.
+    const lv = leftTimes.varianceMs2[i];
+    const rv = rightTimes.varianceMs2[i];
+    const pickVariance = (isSome(lv) ? lv : 0) + (isSome(rv) ? rv : 0);
+    const hasPlus = isSome(pm.plusTimeMs[i]);
+    phantomUsed[i] = hasPlus && (leftTimes.phantomed[i] || rightTimes.phantomed[i]) ? 1 : 0;
+    minusVarianceMs2[i] = isSome(pm.minusTimeMs[i]) ? pickVariance : Number.NaN;
+    plusVarianceMs2[i] = hasPlus ? pickVariance + pair.reciprocalVarianceMs2 : Number.NaN;
+  }
   return {
     left,
     right,
@@ -77,9 +93,9 @@ export function pairPlusMinus(pair: OpposingPairInput, geophoneXM: number[]): Pa
     reciprocalVarianceMs2: pair.reciprocalVarianceMs2,
     plusTimeMs: pm.plusTimeMs,
     minusTimeMs: pm.minusTimeMs,
-    phantomUsed: geophoneXM.map((_, i) => pm.plusTimeMs[i] !== null && (leftTimes.phantomed[i] || rightTimes.phantomed[i])),
-    minusVarianceMs2: geophoneXM.map((_, i) => (pm.minusTimeMs[i] === null ? null : pickVariance(i))),
-    plusVarianceMs2: geophoneXM.map((_, i) => (pm.plusTimeMs[i] === null ? null : pickVariance(i) + pair.reciprocalVarianceMs2)),
+    phantomUsed,
+    minusVarianceMs2,
+    plusVarianceMs2,
   };
 }
 
@@ -89,7 +105,7 @@ export function refractorPlusTimes(inputs: OpposingPairInput[], geophoneXM: numb
   const combined = weightedPlusTimes(pairs, geophoneXM.length);
   const delayTimeMs = combined.plusTimeMs.map((t) => (t === null ? null : t / 2));
   const delaySource = combined.plusTimeMs.map((t, i): PairDelaySource =>
-    t === null ? null : combined.contributing[i].some((k) => pairs[k].phantomUsed[i]) ? 'phantom' : 'pair',
+    t === null ? null : combined.contributing[i].some((k) => pairs[k].phantomUsed[i] === 1) ? 'phantom' : 'pair',
   );
   return { pairs, combined, delayTimeMs, delaySource };
 }
@@ -97,5 +113,8 @@ export function refractorPlusTimes(inputs: OpposingPairInput[], geophoneXM: numb
 /** T− of the widest pair covering each geophone (pairs' minus times differ by a constant). Cost: O(pairs log pairs + pairs · geophones). */
 export function widestPairMinusTimes(pairs: PairPlusMinus[], geophoneCount: number): (number | null)[] {
   const byWidth = [...pairs].sort((p, q) => q.right.x - q.left.x - (p.right.x - p.left.x));
-  return Array.from({ length: geophoneCount }, (_, i) => byWidth.find((p) => p.minusTimeMs[i] !== null)?.minusTimeMs[i] ?? null);
+  return Array.from({ length: geophoneCount }, (_, i) => {
+    const p = byWidth.find((q) => isSome(q.minusTimeMs[i]));
+    return p ? p.minusTimeMs[i] : null;
+  });
 }

@@ -13,6 +13,7 @@
  * 1959). Units: ms, ms², m.
  */
 import { adjustReciprocalTimes, type AdjustablePair } from '../reciprocal/reciprocal-adjustment.js';
+import { isSome } from '../shared/nan-none.js';
 import { combineWeighted, type WeightedCombination } from './plus-minus.js';
 
 /** One reading of a reciprocal time: how far (m) it lies from the picks it rests on (0 at a geophone). */
@@ -76,10 +77,12 @@ export function weightedPlusTimes(pairs: WeightablePair[], geophoneCount: number
     out.plusSigmaMs.push(source.sigmaMs[i]);
     out.fromUntrusted.push(fallback);
     const used: number[] = [];
-    pairs.forEach((p, k) => {
+    for (let k = 0; k < pairs.length; k++) {
+      const p = pairs[k];
       const v = p.plusVarianceMs2[i];
-      if (p.trusted !== fallback && p.plusTimeMs[i] !== null && v !== null && v > 0) used.push(k);
-    });
+      // NaN is "none" in the per-pair arrays (shared/nan-none.ts); NaN > 0 is false.
+      if (p.trusted !== fallback && isSome(p.plusTimeMs[i]) && v > 0) used.push(k);
+    }
     out.contributing.push(used);
   }
   return out;

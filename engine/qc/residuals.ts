@@ -20,14 +20,15 @@
  * names the worst shots. An interpretation with no depths, or with no V1 or V2, gets no
  * residuals and a "residuals-not-computed" warning; this function never throws.
  *
- * Cost: one grid build and one solve per shot; the grid's cell is chosen in
+ * Cost: one grid build and one solve per shot on one shared workspace, each march stopped
+ * once the nodes around the geophones are final; the grid's cell is chosen in
  * interpretation-model.ts (≤ 0.5 m, ≤ spacing/6, capped in nodes). Measured in
  * docs/developers/residuals.md.
  */
 import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
 import { buildVelocityGrid } from '../forward/model.js';
-import { sampleTime, solveFirstArrivals } from '../forward/eikonal.js';
+import { MarchWorkspace, sampleTime, samplingNodes, solveOnWorkspace } from '../forward/eikonal.js';
 import { elevationAt } from '../forward/polyline.js';
 import { modelFromInterpretation, residualGridExtent } from '../forward/interpretation-model.js';
 import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
@@ -85,6 +86,13 @@ export function computeResiduals(survey: Survey, interpretation: Interpretation)
     if (!built.ok) return { ok: false, reason: built.reason };
     const { extent, nodes } = residualGridExtent(built, survey);
     const grid = buildVelocityGrid(built.model, extent);
+    // One workspace for every shot, and the nodes the geophones are read from: each
+    // shot's march stops once those are accepted (their times are then final; eikonal.ts).
+    const workspace = new MarchWorkspace(grid);
+    const receiverNodes: number[] = [];
+    survey.geophones.forEach((g, i) => {
+      for (const k of samplingNodes(grid, g.x, interpretation.stations[i]?.elevation ?? g.elevation ?? 0)) receiverNodes.push(k);
+    });
     const failedShots: { shot: string; reason: string }[] = [];
     let sumSq = 0;
     let count = 0;
@@ -93,7 +101,7 @@ export function computeResiduals(survey: Survey, interpretation: Interpretation)
       const source = { x: shot.x, z };
       let times: Float64Array;
       try {
-        times = solveFirstArrivals(grid, source);
+        times = solveOnWorkspace(workspace, source, {}, receiverNodes);
       } catch (error) {
         failedShots.push({ shot: shot.id, reason: error instanceof Error ? error.message : String(error) });
         const none = survey.geophones.map(() => null);

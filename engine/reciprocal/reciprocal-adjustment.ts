@@ -2,14 +2,15 @@
  * Joint adjustment of the reciprocal times of opposing shot pairs (plus-minus method,
  * Hagedoorn, Geophysical Prospecting 7, 1959). Units: ms, ms².
  */
+import type { NanNone } from '../shared/nan-none.js';
 import { planStructuredAdjustment } from './structured-adjustment.js';
 
 /** What the adjustment reads and corrects of one opposing pair. */
 export interface AdjustablePair {
-  /** T+ per geophone, ms (null where the pair gives none). */
-  plusTimeMs: (number | null)[];
-  /** Variance of T+ per geophone, ms², including the reciprocal time's variance. */
-  plusVarianceMs2: (number | null)[];
+  /** T+ per geophone, ms (NaN where the pair gives none: shared/nan-none.ts). */
+  plusTimeMs: NanNone;
+  /** Variance of T+ per geophone, ms², including the reciprocal time's variance; NaN where none. */
+  plusVarianceMs2: NanNone;
   /** The pair's reciprocal time tAB, ms. */
   reciprocalTimeMs: number;
   /** Variance of tAB, ms². */
@@ -46,9 +47,13 @@ export function adjustReciprocalTimes(pairWork: AdjustablePair[]): void {
     const shift = result.shifts[m];
     const variance = result.inverseDiagonal[m];
     if (!Number.isFinite(shift) || !(variance > 0)) return;
-    p.plusTimeMs = p.plusTimeMs.map((v) => (v === null ? null : v - shift));
+    // In place (NaN stays NaN): the arrays belong to the pair. O(N) per pair.
+    const times = p.plusTimeMs;
+    const variances = p.plusVarianceMs2;
+    const former = p.reciprocalVarianceMs2;
+    for (let i = 0; i < times.length; i++) times[i] = times[i] - shift;
+    for (let i = 0; i < variances.length; i++) variances[i] = variances[i] - former + variance;
     p.reciprocalTimeMs += shift;
-    p.plusVarianceMs2 = p.plusVarianceMs2.map((v) => (v === null ? null : v - p.reciprocalVarianceMs2 + variance));
     p.reciprocalVarianceMs2 = variance;
   });
 }
@@ -101,7 +106,7 @@ export function normalEquations(pairWork: readonly AdjustablePair[]): { matrix: 
       const p = pairWork[m];
       const t = p.plusTimeMs[i];
       const v = p.plusVarianceMs2[i];
-      if (t === null || t === undefined || v === null || v === undefined) continue;
+      if (t !== t || v !== v || t === undefined || v === undefined) continue; // NaN: none
       at[count] = m;
       time[count] = t;
       variance[count] = Math.max(v - p.reciprocalVarianceMs2, 1e-6);

@@ -81,7 +81,7 @@ export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): S
       const p = pairWork[m];
       const t = p.plusTimeMs[i];
       const v = p.plusVarianceMs2[i];
-      if (t === null || t === undefined || v === null || v === undefined) continue;
+      if (t !== t || v !== v || t === undefined || v === undefined) continue; // NaN: none (shared/nan-none.ts)
       at[count] = m;
       time[count] = t;
       variance[count] = Math.max(v - p.reciprocalVarianceMs2, 1e-6);

@@ -16,6 +16,7 @@
  * ms; velocities in m/s.
  */
 import type { Step } from '../output/interpretation.js';
+import type { NanNone } from '../shared/nan-none.js';
 import {
   combineStepEvidence,
   findBranchSteps,
@@ -327,27 +328,35 @@ export function lateralRefractorVelocity(
  * geophones flagged in `use`.
  */
 export function segmentMinusVelocity(
-  pairMinusTimesMs: (number | null)[][],
+  pairMinusTimesMs: readonly NanNone[],
   abscissaM: (number | null)[],
   use: boolean[],
 ): MinusTimeVelocityResult {
-  // One pass per pair into two arrays (the former index list and two maps made four arrays
-  // of N per pair for every segment and pass). O(K·N).
-  return minusTimeVelocity(
-    pairMinusTimesMs.map((t) => {
-      const xM: number[] = [];
-      const minusTimeMs: number[] = [];
-      for (let i = 0; i < t.length; i++) {
-        const ti = t[i];
-        const xi = abscissaM[i];
-        if (use[i] && ti !== null && xi !== null) {
-          xM.push(xi);
-          minusTimeMs.push(ti);
-        }
+  // The used points of every pair into two typed arrays shared by all pairs, one view per
+  // pair (the former per-pair number arrays were boxed garbage, K of them per segment and
+  // pass). Two passes: count, then fill. O(K·N).
+  let total = 0;
+  for (const t of pairMinusTimesMs) {
+    for (let i = 0; i < t.length; i++) if (use[i] && t[i] === t[i] && abscissaM[i] !== null) total++;
+  }
+  const xs = new Float64Array(total);
+  const ts = new Float64Array(total);
+  const series: { xM: Float64Array; minusTimeMs: Float64Array }[] = [];
+  let at = 0;
+  for (const t of pairMinusTimesMs) {
+    const start = at;
+    for (let i = 0; i < t.length; i++) {
+      const ti = t[i];
+      const xi = abscissaM[i];
+      if (use[i] && ti === ti && xi !== null) { // ti NaN: none (shared/nan-none.ts)
+        xs[at] = xi;
+        ts[at] = ti;
+        at++;
       }
-      return { xM, minusTimeMs };
-    }),
-  );
+    }
+    series.push({ xM: xs.subarray(start, at), minusTimeMs: ts.subarray(start, at) });
+  }
+  return minusTimeVelocity(series);
 }
 
 /**

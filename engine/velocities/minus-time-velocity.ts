@@ -21,9 +21,9 @@
  */
 export interface MinusTimeSeries {
   /** Geophone positions, m. */
-  xM: number[];
+  xM: ArrayLike<number>;
   /** T− at those geophones, ms (same length as xM). */
-  minusTimeMs: number[];
+  minusTimeMs: ArrayLike<number>;
 }
 
 export type MinusTimeVelocityResult =

@@ -9,6 +9,7 @@
 import { depthPass, type DepthPass } from '../depth/depth-pass.js';
 import { distanceAlongRefractorM } from '../depth/distance-along-refractor.js';
 import { isFiniteNumber } from '../shared/numbers.js';
+import type { NanNone } from '../shared/nan-none.js';
 import {
   localRefractorVelocities,
   segmentIndexAt,
@@ -29,7 +30,7 @@ export interface SegmentInput {
   elevationM: number[];
   delayTimeMs: (number | null)[];
   /** T− of each pair used for velocities. */
-  pairMinusMs: (number | null)[][];
+  pairMinusMs: NanNone[];
   v1: number | null;
   v1At: (number | null)[];
   /** The line V2 and its fit, the single segment when no change is found. */

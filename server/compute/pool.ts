@@ -41,12 +41,15 @@ export const DEFAULT_TIME_LIMIT_MS = 10_000;
 export const QUEUED_PER_THREAD = 4;
 
 /**
- * Memory limits of a compute worker. A large line keeps hundreds of thousands of per-pair
- * numbers alive while it is interpreted; with V8's default young generation (16 MB
- * semi-spaces) they are copied by scavenge after scavenge (a quarter of the time of a
- * 1,024-geophone, 64-shot line). 96 MB of young generation (32 MB semi-spaces) took that
- * line from about 3.6 to 3.2 s in bench/profile.ts (measured 2026-12-04); it is an upper
- * bound, not an allocation.
+ * Memory limits of a compute worker. The per-pair arrays of a large line (about 2,000
+ * pairs × 1,024 geophones on a 64-shot line) are Float64Arrays since 2026-12-05
+ * (engine/shared/nan-none.ts), so scavenges no longer copy them: garbage collection fell
+ * from about 40 % to 10–14 % of a 1,024-geophone, 64-shot line. What the young generation
+ * still holds is the short-lived garbage of the fits and scans; with 96 MB (32 MB
+ * semi-spaces) instead of V8's default it is scavenged less often: that line took
+ * 2.5–3.0 s against 3.2–3.5 s with the default, GC 9–11 % against 11–14 % (same run,
+ * worker threads, a loaded 2-core machine, 2026-12-05). Kept; it is an upper bound, not
+ * an allocation.
  */
 export const WORKER_RESOURCE_LIMITS = { maxYoungGenerationSizeMb: 96 } as const;
 

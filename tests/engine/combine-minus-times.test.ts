@@ -8,6 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { combineMinusTimes, combineWeighted, type WeightedCombination } from '../../engine/plus-minus/plus-minus.js';
 import { plainCombineMinusTimes, plainCombineWeighted } from '../helpers/plain-minus-times.js';
 import { mulberry32 } from '../helpers/random.js';
+import { fromNullable } from '../../engine/shared/nan-none.js';
 
 const RELATIVE = 1e-9;
 
@@ -49,7 +50,7 @@ describe('combineWeighted: the allocation-free loop agrees with the plain form',
   it('on 40 seeded random sets of pairs', () => {
     for (let seed = 1; seed <= 40; seed++) {
       const { values, variances } = randomPairs(seed, 1 + (seed % 30), 40);
-      expectAgree(combineWeighted(values, variances, 40), plainCombineWeighted(values, variances, 40));
+      expectAgree(combineWeighted(values.map(fromNullable), variances.map(fromNullable), 40), plainCombineWeighted(values, variances, 40));
     }
   });
 });
@@ -59,13 +60,13 @@ describe('combineMinusTimes: the running-sum form agrees with the plain form', (
     for (let seed = 1; seed <= 60; seed++) {
       const geophones = 10 + ((seed * 7) % 87);
       const { values, variances } = randomPairs(1000 + seed, 1 + ((seed * 13) % 120), geophones);
-      expectAgree(combineMinusTimes(values, variances, geophones), plainCombineMinusTimes(values, variances, geophones));
+      expectAgree(combineMinusTimes(values.map(fromNullable), variances.map(fromNullable), geophones), plainCombineMinusTimes(values, variances, geophones));
     }
   });
   it('leaves out pairs that share no geophone with the rest, as the plain form does', () => {
     const values = [[1, 2, 3, null, null, null], [null, null, null, 7, 8, 9], [5, 6, null, null, null, null]];
     const variances = values.map((row) => row.map((v) => (v === null ? null : 0.1)));
-    const fast = combineMinusTimes(values, variances, 6);
+    const fast = combineMinusTimes(values.map(fromNullable), variances.map(fromNullable), 6);
     expectAgree(fast, plainCombineMinusTimes(values, variances, 6));
     expect(fast.valueMs.slice(3)).toEqual([null, null, null]);
   });

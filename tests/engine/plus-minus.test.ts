@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { normalDepthFromDelayM, plusMinus } from '../../engine/plus-minus/plus-minus.js';
+import { fromNullable, toNullable } from '../../engine/shared/nan-none.js';
 
 describe('plusMinus', () => {
   // Delay-time form of head-wave times (Hagedoorn, Geophysical Prospecting 7, 1959):
@@ -15,8 +16,8 @@ describe('plusMinus', () => {
     leftShotXM: shotA.x,
     rightShotXM: shotB.x,
     geophoneXM: xs,
-    leftTimesMs: xs.map((_, i) => t(shotA, i)),
-    rightTimesMs: xs.map((_, i) => t(shotB, i)),
+    leftTimesMs: Float64Array.from(xs, (_, i) => t(shotA, i)),
+    rightTimesMs: Float64Array.from(xs, (_, i) => t(shotB, i)),
     reciprocalTimeMs: tAB,
   });
 
@@ -33,12 +34,13 @@ describe('plusMinus', () => {
       leftShotXM: 5,
       rightShotXM: 45,
       geophoneXM: xs,
-      leftTimesMs: [1, 2, null, 4, 5, 6],
-      rightTimesMs: [6, 5, 4, 3, null, 1],
+      leftTimesMs: fromNullable([1, 2, null, 4, 5, 6]),
+      rightTimesMs: fromNullable([6, 5, 4, 3, null, 1]),
       reciprocalTimeMs: 3,
     });
-    expect(r.plusTimeMs).toEqual([null, 4, null, 4, null, null]);
-    expect(r.minusTimeMs).toEqual([null, -3, null, 1, null, null]);
+    // None is NaN in the per-pair arrays (engine/shared/nan-none.ts), null once converted.
+    expect(toNullable(r.plusTimeMs)).toEqual([null, 4, null, 4, null, null]);
+    expect(toNullable(r.minusTimeMs)).toEqual([null, -3, null, 1, null, null]);
   });
 });
 

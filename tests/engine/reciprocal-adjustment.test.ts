@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { adjustReciprocalTimes, choleskyFactor, choleskyInverseDiagonal, choleskySolve, denseReciprocalAdjustment, normalEquations, reciprocalAdjustment, type AdjustablePair } from '../../engine/reciprocal/reciprocal-adjustment.js';
 import { planStructuredAdjustment } from '../../engine/reciprocal/structured-adjustment.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
+import { fromNullable } from '../../engine/shared/nan-none.js';
 
 /**
  * The delay time at a geophone is the same whichever opposing pair measures it (Hagedoorn,
@@ -13,8 +14,8 @@ const truePlusMs = [10, 10.4, 10.9, 11.5, 12.2, 12.8, 13.1, 13.3];
 function pair(errorMs: number, covered: boolean[], readingVarianceMs2: number): AdjustablePair {
   const pickVariance = 0.125;
   return {
-    plusTimeMs: truePlusMs.map((t, i) => (covered[i] ? t - errorMs : null)),
-    plusVarianceMs2: truePlusMs.map((_, i) => (covered[i] ? pickVariance + readingVarianceMs2 : null)),
+    plusTimeMs: fromNullable(truePlusMs.map((t, i) => (covered[i] ? t - errorMs : null))),
+    plusVarianceMs2: fromNullable(truePlusMs.map((_, i) => (covered[i] ? pickVariance + readingVarianceMs2 : null))),
     reciprocalTimeMs: 50 + errorMs,
     reciprocalVarianceMs2: readingVarianceMs2,
   };
@@ -27,7 +28,7 @@ describe('adjustReciprocalTimes', () => {
     adjustReciprocalTimes([wellRead, farExtrapolated]);
     // From 4 ms to a few hundredths: the far pair's own reading (variance 16 ms²) still pulls a little.
     farExtrapolated.plusTimeMs.forEach((t, i) => {
-      if (t !== null) expect(Math.abs(t - truePlusMs[i])).toBeLessThan(0.05);
+      if (!Number.isNaN(t)) expect(Math.abs(t - truePlusMs[i])).toBeLessThan(0.05);
     });
     expect(Math.abs(farExtrapolated.reciprocalTimeMs - 50)).toBeLessThan(0.05);
     expect(farExtrapolated.reciprocalVarianceMs2).toBeLessThan(16);
@@ -40,8 +41,8 @@ describe('adjustReciprocalTimes', () => {
     const b = pair(-0.5, truePlusMs.map(() => true), 0.1);
     adjustReciprocalTimes([a, b]);
     const u = 128 / 296;
-    a.plusTimeMs.forEach((t, i) => expect((t as number) - truePlusMs[i]).toBeCloseTo(-0.5 + u, 9));
-    b.plusTimeMs.forEach((t, i) => expect((t as number) - truePlusMs[i]).toBeCloseTo(0.5 - u, 9));
+    a.plusTimeMs.forEach((t, i) => expect(t - truePlusMs[i]).toBeCloseTo(-0.5 + u, 9));
+    b.plusTimeMs.forEach((t, i) => expect(t - truePlusMs[i]).toBeCloseTo(0.5 - u, 9));
   });
 
   it('leaves pairs with no shared geophone as they are', () => {
@@ -86,7 +87,7 @@ function denseAdjustment(pairs: AdjustablePair[]): { shifts: number[]; inverseDi
   const b = new Array<number>(k).fill(0);
   const pickVariance = (p: AdjustablePair, i: number): number | null => {
     const v = p.plusVarianceMs2[i];
-    return p.plusTimeMs[i] === null || v === null ? null : Math.max(v - p.reciprocalVarianceMs2, 1e-6);
+    return Number.isNaN(p.plusTimeMs[i]) || Number.isNaN(v) ? null : Math.max(v - p.reciprocalVarianceMs2, 1e-6);
   };
   pairs.forEach((p, m) => (a[m][m] += 1 / Math.max(p.reciprocalVarianceMs2, 1e-6)));
   for (let m = 0; m < k; m++) {
@@ -95,7 +96,7 @@ function denseAdjustment(pairs: AdjustablePair[]): { shifts: number[]; inverseDi
         const tq = pairs[n].plusTimeMs[i];
         const vp = pickVariance(pairs[m], i);
         const vq = pickVariance(pairs[n], i);
-        if (tp === null || tq === null || vp === null || vq === null) return;
+        if (Number.isNaN(tp) || Number.isNaN(tq) || vp === null || vq === null) return;
         const w = 1 / (vp + vq);
         a[m][m] += w;
         a[n][n] += w;
@@ -119,8 +120,8 @@ function randomPairs(rng: () => number, k: number, g: number): AdjustablePair[] 
     const readingVariance = 0.01 + 20 * rng() * rng();
     const error = 3 * gaussian(rng);
     return {
-      plusTimeMs: Array.from({ length: g }, (_, i) => (i >= from && i <= to ? 10 + 0.3 * i - error + 0.2 * gaussian(rng) : null)),
-      plusVarianceMs2: Array.from({ length: g }, (_, i) => (i >= from && i <= to ? readingVariance + 0.01 + rng() * 0.3 : null)),
+      plusTimeMs: fromNullable(Array.from({ length: g }, (_, i) => (i >= from && i <= to ? 10 + 0.3 * i - error + 0.2 * gaussian(rng) : null))),
+      plusVarianceMs2: fromNullable(Array.from({ length: g }, (_, i) => (i >= from && i <= to ? readingVariance + 0.01 + rng() * 0.3 : null))),
       reciprocalTimeMs: 40 + 5 * rng() + error,
       reciprocalVarianceMs2: readingVariance,
     };
@@ -178,8 +179,8 @@ function linePairs(rng: () => number, shots: number, g: number, classes: number[
       const phantomFrom = rng() < phantomShare ? from + Math.floor(rng() * (to - from)) : g;
       const pickVariance = classes[Math.floor(rng() * classes.length)];
       pairs.push({
-        plusTimeMs: Array.from({ length: g }, (_, i) => (i >= from && i <= to ? 12 + 0.1 * i - error + 0.1 * gaussian(rng) : null)),
-        plusVarianceMs2: Array.from({ length: g }, (_, i) => (i >= from && i <= to ? readingVariance + (i >= phantomFrom ? 0.07 : pickVariance) : null)),
+        plusTimeMs: fromNullable(Array.from({ length: g }, (_, i) => (i >= from && i <= to ? 12 + 0.1 * i - error + 0.1 * gaussian(rng) : null))),
+        plusVarianceMs2: fromNullable(Array.from({ length: g }, (_, i) => (i >= from && i <= to ? readingVariance + (i >= phantomFrom ? 0.07 : pickVariance) : null))),
         reciprocalTimeMs: 40 + error,
         reciprocalVarianceMs2: readingVariance,
       });
