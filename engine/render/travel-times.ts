@@ -386,7 +386,9 @@ function reciprocalMarks(
     for (const { p, inward } of ends) {
       const anchor = inward > 0 ? 'start' : 'end';
       const x = p.x + inward * 1.8;
-      for (const dy of [0, -2.6, 2.6, -5, 5]) candidates.push({ x, y: p.y + size * 0.35 + dy, anchor });
+      // A failed pair looks farther for room: its label must be read.
+      const offsets = check.ok ? [0, -2.6, 2.6, -5, 5] : [0, -2.6, 2.6, -5.2, 5.2, -7.8, 7.8, -10.4, 10.4, -13, 13];
+      for (const dy of offsets) candidates.push({ x, y: p.y + size * 0.35 + dy, anchor });
     }
     const boxes = candidates.map((c) => {
       const x0 = c.anchor === 'start' ? c.x : c.x - w;
