@@ -139,6 +139,12 @@ export interface ReciprocalCheck {
   /** Tolerance added to toleranceMs for readings extrapolated far beyond their picks, ms. */
   extrapolationAllowanceMs?: number;
   toleranceMs?: number;
+  /**
+   * 'direct' when the first arrival at the other shot is the direct wave both ways (shots
+   * closer than the crossover distance): the direct-wave times are compared, and the pair
+   * gives no head-wave reciprocal time to plus-minus. Absent: head-wave times.
+   */
+  wave?: 'direct';
 }
 
 export interface Warning {

@@ -13,8 +13,8 @@ import { reciprocalTimeOf } from './weighted-plus-times.js';
 import { fromNullable } from '../shared/nan-none.js';
 
 /**
- * One input per opposing pair whose reciprocal check could be made (reciprocal-checks.ts
- * has already said why the others could not). tAB is the mean of the check's two readings;
+ * One input per opposing pair whose head-wave reciprocal check could be made
+ * (reciprocal-checks.ts has already said why the others could not). tAB is the mean of the check's two readings;
  * the pair is trusted when the check passed (the check already widens its tolerance for
  * long extrapolations). Cost: O(checks + shots · geophones + pairs): the checks looked up
  * by their two shot ids in one map, each shot side's head-wave times built once and
@@ -58,7 +58,8 @@ export function firstRefractorPairs(
 
 /**
  * The reciprocal check of a pair, either way round (the first in the list, as a search
- * would find it); null when it could not be made. Building O(checks), each look-up O(1).
+ * would find it); null when it could not be made or compared direct-wave times (their
+ * mean is not the head-wave reciprocal time T+ = tA + tB − tAB needs). Building O(checks), each look-up O(1).
  */
 function reciprocalCheckIndex(checks: ReciprocalCheck[]): (a: string, b: string) => ReciprocalCheck | null {
   const byKey = new Map<string, ReciprocalCheck>();
@@ -68,7 +69,7 @@ function reciprocalCheckIndex(checks: ReciprocalCheck[]): (a: string, b: string)
   }
   return (a, b) => {
     const c = byKey.get(key(a, b));
-    if (!c || !Number.isFinite(c.forwardMs) || !Number.isFinite(c.reverseMs)) return null;
+    if (!c || c.wave === 'direct' || !Number.isFinite(c.forwardMs) || !Number.isFinite(c.reverseMs)) return null;
     return c;
   };
 }

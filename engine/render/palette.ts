@@ -1,17 +1,18 @@
 /**
  * Arcline's colours, in one place. Chosen for this project (not taken from another
- * program's scheme) and checked for the two common red–green colour-vision deficiencies.
+ * program's scheme; the shot colours come from a published colour-blind-safe scheme) and
+ * checked for the two common red–green colour-vision deficiencies.
  *
  * How they were checked (numbers in README.md, "The drawings", re-checked by
  * tests/engine/render/palette.test.ts):
  * - Every line and marker colour has a contrast ratio of at least 3:1 against white, the
  *   WCAG 2.1 minimum for graphical objects (W3C, WCAG 2.1, success criterion 1.4.11),
  *   using the WCAG relative-luminance definition.
- * - The shot colours sit along the blue–orange axis and spread over luminance, so they
- *   stay apart when red and green collapse: simulated protanopia and deuteranopia
+ * - The shot colours (Paul Tol's "muted" scheme, see SHOT_COLOURS) spread over hue and
+ *   luminance, so they stay apart when red and green collapse: simulated protanopia and deuteranopia
  *   (Machado, Oliveira & Fernandes, IEEE TVCG 15(6), 2009, severity 1 matrices, quoted from
  *   memory) keep every pair at least 15 CIELAB units apart.
- * - Colour is never the only cue: shots also get one of eight marker shapes, the refractor
+ * - Colour is never the only cue: shots also get one of ten marker shapes, the refractor
  *   is a heavy line, the second refractor is dashed, a failed reciprocal check is bold and
  *   says "exceeds".
  */
@@ -57,15 +58,21 @@ export const INK = {
 } as const;
 
 /**
- * Categorical colours for shots on the time–distance plot, in order of use. Seven colours
- * and eight marker shapes cycle independently, so 56 shots get distinct pairs.
+ * Categorical colours for shots on the time–distance plot, in order of use: six of the nine
+ * colours of Paul Tol's "muted" qualitative scheme (P. Tol, "Colour Schemes", SRON technical
+ * note SRON/EPS/TN/09-002, 2021; designed to stay distinct for colour-blind readers), plus
+ * black. The other three (sand #DDCC77, cyan #88CCEE, teal #44AA99) fall below 3:1 on
+ * white. Ordered so that neighbours differ in hue and lightness, the last and the first too.
+ * Seven colours and ten marker shapes (markers.ts SHOT_SHAPES) cycle together: shot k gets
+ * colour k mod 7 and shape k mod 10, so 70 shots get distinct pairs (7 and 10 are coprime)
+ * and neighbours differ in both.
  */
 export const SHOT_COLOURS: readonly string[] = [
-  '#1d3f8f', // deep blue
-  '#e07000', // orange
-  '#0c7c6c', // teal
-  '#c94aa0', // magenta
-  '#7a2a10', // dark brown
-  '#4b9ad8', // sky blue
-  '#3a3a3a', // charcoal
+  '#332288', // indigo
+  '#999933', // olive
+  '#882255', // wine
+  '#117733', // green
+  '#cc6677', // rose
+  '#000000', // black
+  '#aa4499', // purple
 ];

@@ -8,7 +8,7 @@
  */
 import { resolveOptions } from '../survey/options.js';
 import type { Survey } from '../survey/survey.js';
-import type { BranchLine, Interpretation, ShotAnalysis } from '../output/interpretation.js';
+import type { BranchLine, Interpretation, ReciprocalCheck, ShotAnalysis } from '../output/interpretation.js';
 import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM, textWidthMm } from './page.js';
@@ -36,12 +36,37 @@ interface ShotStyle {
   shape: MarkerShape;
 }
 
-/** Shot i gets colour i mod 7 and shape i mod 8: 56 distinct pairs before one repeats. */
-export function shotStyle(index: number): ShotStyle {
-  return { colour: SHOT_COLOURS[index % SHOT_COLOURS.length], shape: SHOT_SHAPES[index % SHOT_SHAPES.length] };
+/**
+ * The k-th shot along the line gets colour k mod 7 and shape k mod 10 (palette.ts,
+ * markers.ts): 7 and 10 are coprime, so 70 shots get distinct pairs, and shots next to
+ * each other on the line differ in both colour and shape.
+ */
+export function shotStyle(rank: number): ShotStyle {
+  return { colour: SHOT_COLOURS[rank % SHOT_COLOURS.length], shape: SHOT_SHAPES[rank % SHOT_SHAPES.length] };
+}
+
+/** Number of shots that get a colour and shape no other shot has. */
+export const DISTINCT_SHOT_STYLES = SHOT_COLOURS.length * SHOT_SHAPES.length;
+
+/**
+ * Each shot's rank along the line (by x, ties in survey order), the order in which styles
+ * and legend entries are given. O(s log s).
+ */
+export function shotOrder(survey: Survey): { id: string; index: number; rank: number }[] {
+  return survey.shots
+    .map((shot, index) => ({ id: shot.id, index, x: shot.x }))
+    .sort((a, b) => a.x - b.x || a.index - b.index)
+    .map((o, rank) => ({ id: o.id, index: o.index, rank }));
 }
 
 const PICK_MM = 1.7;
+/**
+ * A velocity or passing-check label may cover at most this fraction of its box with picks
+ * and brackets; on a dense plot (40 shots) it is left out rather than hide the picks it
+ * names. Our choice, from the rendered 10- and 40-shot lines. A failed check's label has
+ * no such limit.
+ */
+const MAX_PICK_COVER = 0.3;
 const PLOT_LEFT_MM = 22;
 const CLIP_ID = 'arcline-traveltimes-plot-clip';
 
@@ -123,6 +148,8 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
   const markLayer = layer.group().attr('data-role', 'marks');
   const labelLayer = svg.group().attr('data-role', 'labels');
   const placer = new LabelPlacer();
+  const rankOf = new Map(shotOrder(survey).map((o) => [o.index, o.rank]));
+  const tally: LabelTally = { branch: { shown: 0, total: 0 }, reciprocal: { shown: 0, total: 0 } };
 
   // Picks first claim their place, so no label covers one.
   survey.shots.forEach((shot) => {
@@ -133,13 +160,22 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
       placer.reserve({ x0: cx - PICK_MM / 2, y0: cy - PICK_MM / 2, x1: cx + PICK_MM / 2, y1: cy + PICK_MM / 2 });
     });
   });
-  reciprocalMarks(markLayer, labelLayer, interpretation, survey, plot, placer);
+  // Labels in order of importance, each dropped rather than overprinting another: failed
+  // reciprocal checks, then refracted and direct branch velocities, then the passing checks.
+  const checks = reciprocalOrder(interpretation, survey);
+  reciprocalMarks(markLayer, labelLayer, checks.filter((c) => !c.ok), survey, plot, placer, tally);
+  for (const kind of ['refracted', 'direct'] as const) {
+    survey.shots.forEach((shot, index) => {
+      const a = analyses.get(shot.id);
+      if (a) branchLines(branchLayer, labelLayer, a, plot, shotStyle(rankOf.get(index) ?? index), placer, kind, tally);
+    });
+  }
+  reciprocalMarks(markLayer, labelLayer, checks.filter((c) => c.ok), survey, plot, placer, tally);
 
   survey.shots.forEach((shot, index) => {
-    const style = shotStyle(index);
+    const style = shotStyle(rankOf.get(index) ?? index);
     const a = analyses.get(shot.id);
     if (a && showModelled && a.modelledMs) modelledLines(modelledLayer, shot.id, a.modelledMs, geophoneX, plot, style);
-    if (a) branchLines(branchLayer, labelLayer, a, plot, style, placer);
     if (a?.phantom) phantomArrivals(phantomLayer, shot.id, a.phantom.times, geophoneX, plot, style, a.phantom.fromShot);
     const picks = pickLayer.group().attr({ 'data-role': 'shot-picks', 'data-shot': shot.id });
     shot.times.forEach((time, i) => {
@@ -147,6 +183,7 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
       marker(picks, style.shape, plot.x(geophoneX[i]), plot.t(time), PICK_MM, { colour: style.colour, strokeMm: 0.2 }).attr({
         'data-role': 'pick',
         'data-shot': shot.id,
+        'data-shape': style.shape,
         'data-x': geophoneX[i],
         'data-time': time,
       });
@@ -156,11 +193,13 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
     marker(markLayer, style.shape, plot.x(shot.x), plot.t(0) - 1.4, 2.2, { colour: style.colour, strokeMm: 0.25 }).attr({
       'data-role': 'shot-position',
       'data-shot': shot.id,
+      'data-shape': style.shape,
       'data-x': shot.x,
     });
   });
 
   svg.rect(round3(box.x1 - box.x0), round3(box.y1 - box.y0)).attr({ x: round3(box.x0), y: round3(box.y0), fill: 'none', stroke: INK.frame, 'stroke-width': 0.3, 'data-role': 'plot-frame' });
+  labelNote(svg, tally, box);
   legend(svg, legendItems, PAGE.marginMm, legendTop + 2, contentWidth);
   cautionNote(svg, cautions, PAGE.marginMm, cautionTop, contentWidth);
   return canvas.serialize();
@@ -210,12 +249,22 @@ function rotatedBox(cx: number, cy: number, w: number, h: number, angleRad: numb
   return { x0: cx - hx, y0: cy - hy, x1: cx + hx, y1: cy + hy };
 }
 
-function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot: Plot, style: ShotStyle, placer: LabelPlacer): void {
+/** How many labels of each kind were written, of how many (the rest found no free place). */
+interface LabelTally {
+  branch: { shown: number; total: number };
+  reciprocal: { shown: number; total: number };
+}
+
+/**
+ * One shot's fitted branches of one kind, each with its apparent velocity written beside it
+ * where a place free of other labels is found (else the label is left out and counted).
+ */
+function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot: Plot, style: ShotStyle, placer: LabelPlacer, only: 'direct' | 'refracted', tally: LabelTally): void {
   for (const side of [a.left, a.right]) {
     if (!side) continue;
     const lines: { line: BranchLine; kind: 'direct' | 'refracted'; order: number }[] = [];
-    if (side.direct) lines.push({ line: side.direct, kind: 'direct', order: 0 });
-    side.refracted.forEach((line, k) => lines.push({ line, kind: 'refracted', order: k + 1 }));
+    if (side.direct && only === 'direct') lines.push({ line: side.direct, kind: 'direct', order: 0 });
+    if (only === 'refracted') side.refracted.forEach((line, k) => lines.push({ line, kind: 'refracted', order: k + 1 }));
     for (const { line, kind, order } of lines) {
       if (!(line.velocity > 0) || !Number.isFinite(line.fromX) || !Number.isFinite(line.toX)) continue;
       const x0m = Math.min(line.fromX, line.toX);
@@ -239,7 +288,7 @@ function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot
       const w = textWidthMm(text, size);
       const h = size * 1.05;
       const candidates: { cx: number; cy: number }[] = [];
-      for (const f of [0.5, 0.35, 0.65, 0.2, 0.8]) {
+      for (const f of [0.5, 0.35, 0.65, 0.2, 0.8, 0.1, 0.9]) {
         for (const sign of [1, -1]) {
           const px = p0.x + f * (p1.x - p0.x);
           const py = p0.y + f * (p1.y - p0.y);
@@ -247,7 +296,11 @@ function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot
           candidates.push({ cx: px + Math.sin(angle) * off, cy: py - Math.cos(angle) * off });
         }
       }
-      const chosen = candidates[placer.choose(candidates.map((c) => rotatedBox(c.cx, c.cy, w, h, angle)), plot.box)];
+      tally.branch.total++;
+      const pick = placer.tryPlace(candidates.map((c) => rotatedBox(c.cx, c.cy, w, h, angle)), plot.box, MAX_PICK_COVER);
+      if (pick === null) continue;
+      tally.branch.shown++;
+      const chosen = candidates[pick];
       addText(labels, text, chosen.cx - Math.sin(angle) * 0.35 * size, chosen.cy + Math.cos(angle) * 0.35 * size, {
         sizeMm: size,
         anchor: 'middle',
@@ -283,35 +336,49 @@ function toleranceOf(check: { toleranceMs?: number }, survey: Survey): number {
 }
 
 /**
+ * The checks in the order their labels claim room: the worst misfit first, then the pairs
+ * farthest apart (the long pairs carry the reciprocal times of the section). O(c log c).
+ */
+function reciprocalOrder(interpretation: Interpretation, survey: Survey): ReciprocalCheck[] {
+  const separation = (c: ReciprocalCheck): number => Math.abs((shotX(survey, c.shots[1]) ?? 0) - (shotX(survey, c.shots[0]) ?? 0));
+  return [...(interpretation.qc?.reciprocal ?? [])].sort(
+    (p, q) => Number(p.ok) - Number(q.ok) || Math.abs(q.differenceMs) - Math.abs(p.differenceMs) || separation(q) - separation(p),
+  );
+}
+
+/**
  * Each reciprocal pair: a bracket at shot B's position at the time shot A recorded there,
  * and one at A's position at the time B recorded there (reciprocity: the two should be
  * equal), with the misfit written beside one bracket. A failed check is joined by a line,
- * drawn bold in the alert colour, and says "exceeds".
+ * drawn bold in the alert colour, says "exceeds", and is always drawn. A passing pair is
+ * drawn only where its label finds a place free of other labels: on a line of 40 shots
+ * (779 pairs) brackets for every pair would hide the picks; the title block says how many
+ * are written, and qc.reciprocal lists them all.
  */
-function reciprocalMarks(parent: Container, labels: Container, interpretation: Interpretation, survey: Survey, plot: Plot, placer: LabelPlacer): void {
-  for (const check of interpretation.qc?.reciprocal ?? []) {
+function reciprocalMarks(
+  parent: Container,
+  labels: Container,
+  checks: readonly ReciprocalCheck[],
+  survey: Survey,
+  plot: Plot,
+  placer: LabelPlacer,
+  tally: LabelTally,
+): void {
+  for (const check of checks) {
     const xa = shotX(survey, check.shots[0]);
     const xb = shotX(survey, check.shots[1]);
     if (xa === null || xb === null || !Number.isFinite(check.forwardMs) || !Number.isFinite(check.reverseMs)) continue;
+    tally.reciprocal.total++;
     const colour = check.ok ? INK.text : INK.alert;
-    const group = parent.group().attr({ 'data-role': 'reciprocal', 'data-shots': `${check.shots[0]}|${check.shots[1]}`, 'data-ok': String(check.ok) });
     const pa = { x: plot.x(xa), y: plot.t(check.reverseMs) };
     const pb = { x: plot.x(xb), y: plot.t(check.forwardMs) };
-    if (!check.ok) {
-      group.line(round3(pa.x), round3(pa.y), round3(pb.x), round3(pb.y)).attr({ stroke: colour, 'stroke-width': 0.35, 'stroke-dasharray': '0.6 0.8' });
-    }
     const ends = [
       { p: pb, inward: Math.sign(pa.x - pb.x) || -1 },
       { p: pa, inward: Math.sign(pb.x - pa.x) || 1 },
     ];
-    for (const { p, inward } of ends) {
-      // A square bracket opening toward the other shot.
-      const d = `M${round3(p.x + inward * 1)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y + 1.6)}L${round3(p.x + inward * 1)},${round3(p.y + 1.6)}`;
-      group.path(d).attr({ fill: 'none', stroke: colour, 'stroke-width': check.ok ? 0.35 : 0.55, 'data-role': 'reciprocal-bracket' });
-      placer.reserve({ x0: p.x - 1.2, y0: p.y - 1.8, x1: p.x + 1.2, y1: p.y + 1.8 });
-    }
     const tolerance = toleranceOf(check, survey);
     let text = `Δ ${formatMs(Math.abs(check.differenceMs))} ${check.shots[0]}/${check.shots[1]}`;
+    if (check.wave === 'direct') text += ' direct';
     if (!check.ok) text += `, exceeds ${formatMs(tolerance)}`;
     const size = TEXT_MM.label * 0.85;
     const w = textWidthMm(text, size);
@@ -319,13 +386,30 @@ function reciprocalMarks(parent: Container, labels: Container, interpretation: I
     for (const { p, inward } of ends) {
       const anchor = inward > 0 ? 'start' : 'end';
       const x = p.x + inward * 1.8;
-      for (const dy of [0, -2.6, 2.6, -5, 5]) candidates.push({ x, y: p.y + size * 0.35 + dy, anchor });
+      // A failed pair looks farther for room: its label must be read.
+      const offsets = check.ok ? [0, -2.6, 2.6, -5, 5] : [0, -2.6, 2.6, -5.2, 5.2, -7.8, 7.8, -10.4, 10.4, -13, 13];
+      for (const dy of offsets) candidates.push({ x, y: p.y + size * 0.35 + dy, anchor });
     }
     const boxes = candidates.map((c) => {
       const x0 = c.anchor === 'start' ? c.x : c.x - w;
       return { x0, y0: c.y - size * 0.85, x1: x0 + w, y1: c.y + size * 0.25 };
     });
-    const chosen = candidates[placer.choose(boxes, plot.box)];
+    const pick = placer.tryPlace(boxes, plot.box, check.ok ? MAX_PICK_COVER : Infinity);
+    if (pick === null && check.ok) continue;
+    const group = parent.group().attr({ 'data-role': 'reciprocal', 'data-shots': `${check.shots[0]}|${check.shots[1]}`, 'data-ok': String(check.ok) });
+    if (check.wave === 'direct') group.attr('data-wave', 'direct');
+    if (!check.ok) {
+      group.line(round3(pa.x), round3(pa.y), round3(pb.x), round3(pb.y)).attr({ stroke: colour, 'stroke-width': 0.35, 'stroke-dasharray': '0.6 0.8' });
+    }
+    for (const { p, inward } of ends) {
+      // A square bracket opening toward the other shot.
+      const d = `M${round3(p.x + inward * 1)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y - 1.6)}L${round3(p.x)},${round3(p.y + 1.6)}L${round3(p.x + inward * 1)},${round3(p.y + 1.6)}`;
+      group.path(d).attr({ fill: 'none', stroke: colour, 'stroke-width': check.ok ? 0.35 : 0.55, 'data-role': 'reciprocal-bracket' });
+      placer.reserve({ x0: p.x - 1.2, y0: p.y - 1.8, x1: p.x + 1.2, y1: p.y + 1.8 });
+    }
+    if (pick === null) continue;
+    tally.reciprocal.shown++;
+    const chosen = candidates[pick];
     addText(labels, text, chosen.x, chosen.y, {
       sizeMm: size,
       anchor: chosen.anchor,
@@ -335,6 +419,24 @@ function reciprocalMarks(parent: Container, labels: Container, interpretation: I
       role: 'reciprocal-label',
     }).attr({ 'data-ok': String(check.ok), 'data-difference-ms': check.differenceMs });
   }
+}
+
+/**
+ * A line under the plot frame saying which labels were left out for want of room, so a
+ * missing Δ or velocity is never read as "not checked" or "not fitted".
+ */
+function labelNote(parent: Container, tally: LabelTally, box: Box): void {
+  const parts: string[] = [];
+  if (tally.reciprocal.shown < tally.reciprocal.total) parts.push(`Δ on ${tally.reciprocal.shown} of ${tally.reciprocal.total} pairs`);
+  if (tally.branch.shown < tally.branch.total) parts.push(`velocity on ${tally.branch.shown} of ${tally.branch.total} branches`);
+  if (parts.length === 0) return;
+  // Right-aligned on the axis-title line, clear of the centred title.
+  addText(parent, `${parts.join(', ')} (no room for more)`, box.x1, box.y1 + 1.2 + TEXT_MM.tick * 1.05 + TEXT_MM.label * 1.35, {
+    sizeMm: TEXT_MM.caution,
+    anchor: 'end',
+    fill: INK.muted,
+    role: 'label-note',
+  });
 }
 
 function reciprocalSummary(interpretation: Interpretation, survey: Survey): { text: string; role: string; alert?: boolean }[] {
@@ -347,13 +449,14 @@ function reciprocalSummary(interpretation: Interpretation, survey: Survey): { te
 }
 
 function travelTimeLegend(survey: Survey, interpretation: Interpretation, analyses: Map<string, ShotAnalysis>, showModelled: boolean): LegendItem[] {
-  const items: LegendItem[] = survey.shots.map((shot, i) => {
-    const style = shotStyle(i);
+  // In order along the line, each shot's own colour and shape on a stroke of its colour.
+  const items: LegendItem[] = shotOrder(survey).map(({ id, rank }) => {
+    const style = shotStyle(rank);
     return {
-      label: shot.id,
+      label: id,
       glyph: (g, cx, cy) => {
         g.line(round3(cx - 2.8), round3(cy), round3(cx + 2.8), round3(cy)).attr({ stroke: style.colour, 'stroke-width': 0.45 });
-        marker(g, style.shape, cx, cy, PICK_MM, { colour: style.colour, strokeMm: 0.2 });
+        marker(g, style.shape, cx, cy, PICK_MM, { colour: style.colour, strokeMm: 0.2 }).attr({ 'data-role': 'legend-shot', 'data-shot': id, 'data-shape': style.shape });
       },
     };
   });

@@ -126,6 +126,12 @@ export const ReciprocalCheckSchema = Type.Object(
     reverseGapM: opt(num()),
     extrapolationAllowanceMs: opt(num()),
     toleranceMs: opt(num()),
+    wave: opt(
+      literals(
+        ['direct'] as const,
+        "'direct': shots closer than the crossover distance, so the direct-wave times are compared (no head-wave reciprocal time). Absent: head-wave times.",
+      ),
+    ),
   },
   { ...closed, title: 'ReciprocalCheck' },
 );

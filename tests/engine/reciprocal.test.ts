@@ -121,20 +121,50 @@ describe('reciprocalChecks', () => {
     expect(checks[0].differenceMs).toBeLessThan(1e-6);
   });
 
-  it('skips a pair with a warning when neither a pick nor a refracted branch gives the time', () => {
-    // Two shots 4 m apart, each midway between geophones (1 m from the nearest, more than a
-    // quarter spacing), with direct picks only: no geophone pick and no refracted line.
+  it('skips a pair, in one warning, when neither shot has a time of the same wave at the other', () => {
+    // Two shots 20 m apart with direct picks only, each within 6 m of itself (a weak
+    // source): no refracted branch, and a direct time 15 m beyond the picks is not read.
     const s = survey([
       ['a', 1],
-      ['b', 5],
+      ['b', 21],
     ]);
-    for (const shot of s.shots) shot.times = shot.times.map((t, i) => (i <= 3 ? t : null));
+    s.shots[0].times = s.shots[0].times.map((t, i) => (i <= 3 ? t : null));
+    s.shots[1].times = s.shots[1].times.map((t, i) => (i >= 8 && i <= 12 ? t : null));
     const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(3));
     expect(checks).toEqual([]);
     expect(warnings).toHaveLength(1);
     expect(warnings[0].code).toBe('reciprocal-unavailable');
-    expect(warnings[0].message).toContain('a');
-    expect(warnings[0].message).toContain('b');
+    expect(warnings[0].message).toContain('a with b');
+  });
+
+  it('compares shots closer than the crossover distance as direct-wave times, marked so', () => {
+    // 6 m apart, midway between geophones; the crossover distance of MODEL is about 15 m there
+    // (x_c = 2h·√((V2+V1)/(V2−V1)), Telford, Geldart & Sheriff 1990, §4.3, from memory).
+    const s = survey([
+      ['a', 17],
+      ['b', 23],
+    ]);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(3));
+    expect(checks).toHaveLength(1);
+    expect(checks[0].wave).toBe('direct');
+    // Direct wave t = |AB|/V1 (Telford et al. 1990, §4.3): 6 m at 600 m/s = 10 ms both ways.
+    expect(checks[0].forwardMs).toBeCloseTo(10, 6);
+    expect(checks[0].reverseMs).toBeCloseTo(10, 6);
+    expect(warnings).toEqual([]);
+  });
+
+  it('never compares a direct pick with an extrapolated head-wave time (issue 11: a false 11.9 ms misfit)', () => {
+    // b sits 1 m from the geophone at 30, a at 20.5; 10.5 m apart, inside the crossover
+    // distance: b's pick at 20 is a direct arrival, a's head-wave branch starts beyond 33 m.
+    const s = survey([
+      ['a', 20.5],
+      ['b', 31],
+    ]);
+    const { checks, warnings } = reciprocalChecks(s, assignBranches(s), tolerance(3));
+    expect(checks).toHaveLength(1);
+    expect(checks[0].wave).toBe('direct');
+    expect(checks[0].differenceMs).toBeLessThan(1e-6);
+    expect(warnings).toEqual([]);
   });
 });
 

@@ -101,7 +101,11 @@ describe('renderTravelTimes', () => {
     expect(expected).toBeGreaterThan(0);
     const phantoms = byRole(root, 'phantom');
     expect(phantoms).toHaveLength(expected);
-    for (const p of phantoms) expect(p.getAttribute('fill')).toBe('#ffffff');
+    // Hollow: white inside, or for the stroke shapes (plus, cross) a thin stroke where a pick's is bold.
+    for (const p of phantoms) {
+      const hollow = p.getAttribute('fill') === '#ffffff' || (p.getAttribute('fill') === 'none' && Number(p.getAttribute('stroke-width')) < 0.3);
+      expect(hollow).toBe(true);
+    }
     expect(byRole(root, 'phantom-line').every((l) => (l.getAttribute('stroke-dasharray') ?? '').length > 0)).toBe(true);
   });
 
