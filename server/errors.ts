@@ -8,6 +8,7 @@
  */
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
 import type { Problem } from '../engine/survey/problem.js';
+import type { LayoutChange } from './revision-layout.js';
 
 interface CatalogueEntry {
   status: number;
@@ -28,6 +29,10 @@ export const ERROR_CATALOGUE = {
   invalid_pick_table: { status: 400, message: 'The pick table has problems.' },
   invalid_request: { status: 400, message: 'The request is not valid.' },
   body_too_large: { status: 413, message: 'The body is too large.' },
+  layout_changed: {
+    status: 409,
+    message: 'This revision has another geophone layout than the stored line; nothing was stored.',
+  },
   write_token_required: {
     status: 401,
     message: 'This service needs a write token: send "Authorization: Bearer <token>".',
@@ -56,7 +61,7 @@ export const RETRY_AFTER_S = 2;
  * given both inside `error` and beside it, so clients reading either place find it.
  */
 export interface ErrorBody {
-  error: { code: string; message: string; path: string; problems?: Problem[] };
+  error: { code: string; message: string; path: string; problems?: Problem[]; layoutChange?: LayoutChange };
   problems?: Problem[];
 }
 
@@ -66,18 +71,21 @@ export class AppError extends Error {
   readonly statusCode: number;
   readonly path: string;
   readonly problems: Problem[] | undefined;
+  readonly layoutChange: LayoutChange | undefined;
 
-  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[] } = {}) {
+  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[]; layoutChange?: LayoutChange } = {}) {
     super(details.message ?? ERROR_CATALOGUE[code].message);
     this.name = 'AppError';
     this.code = code;
     this.statusCode = ERROR_CATALOGUE[code].status;
     this.path = details.path ?? '';
     this.problems = details.problems;
+    this.layoutChange = details.layoutChange;
   }
 
   toBody(): ErrorBody {
     const error: ErrorBody['error'] = { code: this.code, message: this.message, path: this.path };
+    if (this.layoutChange !== undefined) error.layoutChange = this.layoutChange;
     if (this.problems === undefined) return { error };
     error.problems = this.problems;
     return { error, problems: this.problems };
