@@ -18,9 +18,11 @@ const closed = { additionalProperties: false } as const;
 
 export const ProblemSchema = Type.Object(
   {
-    path: Type.String({ description: 'JSON pointer of the offending value ("" for the whole body).' }),
+    path: Type.String({ description: 'JSON pointer of the offending value ("" for the whole body); in a pick table "/csv/line/<n>/<column>".' }),
     code: Type.String({ description: 'Stable kebab-case code.' }),
-    message: Type.String(),
+    message: Type.String({ description: 'The problem in words; in a pick table it starts with the line and column.' }),
+    line: Type.Optional(Type.Integer({ minimum: 1, description: 'Pick tables: the CSV line of the problem.' })),
+    column: Type.Optional(Type.Integer({ minimum: 1, description: 'Pick tables: the CSV column (1-based, as in the file).' })),
   },
   { ...closed, title: 'Problem' },
 );
