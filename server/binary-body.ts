@@ -15,7 +15,7 @@ export interface BinaryBody {
 export const BINARY_SNIFF_BYTES = 8000;
 
 const SEND_PICKS =
-  'Send the first-break picks instead: as a pick table (Content-Type: text/csv; columns shot_id, shot_x_m, shot_elevation_m, geophone_x_m, geophone_elevation_m, time_ms) or as a survey document (application/json), both described in the README.';
+  'Send the picks as a pick table (Content-Type: text/csv; columns shot_id, shot_x_m, shot_elevation_m, geophone_x_m, geophone_elevation_m, time_ms) or as a survey document (application/json), both described in the README.';
 
 /**
  * The SEG-2 file descriptor block (Pullan 1990, "Recommended standard for seismic (/radar)
@@ -36,7 +36,7 @@ function seg2(body: Buffer): BinaryBody | null {
     message:
       `This body is ${what}: raw traces, not first-break picks. Arcline does not read SEG-2 files yet; ` +
       `they will go to POST /api/v1/gathers/picks (raw bytes, application/octet-stream) once that route exists. ` +
-      `Pick the first breaks in your picking software meanwhile. ${SEND_PICKS}`,
+      `Meanwhile pick the first breaks in your picking software. ${SEND_PICKS}`,
   };
 }
 
