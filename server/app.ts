@@ -7,7 +7,8 @@ import Fastify, { type FastifyInstance } from 'fastify';
 import fastifyStatic from '@fastify/static';
 import fastifySwagger from '@fastify/swagger';
 import { ConfigError } from './config.js';
-import { handleError, handleNotFound } from './errors.js';
+import { AppError, handleError, handleNotFound } from './errors.js';
+import { binaryBody } from './binary-body.js';
 import { addSecurityHeaders } from './security-headers.js';
 import { SurveyStore } from './store.js';
 import { isLoopbackHost, writeGuard } from './write-auth.js';
@@ -125,6 +126,13 @@ const CONNECTION_CHECK_MS = 1_000;
 /** An idle keep-alive connection is closed after this, ms. Node's default. */
 const KEEP_ALIVE_TIMEOUT_MS = 5_000;
 
+/** The body as UTF-8 text; a binary file is refused by name (400 seg2_file / binary_body), its bytes never echoed. */
+function textOf(body: Buffer): string {
+  const binary = binaryBody(body);
+  if (binary !== null) throw new AppError(binary.kind === 'seg2' ? 'seg2_file' : 'binary_body', { message: binary.message });
+  return body.toString('utf8');
+}
+
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const checked = checkOptions(options);
   const store = new SurveyStore(checked.dataDir);
@@ -150,20 +158,44 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     app.setNotFoundHandler(handleNotFound);
     app.addHook('onSend', addSecurityHeaders);
 
+    // Every body is read as bytes first, so a file sent by mistake (a SEG-2 record, a
+    // workbook) is named for what it is and never decoded and quoted back (binary-body.ts).
     // JSON: Fastify's own parser (guards against __proto__ poisoning), except that an empty
     // body reaches the route as "no body" so the route can answer with its own message.
     const jsonParser = app.getDefaultJsonParser('error', 'error');
-    app.addContentTypeParser('application/json', { parseAs: 'string' }, (request, body, done) => {
-      if (body === '' || (typeof body === 'string' && body.trim() === '')) {
+    app.addContentTypeParser('application/json', { parseAs: 'buffer' }, (request, body, done) => {
+      let text: string;
+      try {
+        text = textOf(body as Buffer);
+      } catch (error) {
+        done(error as Error, undefined);
+        return;
+      }
+      if (text.trim() === '') {
         done(null, undefined);
         return;
       }
-      jsonParser(request, body as string, done);
+      jsonParser(request, text, done);
     });
     // Only JSON and pick tables are accepted; Fastify's plain-text parser would let any text through.
     app.removeContentTypeParser('text/plain');
     // A pick table arrives as text; importPickTable reads it.
-    app.addContentTypeParser('text/csv', { parseAs: 'string' }, (_request, body, done) => done(null, body));
+    app.addContentTypeParser('text/csv', { parseAs: 'buffer' }, (_request, body, done) => {
+      try {
+        done(null, textOf(body as Buffer));
+      } catch (error) {
+        done(error as Error, undefined);
+      }
+    });
+    // Any other media type (or none): a file is named, anything else is the wrong type.
+    app.addContentTypeParser('*', { parseAs: 'buffer' }, (_request, body, done) => {
+      try {
+        textOf(body as Buffer);
+        done(new AppError('unsupported_content_type'), undefined);
+      } catch (error) {
+        done(error as Error, undefined);
+      }
+    });
 
     const guard = writeGuard(checked.writeToken);
     // Before the routes: it collects every route's schema as the route is added.

@@ -8,6 +8,8 @@
  */
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
 import type { Problem } from '../engine/survey/problem.js';
+import type { LayoutChange } from './revision-layout.js';
+import { SURVEY_LIMITS } from '../engine/survey/survey.js';
 
 interface CatalogueEntry {
   status: number;
@@ -24,10 +26,22 @@ export const ERROR_CATALOGUE = {
     status: 400,
     message: 'Send the survey as application/json or a pick table as text/csv, and say which in the Content-Type header.',
   },
+  seg2_file: {
+    status: 400,
+    message: 'This body is a SEG-2 seismograph file; Arcline does not read SEG-2 yet. Send the first-break picks as a pick table (text/csv) or a survey (application/json).',
+  },
+  binary_body: {
+    status: 400,
+    message: 'This body is a binary file, not a survey or a pick table. Send the picks as a pick table (text/csv) or a survey (application/json).',
+  },
   invalid_survey: { status: 400, message: 'The survey has problems.' },
   invalid_pick_table: { status: 400, message: 'The pick table has problems.' },
   invalid_request: { status: 400, message: 'The request is not valid.' },
   body_too_large: { status: 413, message: 'The body is too large.' },
+  layout_changed: {
+    status: 409,
+    message: 'This revision has another geophone layout than the stored line; nothing was stored.',
+  },
   write_token_required: {
     status: 401,
     message: 'This service needs a write token: send "Authorization: Bearer <token>".',
@@ -56,7 +70,7 @@ export const RETRY_AFTER_S = 2;
  * given both inside `error` and beside it, so clients reading either place find it.
  */
 export interface ErrorBody {
-  error: { code: string; message: string; path: string; problems?: Problem[] };
+  error: { code: string; message: string; path: string; problems?: Problem[]; layoutChange?: LayoutChange };
   problems?: Problem[];
 }
 
@@ -66,35 +80,59 @@ export class AppError extends Error {
   readonly statusCode: number;
   readonly path: string;
   readonly problems: Problem[] | undefined;
+  readonly layoutChange: LayoutChange | undefined;
 
-  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[] } = {}) {
+  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[]; layoutChange?: LayoutChange } = {}) {
     super(details.message ?? ERROR_CATALOGUE[code].message);
     this.name = 'AppError';
     this.code = code;
     this.statusCode = ERROR_CATALOGUE[code].status;
     this.path = details.path ?? '';
     this.problems = details.problems;
+    this.layoutChange = details.layoutChange;
   }
 
   toBody(): ErrorBody {
     const error: ErrorBody['error'] = { code: this.code, message: this.message, path: this.path };
+    if (this.layoutChange !== undefined) error.layoutChange = this.layoutChange;
     if (this.problems === undefined) return { error };
     error.problems = this.problems;
     return { error, problems: this.problems };
   }
 }
 
+/** "6", "6 and 9", "6, 9 and 12"; more than `shown` items end in "and N others". */
+function listInWords(items: number[], shown = 5): string {
+  if (items.length > shown) return `${items.slice(0, shown).join(', ')} and ${items.length - shown} others`;
+  if (items.length === 1) return String(items[0]);
+  return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+}
+
 /**
- * The error for a list of problems from the validator or the pick-table reader: the first
- * problem gives message and path (the contract's single path), all of them go in `problems`.
+ * The headline of a list of problems: how many, and on which lines of a pick table. It
+ * repeats none of them, so a client showing the message above the list shows each problem
+ * once (issue 11 item 9); the problems themselves are in `problems`, each in words.
+ */
+export function problemsHeadline(subject: string, problems: readonly Problem[]): string {
+  const counted = problems.filter((p) => p.code !== 'too-many-problems');
+  const capped = counted.length < problems.length;
+  const lines = [...new Set(counted.map((p) => p.line).filter((line): line is number => line !== undefined))].sort((a, b) => a - b);
+  if (capped) return `${subject} has more than ${counted.length} problems; the first ${counted.length} are listed.`;
+  const count = counted.length === 1 ? '1 problem' : `${counted.length} problems`;
+  const where = lines.length === 0 ? '' : `, on line${lines.length === 1 ? '' : 's'} ${listInWords(lines)}`;
+  return `${subject} has ${count}${where}.`;
+}
+
+/**
+ * The error for a list of problems from the validator or the pick-table reader: a headline
+ * as the message, the first problem's path (the contract's single path), every problem in
+ * `problems`.
  */
 export function problemsError(code: 'invalid_survey' | 'invalid_pick_table', problems: Problem[]): AppError {
   const first = problems[0];
   if (first === undefined) return new AppError(code);
-  const more = problems.length - 1;
-  const message =
-    more === 0 ? first.message : `${first.message} ${more === 1 ? 'One more problem is' : `${more} more problems are`} listed in "problems".`;
-  return new AppError(code, { message, path: first.path, problems });
+  const subject = code === 'invalid_pick_table' ? 'The pick table' : 'The survey';
+  return new AppError(code, { message: problemsHeadline(subject, problems), path: first.path, problems });
 }
 
 /** JSON pointer for a schema-validation error (Ajv's instancePath is already one). */
@@ -105,8 +143,31 @@ function schemaErrorPath(error: FastifyError): string {
   return missing ? `${first.instancePath}/${missing}` : first.instancePath;
 }
 
+/** A size in words, as a file manager shows it (MB = 1024 × 1024 bytes), with the exact bytes. */
+function sizeInWords(bytes: number): string {
+  const exact = `${bytes.toLocaleString('en-GB')} bytes`;
+  if (bytes >= 1024 * 1024) return `${Number((bytes / (1024 * 1024)).toFixed(1))} MB (${exact})`;
+  if (bytes >= 1024) return `${Number((bytes / 1024).toFixed(1))} KB (${exact})`;
+  return exact;
+}
+
+/** The 413 answer: the limit, and the body's size when its Content-Length said it. */
+export function bodyTooLarge(limitBytes: number | undefined, sentBytes: number | undefined): AppError {
+  const sent = sentBytes !== undefined && Number.isFinite(sentBytes) && sentBytes > 0 ? `The body is ${sizeInWords(sentBytes)}; ` : 'The body is too large: ';
+  const limit = limitBytes !== undefined ? `this service takes at most ${sizeInWords(limitBytes)} per request.` : "it is over this service's limit per request.";
+  return new AppError('body_too_large', {
+    message: `${sent}${limit} Nothing was stored. Send the pick table or survey document of one line (up to ${SURVEY_LIMITS.maxGeophones} geophones and ${SURVEY_LIMITS.maxShots} shots), not a record of traces or a whole workbook.`,
+  });
+}
+
+function bodyTooLargeFor(request: FastifyRequest | undefined): AppError {
+  const limit = request?.routeOptions?.bodyLimit;
+  const length = Number(request?.headers['content-length']);
+  return bodyTooLarge(typeof limit === 'number' ? limit : undefined, Number.isFinite(length) ? length : undefined);
+}
+
 /** Maps any thrown value to a coded AppError; unknown failures become internal_error. */
-export function toAppError(error: unknown): { appError: AppError; unexpected: boolean } {
+export function toAppError(error: unknown, request?: FastifyRequest): { appError: AppError; unexpected: boolean } {
   if (error instanceof AppError) return { appError: error, unexpected: false };
   const fastifyError = error as Partial<FastifyError> | null;
   if (fastifyError?.validation) {
@@ -124,7 +185,7 @@ export function toAppError(error: unknown): { appError: AppError; unexpected: bo
   }
   switch (fastifyError?.code) {
     case 'FST_ERR_CTP_BODY_TOO_LARGE':
-      return { appError: new AppError('body_too_large'), unexpected: false };
+      return { appError: bodyTooLargeFor(request), unexpected: false };
     case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
       return { appError: new AppError('unsupported_content_type'), unexpected: false };
     case 'FST_ERR_CTP_EMPTY_JSON_BODY':
@@ -147,7 +208,7 @@ export function toAppError(error: unknown): { appError: AppError; unexpected: bo
   }
   const status = fastifyError?.statusCode;
   if (typeof status === 'number' && status === 413) {
-    return { appError: new AppError('body_too_large'), unexpected: false };
+    return { appError: bodyTooLargeFor(request), unexpected: false };
   }
   if (typeof status === 'number' && status >= 400 && status < 500) {
     // Fastify's other client errors (bad URL encoding, content-length mismatch, …):
@@ -159,7 +220,7 @@ export function toAppError(error: unknown): { appError: AppError; unexpected: bo
 
 /** Fastify error handler: every error leaves as the contract's coded body. */
 export function handleError(error: unknown, request: FastifyRequest, reply: FastifyReply): void {
-  const { appError, unexpected } = toAppError(error);
+  const { appError, unexpected } = toAppError(error, request);
   if (unexpected) request.log.error({ err: error }, 'unexpected error');
   else request.log.info({ code: appError.code, path: appError.path }, 'request rejected');
   if (appError.code === 'write_token_required' || appError.code === 'write_token_invalid') {

@@ -18,11 +18,33 @@ const closed = { additionalProperties: false } as const;
 
 export const ProblemSchema = Type.Object(
   {
-    path: Type.String({ description: 'JSON pointer of the offending value ("" for the whole body).' }),
+    path: Type.String({ description: 'JSON pointer of the offending value ("" for the whole body); in a pick table "/csv/line/<n>/<column>".' }),
     code: Type.String({ description: 'Stable kebab-case code.' }),
-    message: Type.String(),
+    message: Type.String({ description: 'The problem in words; in a pick table it starts with the line and column.' }),
+    line: Type.Optional(Type.Integer({ minimum: 1, description: 'Pick tables: the CSV line of the problem.' })),
+    column: Type.Optional(Type.Integer({ minimum: 1, description: 'Pick tables: the CSV column (1-based, as in the file).' })),
   },
   { ...closed, title: 'Problem' },
+);
+
+const SpreadSchema = {
+  geophones: Type.Integer({ description: 'Number of geophones.' }),
+  fromX: Type.Number({ description: 'x of the first geophone, m.' }),
+  toX: Type.Number({ description: 'x of the last geophone, m.' }),
+};
+
+/** The 409 `layout_changed` answer's detail: what a refused revision would change (server/revision-layout.ts). */
+export const LayoutChangeSchema = Type.Object(
+  {
+    stored: Type.Object({ ...SpreadSchema, revision: Type.Integer(), name: Type.String() }, closed),
+    sent: Type.Object(SpreadSchema, closed),
+    movedGeophones: Type.Union([Type.Integer(), Type.Null()], { description: 'Geophones at another x (same count only; null when the counts differ).' }),
+    firstMoved: Type.Union([Type.Object({ geophone: Type.Integer({ description: '1-based.' }), storedX: Type.Number(), sentX: Type.Number() }, closed), Type.Null()]),
+    largestShiftM: Type.Union([Type.Number(), Type.Null()], { description: 'Largest change of a geophone x, m (same count only).' }),
+    confirmWith: Type.String({ description: 'The query string that stores the revision anyway: "layoutChange=confirm".' }),
+    description: Type.String({ description: 'The change in words.' }),
+  },
+  { ...closed, title: 'LayoutChange' },
 );
 
 /** The contract's error body (api-v1.md): `problems` both inside `error` and beside it. */
@@ -34,6 +56,7 @@ export const ErrorBodySchema = Type.Object(
         message: Type.String({ description: 'What is wrong, for a field geophysicist.' }),
         path: Type.String({ description: 'JSON pointer of the offending value, e.g. "/shots/2/times/7".' }),
         problems: Type.Optional(Type.Array(ProblemSchema)),
+        layoutChange: Type.Optional(LayoutChangeSchema),
       },
       closed,
     ),
@@ -63,6 +86,13 @@ export const surveyBody = {
 export const revisionQuerySchema = Type.Object(
   { revision: Type.Optional(Type.Integer({ minimum: 1, description: 'A revision number; absent: the latest.' })) },
 );
+
+/** POST /api/v1/surveys/:id/revisions: `?layoutChange=confirm` says a new geophone layout is meant. */
+export const revisionWriteQuerySchema = Type.Object({
+  layoutChange: Type.Optional(
+    Type.Literal('confirm', { description: 'Store the revision even though its geophone layout differs from the stored line (otherwise 409 layout_changed).' }),
+  ),
+});
 
 const LinksSchema = Type.Object(
   { self: Type.String(), section: Type.String(), traveltimes: Type.String(), stations: Type.String(), interpretation: Type.String() },

@@ -20,10 +20,13 @@ function queryValidator(schema: TSchema): (data: unknown) => BodyCheck {
     const value = Value.Convert(schema, data);
     if (checker.Check(value)) return { value };
     const first = checker.Errors(value).First()!;
+    const constant = (first.schema as { const?: unknown }).const;
     const message =
       first.type === ValueErrorType.ObjectAdditionalProperties
         ? 'is not one this route takes'
-        : `must be ${String((first.schema as { type?: unknown }).type ?? 'valid')}${first.schema.minimum !== undefined ? ` of at least ${first.schema.minimum}` : ''}`;
+        : constant !== undefined
+          ? `must be "${String(constant)}" or absent`
+          : `must be ${String((first.schema as { type?: unknown }).type ?? 'valid')}${first.schema.minimum !== undefined ? ` of at least ${first.schema.minimum}` : ''}`;
     const error = Object.assign(new Error(message), { statusCode: 400, validation: [{ instancePath: first.path, message, params: {} }] });
     return { error };
   };

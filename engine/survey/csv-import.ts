@@ -13,8 +13,10 @@
  * quoting ("" inside quotes is one quote); lines end in LF or CRLF; a UTF-8 BOM is skipped.
  *
  * Geophones are the sorted distinct geophone_x_m values; shots keep the order in which they
- * first appear. The resulting survey then goes through validateSurvey, whose problems are
- * passed through unchanged.
+ * first appear. The resulting survey then goes through validateSurvey; its problems are
+ * placed back on the table (placeSurveyProblem): path "/csv/line/<n>/<column>", `line` and
+ * `column`, and the message led by "line n, column c (name): ", so a user of a pick table is
+ * told where in the file to look, never a JSON pointer into a document they did not write.
  */
 import { SURVEY_LIMITS } from './survey.js';
 import type { Geophone, Shot, Survey } from './survey.js';
@@ -186,16 +188,21 @@ export function importPickTable(csvText: string): PickTableImport {
       problems.push({ path: '/csv', code: 'too-many-problems', message: `Stopped after ${MAX_CSV_PROBLEMS} problems; fix these and import again to see the rest.` });
     }
     if (problems.length > MAX_CSV_PROBLEMS) return;
-    problems.push({ path: column ? `/csv/line/${line}/${column}` : `/csv/line/${line}`, code, message });
+    const problem: Problem = { path: column ? `/csv/line/${line}/${column}` : `/csv/line/${line}`, code, message, line };
+    if (column !== null && columnIndex !== null) problem.column = columnIndex[column] + 1;
+    problems.push(problem);
   };
 
   let name: string | undefined;
   let date: string | undefined;
+  let nameLine = 0;
+  let dateLine = 0;
   let columnIndex: Record<Column, number> | null = null;
   let dataRows = 0;
 
   // Geophones by x; shots by id in order of first appearance; picks by (shot, geophone x).
   const geophoneElevation = new Map<number, Seen>();
+  const geophoneFirstLine = new Map<number, number>();
   const shotOrder: string[] = [];
   const shotInfo = new Map<string, { x: Seen; elevation: Seen }>();
   const picks = new Map<string, Map<number, { timeMs: number | null; line: number }>>();
@@ -209,8 +216,13 @@ export function importPickTable(csvText: string): PickTableImport {
     if (content !== '' && !content.startsWith('#')) break;
     const m = /^#\s*(name|date)\s*:(.*)$/i.exec(content);
     if (m) {
-      if (m[1].toLowerCase() === 'name') name = m[2].trim();
-      else date = m[2].trim();
+      if (m[1].toLowerCase() === 'name') {
+        name = m[2].trim();
+        nameLine = startLine;
+      } else {
+        date = m[2].trim();
+        dateLine = startLine;
+      }
     }
     if (end >= text.length) {
       start = text.length;
@@ -289,6 +301,7 @@ export function importPickTable(csvText: string): PickTableImport {
           return fail();
         }
         geophoneElevation.set(geophoneX, { value: geophoneElev, line });
+        geophoneFirstLine.set(geophoneX, line);
       } else if (geophoneElev !== undefined) {
         if (g.value === undefined) {
           g.value = geophoneElev;
@@ -342,7 +355,7 @@ export function importPickTable(csvText: string): PickTableImport {
     }
   } catch (e) {
     if (e instanceof CsvError) {
-      problems.push({ path: `/csv/line/${e.line}`, code: e.code, message: e.message });
+      problems.push({ path: `/csv/line/${e.line}`, code: e.code, message: e.message, line: e.line });
       return fail();
     }
     throw e;
@@ -374,8 +387,78 @@ export function importPickTable(csvText: string): PickTableImport {
   if (name !== undefined) survey.name = name;
   if (date !== undefined) survey.date = date;
   const checked = validateSurvey(survey);
-  if (checked.survey === null) return { survey: null, problems: checked.problems };
+  if (checked.survey === null) {
+    const origin: PickTableOrigin = {
+      columnNumber: (c) => columnIndex![c] + 1,
+      nameLine,
+      dateLine,
+      geophoneXs,
+      geophoneLine: (x) => geophoneFirstLine.get(x) ?? 0,
+      geophoneElevationLine: (x) => geophoneElevation.get(x)?.line ?? geophoneFirstLine.get(x) ?? 0,
+      shotLine: (id) => shotInfo.get(id)?.x.line ?? 0,
+      shotElevationLine: (id) => shotInfo.get(id)?.elevation.line ?? 0,
+      pickLine: (id, x) => picks.get(id)?.get(x)?.line,
+      shotIds: shotOrder,
+    };
+    return { survey: null, problems: checked.problems.map((p) => placeSurveyProblem(p, origin)) };
+  }
   return { survey: checked.survey, problems: [] };
+}
+
+/** Where each part of the survey came from in the pick table (lines are 1-based; 0 = nowhere). */
+interface PickTableOrigin {
+  columnNumber: (column: Column) => number;
+  nameLine: number;
+  dateLine: number;
+  geophoneXs: number[];
+  geophoneLine: (x: number) => number;
+  geophoneElevationLine: (x: number) => number;
+  shotLine: (id: string) => number;
+  shotElevationLine: (id: string) => number;
+  pickLine: (id: string, x: number) => number | undefined;
+  shotIds: string[];
+}
+
+/**
+ * A problem validateSurvey found in the survey made from a pick table, placed on the line
+ * and column of the table it came from (a pick's row, the first row of a shot or geophone,
+ * the row that gave an elevation, the `# name:` line). Problems of the whole line
+ * (coverage, too few geophones) stay on "/csv" with their message unchanged. O(1).
+ */
+function placeSurveyProblem(problem: Problem, origin: PickTableOrigin): Problem {
+  const comment = /^\/(name|date)$/.exec(problem.path);
+  if (comment) {
+    const line = comment[1] === 'name' ? origin.nameLine : origin.dateLine;
+    if (line > 0) return { path: `/csv/line/${line}`, code: problem.code, message: `line ${line} (# ${comment[1]}:): ${problem.message}`, line };
+  }
+  const place = (line: number, column: Column): Problem => {
+    if (line <= 0) return { path: '/csv', code: problem.code, message: problem.message };
+    const number = origin.columnNumber(column);
+    return { path: `/csv/line/${line}/${column}`, code: problem.code, message: `line ${line}, column ${number} (${column}): ${problem.message}`, line, column: number };
+  };
+  const shot = /^\/shots\/(\d+)(?:\/([^/]+)(?:\/(\d+))?)?/.exec(problem.path);
+  if (shot) {
+    const id = origin.shotIds[Number(shot[1])];
+    if (id !== undefined) {
+      const field = shot[2];
+      if (field === 'times') {
+        const x = shot[3] === undefined ? undefined : origin.geophoneXs[Number(shot[3])];
+        return place((x === undefined ? undefined : origin.pickLine(id, x)) ?? origin.shotLine(id), 'time_ms');
+      }
+      if (field === 'x') return place(origin.shotLine(id), 'shot_x_m');
+      if (field === 'elevation') return place(origin.shotElevationLine(id), 'shot_elevation_m');
+      return place(origin.shotLine(id), 'shot_id');
+    }
+  }
+  const geophone = /^\/geophones\/(\d+)(?:\/([^/]+))?/.exec(problem.path);
+  if (geophone) {
+    const x = origin.geophoneXs[Number(geophone[1])];
+    if (x !== undefined) {
+      if (geophone[2] === 'elevation') return place(origin.geophoneElevationLine(x), 'geophone_elevation_m');
+      return place(origin.geophoneLine(x), 'geophone_x_m');
+    }
+  }
+  return { path: '/csv', code: problem.code, message: problem.message };
 }
 
 function readHeader(fields: string[], line: number, add: (line: number, column: Column | null, code: string, message: string) => void): Record<Column, number> | null {

@@ -12,6 +12,7 @@ import {
   errorResponses,
   fileResponse,
   revisionQuerySchema,
+  revisionWriteQuerySchema,
   RevisionCreatedSchema,
   ShareIssuedSchema,
   StoredSurveySchema,
@@ -21,6 +22,8 @@ import {
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { stationsCsv, downloadName } from '../stations-csv.js';
+import { LAYOUT_CHANGE_CONFIRM, layoutChange, layoutChangeMessage } from '../revision-layout.js';
+import type { Survey } from '../../engine/survey/survey.js';
 
 export interface SurveyRouteOptions {
   store: SurveyStore;
@@ -32,6 +35,9 @@ interface IdParams {
 }
 interface RevisionQuery {
   revision?: number;
+}
+interface RevisionWriteQuery {
+  layoutChange?: typeof LAYOUT_CHANGE_CONFIRM;
 }
 
 const tags = ['surveys'];
@@ -170,17 +176,38 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     },
   );
 
-  app.post<{ Params: IdParams }>(
+  /**
+   * Refuses (409 layout_changed) a revision whose geophones are not those of the line's
+   * latest revision, unless the request confirmed the change. Synchronous, so no other
+   * revision can land between this check and the store call that follows it.
+   */
+  const requireSameLayout = (id: string, survey: Survey, confirmed: boolean): void => {
+    if (confirmed) return;
+    const latest = fetchRevision(id).stored;
+    const change = layoutChange({ revision: latest.revision, name: latest.name, geophones: latest.survey.geophones }, survey.geophones);
+    if (change !== null) throw new AppError('layout_changed', { message: layoutChangeMessage(change), path: '/geophones', layoutChange: change });
+  };
+
+  app.post<{ Params: IdParams; Querystring: RevisionWriteQuery }>(
     '/api/v1/surveys/:id/revisions',
     {
       onRequest: guard,
-      ...surveyInput({ summary: 'Store a new revision of a line.', tags, response: { 201: RevisionCreatedSchema, ...errorResponses(400, 401, 404, 413) } }),
+      ...surveyInput({
+        summary: 'Store a new revision of the same line (same geophone layout, or ?layoutChange=confirm).',
+        tags,
+        querystring: revisionWriteQuerySchema,
+        response: { 201: RevisionCreatedSchema, ...errorResponses(400, 401, 404, 409, 413) },
+      }),
     },
     async (request, reply) => {
     const { id } = request.params;
     const summary = requireSurvey(store, id);
     const survey = surveyFromRequest(request);
+    const confirmed = request.query.layoutChange === LAYOUT_CHANGE_CONFIRM;
+    // Checked before the computation (answer at once) and again just before storing.
+    requireSameLayout(id, survey, confirmed);
     const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
+    requireSameLayout(id, survey, confirmed);
     const stored = store.addRevision(id, survey, interpretation);
     if (stored === null) throw new AppError('survey_not_found');
     reply.status(201).header('Location', `/api/v1/surveys/${id}?revision=${stored.revision}`);

@@ -22,7 +22,7 @@ import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import { SyntheticRequestSchema } from '../../engine/schemas/synthetic.js';
 import { errorResponses } from '../route-schemas.js';
 import { bodyDoorCompiler } from '../validators.js';
-import { AppError } from '../errors.js';
+import { AppError, problemsHeadline } from '../errors.js';
 import type { Problem } from '../../engine/survey/problem.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { validateSyntheticRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
@@ -88,12 +88,7 @@ export async function syntheticRoutes(app: FastifyInstance): Promise<void> {
   });
 }
 
-/** The contract's 400 for a list of problems: the first gives message and path, all go in `problems`. */
+/** The contract's 400 for a list of problems: a headline, the first problem's path, every problem in `problems`. */
 function requestProblems(problems: Problem[]): AppError {
-  const first = problems[0];
-  const more = problems.length - 1;
-  const message =
-    `The synthetic-line request has problems. ${first.message}` +
-    (more === 0 ? '' : ` ${more === 1 ? 'One more problem is' : `${more} more problems are`} listed in "problems".`);
-  return new AppError('invalid_request', { message, path: first.path, problems });
+  return new AppError('invalid_request', { message: problemsHeadline('The synthetic-line request', problems), path: problems[0].path, problems });
 }

@@ -264,17 +264,37 @@ describe('importPickTable rejects bad tables with line and column', () => {
   });
 });
 
-describe('importPickTable passes survey problems through', () => {
-  it('negative time keeps its survey path', () => {
+describe('importPickTable places survey problems on the line and column they came from', () => {
+  // The header is line 1, so GOOD_ROWS[k] is on line k + 2 (columns in HEADER order).
+  it('a negative time: the line of that pick, column 6 (time_ms), never a JSON pointer', () => {
     const rows = [...GOOD_ROWS];
     rows[1] = 'W-end,-1,10,2,10.1,-4.8';
-    expectProblem(table(rows), 'negative-time', '/shots/0/times/1');
+    const p = expectProblem(table(rows), 'negative-time', '/csv/line/3/time_ms');
+    expect(p.line).toBe(3);
+    expect(p.column).toBe(6);
+    expect(p.message.startsWith('line 3, column 6 (time_ms): ')).toBe(true);
+    expect(p.message).not.toMatch(/\/shots\//);
   });
-  it('a shot whose times are all blank', () => {
+  it('in the file\'s own column order', () => {
+    const header = 'time_ms,shot_id,shot_x_m,shot_elevation_m,geophone_x_m,geophone_elevation_m';
+    const rows = GOOD_ROWS.map((r) => {
+      const f = r.split(',');
+      return [f[5], ...f.slice(0, 5)].join(',');
+    });
+    rows[4] = '-4.9,E-end,5,10.2,2,10.1';
+    const p = expectProblem(table(rows, header), 'negative-time', '/csv/line/6/time_ms');
+    expect(p.column).toBe(1);
+  });
+  it('a shot whose times are all blank: its first row', () => {
     const rows = [...GOOD_ROWS, 'mid,2.5,,0,,', 'mid,2.5,,2,,'];
-    expectProblem(table(rows), 'shot-without-picks', '/shots/2/times');
+    const p = expectProblem(table(rows), 'shot-without-picks', '/csv/line/8/time_ms');
+    expect(p.message).toContain('line 8, column 6 (time_ms)');
   });
-  it('a one-geophone table', () => {
-    expectProblem(table(['W-end,-1,,0,,1.6', 'E-end,1,,0,,1.6']), 'too-few-geophones', '/geophones');
+  it('a too-long name: the # name line', () => {
+    const p = expectProblem(`# name: ${'N'.repeat(400)}\n${table(GOOD_ROWS)}`, 'name-too-long', '/csv/line/1');
+    expect(p.message.startsWith('line 1 (# name:): ')).toBe(true);
+  });
+  it('a one-geophone table: the whole table', () => {
+    expectProblem(table(['W-end,-1,,0,,1.6', 'E-end,1,,0,,1.6']), 'too-few-geophones', '/csv');
   });
 });

@@ -75,7 +75,8 @@ describe('bad bodies on POST /api/v1/interpretations', () => {
     expect(res.status).toBe(400);
     const error = expectCodedError(res.body, 'invalid_survey');
     expect(error.path).toBe('/shots/1/times');
-    expect(error.message).toMatch(/geophones/);
+    expect(error.message).toBe('The survey has 1 problem.');
+    expect(res.body.problems[0].message).toMatch(/geophones/);
   });
 
   it('lists every problem, not only the first', async () => {

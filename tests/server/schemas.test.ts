@@ -67,7 +67,7 @@ describe('bad bodies answer the contract’s 400, never a 500', () => {
     const { error } = res.json();
     expect(error.code).toBe('invalid_survey');
     expect(error.path).toBe('/shots/2/times/7');
-    expect(error.message).toMatch(/is "abc"; it must be a number of milliseconds, or null for no pick\./);
+    expect(error.problems[0].message).toMatch(/is "abc"; it must be a number of milliseconds, or null for no pick\./);
     expect(error.problems).toEqual([expect.objectContaining({ code: 'time-not-number', path: '/shots/2/times/7' })]);
   });
 

@@ -112,7 +112,8 @@ describe('POST /api/v1/synthetic', () => {
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('invalid_request');
     expect(res.body.error.path).toBe('/layout/spacing');
-    expect(res.body.error.message).toMatch(/spacing/);
+    expect(res.body.error.message).toBe('The synthetic-line request has 2 problems.');
+    expect(res.body.problems[0].message).toMatch(/spacing/);
     const paths = res.body.problems.map((p: { path: string }) => p.path);
     expect(paths).toEqual(expect.arrayContaining(['/layout/spacing', '/noiseMs']));
   });
