@@ -301,7 +301,9 @@ function drawSheet(job: SheetJob): string {
     verticalExaggeration: plan.verticalExaggeration,
     plot: { x0: plotX0, y0: plotY0, x1: plotX1, y1: plotY1 },
   };
-  const inWindow = (x: number) => x >= window.fromM - 1e-9 && x <= window.toM + 1e-9;
+  // Half-open windows: a geophone or shot on a match line belongs to the sheet after it.
+  const last = k === count - 1;
+  const inWindow = (x: number) => x >= window.fromM - 1e-9 && (last ? x <= window.toM + 1e-9 : x < window.toM - 1e-9);
   const stations = stationsAround(content.stations, window);
   const refractor = profileRuns(stations, (s) => s.x, (s) => s.refractorElevation);
   const refractor2 = content.hasSecond ? profileRuns(stations, (s) => s.x, secondElevation) : [];
@@ -362,7 +364,7 @@ function drawSheet(job: SheetJob): string {
   bottomAxis(svg, frame.x, { atMm: plotY1, title: 'chainage along the line (m)', maxTicks: Math.max(2, Math.floor((plotX1 - plotX0) / 24)), role: 'x' });
   leftAxis(svg, frame.elevation, { atMm: plotX0, title: 'elevation (m)', maxTicks: Math.max(2, Math.min(9, Math.floor((plotY1 - plotY0) / 9))), role: 'y', titleXMm: page.marginMm + 2.2 });
 
-  stationRows(svg, content.rows, { frame, geophoneXs: content.geophoneXs, interval, fromM: window.fromM, toM: window.toM, captionXMm: page.marginMm, topMm: layout.rowsTop });
+  stationRows(svg, content.rows, { frame, geophoneXs: content.geophoneXs, interval, fromM: window.fromM, toM: window.toM, lastSheet: last, captionXMm: page.marginMm, topMm: layout.rowsTop });
   scaleBars(svg, plan, layout.scaleTop, interval);
   legend(svg, layout.legendItems, page.marginMm, layout.legendTop + 2, page.widthMm - 2 * page.marginMm);
   cautionNote(svg, content.cautions, page.marginMm, layout.cautionTop, page.widthMm - 2 * page.marginMm);

@@ -104,19 +104,23 @@ export function sheetWindows(extent: SheetExtent, room: PlotRoom, n: number, max
     const centre = (start + end) / 2;
     return [{ fromM: centre - sheetM / 2, toM: centre + sheetM / 2 }];
   }
-  // Match lines at multiples of a round step (1, 2, 5 × 10ⁿ m, about a tenth of a sheet).
+  // As few sheets as the paper allows, of about equal length (no sliver of a last sheet),
+  // meeting at match lines on multiples of a round step (1, 2, 5 × 10ⁿ m, about a tenth of a
+  // sheet), or of a finer step where rounding would overfill a sheet.
+  const count = Math.ceil((end - start) / sheetM - 1e-9);
+  if (count > maxSheets) return null;
   const round = niceStep(sheetM, 10);
-  const windows: SheetWindow[] = [];
-  let from = start;
-  while (from + sheetM < end) {
-    let to = Math.floor((from + sheetM) / round) * round;
-    if (to <= from + sheetM / 2) to = from + sheetM;
-    windows.push({ fromM: from, toM: to });
-    if (windows.length >= maxSheets) return null;
-    from = to;
+  for (const step of [round, round / 2, round / 5, round / 10, 0]) {
+    const matches = [start];
+    for (let k = 1; k < count; k++) {
+      const even = start + ((end - start) * k) / count;
+      matches.push(step > 0 ? Math.round(even / step) * step : even);
+    }
+    matches.push(end);
+    const fits = matches.every((m, k) => k === 0 || (m > matches[k - 1] && m - matches[k - 1] <= sheetM + 1e-9));
+    if (fits) return matches.slice(1).map((to, k) => ({ fromM: matches[k], toM: to }));
   }
-  windows.push({ fromM: from, toM: end });
-  return windows;
+  return null;
 }
 
 export function planSheets(extent: SheetExtent, room: PlotRoom, options: ResolvedSheetOptions): { plan: SheetPlan } | { problems: SheetOptionProblem[] } {
@@ -144,31 +148,29 @@ export function planSheets(extent: SheetExtent, room: PlotRoom, options: Resolve
     ve = fits.length > 0 ? fits[fits.length - 1] : 1;
   }
   const needMm = verticalNeedMm(extent, mmPerM * ve);
+  const problems: SheetOptionProblem[] = [];
   if (needMm > room.heightMm + 1e-9) {
     const field = fixedVe !== null ? 'verticalExaggeration' : 'scale';
-    return {
-      problems: [
+    problems.push(
         {
           field,
           message:
             `at 1:${groupThousands(n)} with vertical exaggeration ${fixed(ve, ve % 1 === 0 ? 0 : 1)}:1 the section (${fixed(depthRangeM, 1)} m from the highest ground to the deepest line drawn) needs ${fixed(needMm, 0)} mm of height, and the ${paper} sheet has ${fixed(room.heightMm, 0)} mm: ` +
             `choose a smaller scale (a larger n), a smaller exaggeration${paper === 'A4' ? ' or A3 paper' : ''}`,
         },
-      ],
-    };
+    );
   }
   const windows = sheetWindows(shown, room, n, SHEET_LIMITS.maxSheets);
   if (windows === null) {
     const needed = Math.ceil(lineSpanMm(shown, n) / room.widthMm);
-    return {
-      problems: [
+    problems.push(
         {
           field: 'scale',
           message: `at 1:${groupThousands(n)} the line (${fixed(shown.toM - shown.fromM, 0)} m) needs about ${needed} ${paper} sheets, more than the ${SHEET_LIMITS.maxSheets} allowed: choose a smaller scale (a larger n)${paper === 'A4' ? ' or A3 paper' : ''}`,
         },
-      ],
-    };
+    );
   }
+  if (problems.length > 0 || windows === null) return { problems };
   const verticalMmPerM = mmPerM * ve;
   return {
     plan: { paper, scale: n, verticalExaggeration: ve, mmPerM, verticalMmPerM, topElevationM: extent.topM + SHEET_HEADROOM_MM / verticalMmPerM, windows },

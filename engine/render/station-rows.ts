@@ -76,6 +76,8 @@ export interface RowsPlacement {
   /** Chainage shown on this sheet. */
   fromM: number;
   toM: number;
+  /** A label on the match line at toM belongs to the next sheet, except on the last sheet. */
+  lastSheet: boolean;
   captionXMm: number;
   topMm: number;
 }
@@ -91,7 +93,7 @@ export function stationRows(parent: Container, rows: readonly StationRow[], at: 
     if (row.kind === 'labels') {
       for (let i = 0; i < at.geophoneXs.length; i += at.interval) {
         const x = at.geophoneXs[i];
-        if (x < at.fromM || x > at.toM) continue;
+        if (x < at.fromM - 1e-9 || (at.lastSheet ? x > at.toM + 1e-9 : x >= at.toM - 1e-9)) continue;
         addText(one, row.texts[i], frame.x(x), baseline, { sizeMm: ROW_TEXT_MM, anchor: 'middle', role: `${row.role}-label` }).attr({ 'data-index': i, 'data-x': x });
       }
     } else {
