@@ -380,7 +380,7 @@ function matchLines(svg: Svg, features: G, frame: SectionFrame, plan: SheetPlan,
   if (k < count - 1) edges.push({ xMm: frame.plot.x1, chainageM: plan.windows[k].toM, other: k + 2, side: 'right' });
   for (const edge of edges) {
     const group = svg.group().attr({ 'data-role': 'match-line', 'data-x': round3(edge.chainageM), 'data-sheet': edge.other });
-    group.line(round3(edge.xMm), round3(frame.plot.y0), round3(edge.xMm), round3(layout.rowsTop + ROW_MM * 0.2)).attr({ stroke: INK.text, 'stroke-width': 0.5, 'stroke-dasharray': MATCH_LINE_DASH });
+    group.line(round3(edge.xMm), round3(frame.plot.y0 - 2), round3(edge.xMm), round3(frame.plot.y1)).attr({ stroke: INK.text, 'stroke-width': 0.5, 'stroke-dasharray': MATCH_LINE_DASH });
     const text = edge.side === 'right' ? `match line ${chainage(edge.chainageM)} · continued on sheet ${edge.other}` : `match line ${chainage(edge.chainageM)} · continued from sheet ${edge.other}`;
     const y = frame.plot.y1 - 2;
     const x = edge.side === 'right' ? edge.xMm - 1.2 : edge.xMm + 1.2;

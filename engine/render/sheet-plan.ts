@@ -126,18 +126,12 @@ export function sheetWindows(extent: SheetExtent, room: PlotRoom, n: number, max
 export function planSheets(extent: SheetExtent, room: PlotRoom, options: ResolvedSheetOptions): { plan: SheetPlan } | { problems: SheetOptionProblem[] } {
   const paper = options.paper;
   const fixedVe = options.verticalExaggeration === 'auto' ? null : options.verticalExaggeration;
-  // Shots off the ends are drawn in place when that costs no scale step (or no extra sheet),
-  // else the sheets show the spread and such shots are marked at the sheet's edge.
+  // Shots off the ends are drawn in place when that costs no extra sheet, else the sheets
+  // show the spread and such shots are named at the sheet's edge.
   const spread: SheetExtent = { ...extent, fromM: extent.spreadFromM, toM: extent.spreadToM };
-  let n: number;
-  let shown: SheetExtent;
-  if (options.scale === 'auto') {
-    n = chooseScale(spread, room, fixedVe ?? 1);
-    shown = chooseScale(extent, room, fixedVe ?? 1) === n ? extent : spread;
-  } else {
-    n = options.scale;
-    shown = lineSpanMm(extent, n) <= room.widthMm || lineSpanMm(spread, n) > room.widthMm ? extent : spread;
-  }
+  const n = options.scale === 'auto' ? chooseScale(spread, room, fixedVe ?? 1) : options.scale;
+  const sheetsFor = (e: SheetExtent) => Math.ceil(lineSpanMm(e, n) / room.widthMm - 1e-9);
+  const shown = sheetsFor(extent) <= sheetsFor(spread) ? extent : spread;
   const mmPerM = 1000 / n;
   const depthRangeM = Math.max(0.5, extent.topM - extent.bottomM);
   let ve: number;
