@@ -129,7 +129,11 @@ export function planSheets(extent: SheetExtent, room: PlotRoom, options: Resolve
   // Shots off the ends are drawn in place when that costs no extra sheet, else the sheets
   // show the spread and such shots are named at the sheet's edge.
   const spread: SheetExtent = { ...extent, fromM: extent.spreadFromM, toM: extent.spreadToM };
-  const n = options.scale === 'auto' ? chooseScale(spread, room, fixedVe ?? 1) : options.scale;
+  let n = options.scale === 'auto' ? chooseScale(spread, room, fixedVe ?? 1) : options.scale;
+  if (options.scale === 'auto') {
+    // "auto" never refuses a line: past the sheet cap it takes the next smaller series scale.
+    while (sheetWindows(spread, room, n, SHEET_LIMITS.maxSheets) === null && n < ISO_SCALES[ISO_SCALES.length - 1]) n = ISO_SCALES.find((m) => m > n) ?? n;
+  }
   const sheetsFor = (e: SheetExtent) => Math.ceil(lineSpanMm(e, n) / room.widthMm - 1e-9);
   const shown = sheetsFor(extent) <= sheetsFor(spread) ? extent : spread;
   const mmPerM = 1000 / n;

@@ -189,6 +189,17 @@ describe('renderSectionSheets: long lines', () => {
     }
   });
 
+  it(`"auto" never refuses a line: past ${SHEET_LIMITS.maxSheets} sheets it takes a smaller scale`, () => {
+    // 300 geophones 0.5 m apart, then 100 at 500 m (an invented, awkward layout): the median
+    // spacing asks for 1:250, at which 50 km would need about 850 A4 sheets.
+    const { survey, interpretation } = renderFixture();
+    const xs = [...Array.from({ length: 300 }, (_, i) => i * 0.5), ...Array.from({ length: 100 }, (_, i) => 150 + (i + 1) * 500)];
+    const wide = { ...survey, geophones: xs.map((x) => ({ x, elevation: 40 })), shots: survey.shots.map((s) => ({ ...s, times: xs.map(() => null) })) };
+    const sheets = renderSectionSheets(wide, { ...interpretation, stations: [] });
+    expect(sheets.length).toBeGreaterThan(0);
+    expect(sheets.length).toBeLessThanOrEqual(SHEET_LIMITS.maxSheets);
+  });
+
   it('refuses an exaggeration the sheet cannot hold, naming it and the height needed', () => {
     try {
       renderSectionSheets(LINE_10_SHOTS.survey, LINE_10_SHOTS.interpretation, { scale: 200, verticalExaggeration: 50 });
