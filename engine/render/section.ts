@@ -48,6 +48,8 @@ export type SectionOptions = SectionSheetOptions;
 const PLOT_LEFT_MM = 32;
 /** Below the plot: the chainage axis's ticks, numbers and title, mm. */
 const AXIS_ZONE_MM = 10;
+/** Room a shot's star and name need either side of it, mm. */
+const SHOT_CLEAR_MM = 5;
 /** Below the rows: the scale bars and the stated scale, mm. */
 const SCALE_ZONE_MM = 10;
 
@@ -148,7 +150,14 @@ function sectionContent(survey: Survey, interpretation: Interpretation, options:
   if (hasSecond) rows.push({ kind: 'labels', caption: 'depth 2 (m)', role: 'depth-2-row', texts: depth2Texts });
   needs.depthMarks = [...depthTexts, ...depth2Texts].some((t) => /^[(~–]/.test(t));
   const segments = interpretation.refractorVelocity ?? [];
-  if (segments.length > 0) rows.push({ kind: 'bars', caption: hasSecond ? 'V refractor 1' : 'V refractor', role: 'refractor-velocity', segments, colour: ROW_COLOURS.first });
+  const layer2 = interpretation.layers?.[1]?.velocity;
+  if (segments.length > 0) {
+    rows.push({ kind: 'bars', caption: hasSecond ? 'V refractor 1' : 'V refractor', role: 'refractor-velocity', segments, colour: ROW_COLOURS.first });
+  } else if (typeof layer2 === 'number' && Number.isFinite(layer2)) {
+    // No velocity along the line: the layer's one mean velocity over the covered stretches.
+    const spans = refractor.filter((run) => run.length >= 2).map((run) => ({ from: run[0].x, to: run[run.length - 1].x, velocity: layer2 }));
+    rows.push({ kind: 'bars', caption: hasSecond ? 'V refractor 1 (mean)' : 'V refractor (mean)', role: 'refractor-velocity', segments: spans, colour: ROW_COLOURS.first });
+  }
   const layer3 = interpretation.layers?.[2]?.velocity;
   if (hasSecond && typeof layer3 === 'number' && Number.isFinite(layer3)) {
     const spans = refractor2.filter((run) => run.length >= 2).map((run) => ({ from: run[0].x, to: run[run.length - 1].x, velocity: layer3 }));
@@ -331,10 +340,15 @@ function drawSheet(job: SheetJob): string {
   groundLine(plot, content.ground, frame);
   const geophones = content.geophones.filter((g) => inWindow(g.x));
   geophoneMarkers(svg, geophones, frame);
-  const shots = content.shots.filter((s) => inWindow(s.x));
+  // A shot whose star and name would hang over the outer edge of the first or last sheet is
+  // named at that edge instead.
+  const clearM = SHOT_CLEAR_MM / plan.mmPerM;
+  const beforeSheet = (x: number) => k === 0 && x < window.fromM + clearM;
+  const afterSheet = (x: number) => last && x > window.toM - clearM;
+  const shots = content.shots.filter((s) => inWindow(s.x) && !beforeSheet(s.x) && !afterSheet(s.x));
   shotMarkers(svg, shots, frame);
-  offSheetShots(svg, content.shots.filter((s) => !inWindow(s.x) && (k === 0 ? s.x < window.fromM : false)), frame, 'left');
-  offSheetShots(svg, content.shots.filter((s) => !inWindow(s.x) && (k === plan.windows.length - 1 ? s.x > window.toM : false)), frame, 'right');
+  offSheetShots(svg, content.shots.filter((s) => beforeSheet(s.x)), frame, 'left');
+  offSheetShots(svg, content.shots.filter((s) => afterSheet(s.x)), frame, 'right');
 
   const placer = new LabelPlacer();
   for (const s of shots) placer.reserve({ x0: frame.x(s.x) - 4, y0: frame.elevation(s.elevation) - 12, x1: frame.x(s.x) + 4, y1: frame.elevation(s.elevation) });

@@ -263,6 +263,15 @@ describe('renderSectionSheets: honest drawing', () => {
     for (const el of [...byRole(first, 'velocity-label'), ...byRole(second, 'velocity-label')]) expect(Number(el.getAttribute('y'))).toBeGreaterThan(plotBottom);
   });
 
+  it('without velocity segments, writes the refractor layer\'s mean velocity in the row, marked "(mean)"', () => {
+    const { survey, interpretation } = renderFixture({ refractorVelocity: [] });
+    interpretation.refractorVelocity = [];
+    const row = byRole(parseSvg(renderSection(survey, interpretation)), 'refractor-velocity')[0];
+    expect(textOf(byRole(row, 'row-caption')[0])).toBe('V refractor (mean)');
+    const v = Math.round(interpretation.layers[1].velocity / 10) * 10;
+    expect(byRole(row, 'velocity-label').map(textOf)).toEqual([`${v.toLocaleString('en-GB')} m/s`]);
+  });
+
   it('summarises every warning in words in the title block, never as a bare count', () => {
     const { survey, interpretation } = renderFixture({ uncovered: [9, 10] });
     interpretation.qc.warnings.push({ code: 'hidden-layer', message: 'A hidden layer could be present.', x: 12 }, { code: 'some-new-check', message: 'Something new was found. More words follow.' });
