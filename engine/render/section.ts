@@ -346,7 +346,7 @@ function drawSheet(job: SheetJob): string {
   const beforeSheet = (x: number) => k === 0 && x < window.fromM + clearM;
   const afterSheet = (x: number) => last && x > window.toM - clearM;
   const shots = content.shots.filter((s) => inWindow(s.x) && !beforeSheet(s.x) && !afterSheet(s.x));
-  shotMarkers(svg, shots, frame);
+  shotMarkers(svg, shots, frame, { x0: plotX0, x1: plotX1 });
   offSheetShots(svg, content.shots.filter((s) => beforeSheet(s.x)), frame, 'left');
   offSheetShots(svg, content.shots.filter((s) => afterSheet(s.x)), frame, 'right');
 
