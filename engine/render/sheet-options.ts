@@ -123,7 +123,11 @@ function describe(raw: unknown): string {
 
 /**
  * Parses options given as JSON values or as query strings ("A3", "1:500", "5:1", "false").
- * Absent (undefined or empty-string) fields take the defaults.
+ * Absent (undefined or empty-string) fields take the defaults. Any other field is a problem
+ * (a misspelt option is never ignored), so a route passes only these four fields, not its
+ * other query parameters (e.g. `revision`). Options that depend on the line (a section too
+ * tall for the sheet, too many sheets) are found by renderSectionSheets, which throws
+ * SectionSheetError with problems of the same shape: both are 400 answers.
  */
 export function parseSectionSheetOptions(raw: unknown): { options: ResolvedSheetOptions; problems: SheetOptionProblem[] } {
   const options: ResolvedSheetOptions = { ...SECTION_SHEET_DEFAULTS };
