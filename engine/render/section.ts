@@ -77,6 +77,16 @@ interface SectionContent {
  * cannot draw: a bad value, a height that does not fit the paper, too many sheets.
  */
 export function renderSectionSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions = {}): string[] {
+  return drawSheets(survey, interpretation, options, null);
+}
+
+/** The first sheet of the depth section (the whole section when the line fits one sheet); only that sheet is drawn. */
+export function renderSection(survey: Survey, interpretation: Interpretation, options: SectionOptions = {}): string {
+  return drawSheets(survey, interpretation, options, 0)[0];
+}
+
+/** Plans the sheets and draws all of them, or only sheet `only`. */
+function drawSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions, only: number | null): string[] {
   const parsed = parseSectionSheetOptions(options);
   if (parsed.problems.length > 0) throw new SectionSheetError(parsed.problems);
   const resolved = parsed.options;
@@ -94,12 +104,8 @@ export function renderSectionSheets(survey: Survey, interpretation: Interpretati
   const plan = planned.plan;
   const texts = content.rows.flatMap((r) => (r.kind === 'labels' ? r.texts : []));
   const interval = labelInterval(content.geophoneXs, plan.mmPerM, widestRowLabelMm(texts));
-  return plan.windows.map((window, k) => drawSheet({ survey, interpretation, content, plan, layout, page, window, k, interval, options: resolved }));
-}
-
-/** The first sheet of the depth section (the whole section when the line fits one sheet). */
-export function renderSection(survey: Survey, interpretation: Interpretation, options: SectionOptions = {}): string {
-  return renderSectionSheets(survey, interpretation, options)[0];
+  const draw = (window: SheetWindow, k: number) => drawSheet({ survey, interpretation, content, plan, layout, page, window, k, interval });
+  return only === null ? plan.windows.map(draw) : [draw(plan.windows[only], only)];
 }
 
 function sectionContent(survey: Survey, interpretation: Interpretation, options: ResolvedSheetOptions): SectionContent {
@@ -275,7 +281,6 @@ interface SheetJob {
   window: SheetWindow;
   k: number;
   interval: number;
-  options: ResolvedSheetOptions;
 }
 
 function chainage(x: number): string {
@@ -292,7 +297,7 @@ function stationsAround(stations: readonly Station[], window: SheetWindow): Stat
 }
 
 function drawSheet(job: SheetJob): string {
-  const { survey, interpretation, content, plan, layout, page, window, k, interval, options } = job;
+  const { survey, interpretation, content, plan, layout, page, window, k, interval } = job;
   const count = plan.windows.length;
   const sheetWords = count > 1 ? `sheet ${k + 1} of ${count}` : null;
   const canvas = createCanvas(`Depth section — ${content.name}${sheetWords ? ` — ${sheetWords}` : ''}`, page);
@@ -382,7 +387,6 @@ function drawSheet(job: SheetJob): string {
   scaleBars(svg, plan, layout.scaleTop, interval);
   legend(svg, layout.legendItems, page.marginMm, layout.legendTop + 2, page.widthMm - 2 * page.marginMm);
   cautionNote(svg, content.cautions, page.marginMm, layout.cautionTop, page.widthMm - 2 * page.marginMm);
-  void options;
   return canvas.serialize();
 }
 
