@@ -50,7 +50,7 @@ export function bottomAxis(parent: Container, scale: LinearScale, options: AxisO
       group.line(x, y, x, round3(options.gridToMm)).attr({ stroke: INK.grid, 'stroke-width': 0.2, 'data-role': `${options.role}-grid` });
     }
     group.line(x, y, x, round3(y + TICK_MM)).attr({ stroke: INK.frame, 'stroke-width': 0.3, 'data-role': `${options.role}-tick`, 'data-value': value });
-    addText(group, formatTick(value, step), x, y + TICK_MM + TEXT_MM.tick * 1.05, { sizeMm: TEXT_MM.tick, anchor: 'middle', fill: INK.text });
+    addText(group, formatTick(value, step), x, y + TICK_MM + TEXT_MM.tick * 1.05, { sizeMm: TEXT_MM.tick, anchor: 'middle', fill: INK.text, role: `${options.role}-tick-label` });
   }
   addText(group, options.title, (r0 + r1) / 2, y + TICK_MM + TEXT_MM.tick * 1.05 + TEXT_MM.label * 1.35, {
     sizeMm: TEXT_MM.label,
@@ -72,7 +72,7 @@ export function leftAxis(parent: Container, scale: LinearScale, options: AxisOpt
       group.line(x, y, round3(options.gridToMm), y).attr({ stroke: INK.grid, 'stroke-width': 0.2, 'data-role': `${options.role}-grid` });
     }
     group.line(round3(x - TICK_MM), y, x, y).attr({ stroke: INK.frame, 'stroke-width': 0.3, 'data-role': `${options.role}-tick`, 'data-value': value });
-    addText(group, formatTick(value, step), x - TICK_MM - 0.8, y + TEXT_MM.tick * 0.35, { sizeMm: TEXT_MM.tick, anchor: 'end' });
+    addText(group, formatTick(value, step), x - TICK_MM - 0.8, y + TEXT_MM.tick * 0.35, { sizeMm: TEXT_MM.tick, anchor: 'end', role: `${options.role}-tick-label` });
   }
   addText(group, options.title, options.titleXMm, (r0 + r1) / 2, {
     sizeMm: TEXT_MM.label,

@@ -9,6 +9,24 @@ export const PAGE = {
   marginMm: 6,
 } as const;
 
+/** A drawing area: width and height inside the printer margins, and the white border inside it, mm. */
+export interface PageSize {
+  readonly widthMm: number;
+  readonly heightMm: number;
+  readonly marginMm: number;
+}
+
+export type PaperName = 'A4' | 'A3';
+
+/**
+ * Sheets of the depth section, landscape. ISO 216 sizes (A4 297 × 210 mm, A3 420 × 297 mm)
+ * less 10 mm printer margins on every side, as PAGE is for A4; 1 user unit = 1 mm on paper.
+ */
+export const PAPER: Readonly<Record<PaperName, PageSize>> = {
+  A4: PAGE,
+  A3: { widthMm: 400, heightMm: 277, marginMm: 6 },
+};
+
 /** A generic sans-serif stack; nothing to download. */
 export const FONT_FAMILY = "Helvetica, Arial, 'Liberation Sans', sans-serif";
 

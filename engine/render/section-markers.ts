@@ -48,7 +48,8 @@ export interface ShotPlacement {
 }
 
 /** Stars above the ground with a short leader down to the shot point, names in rows. */
-export function shotMarkers(parent: Container, shots: readonly ShotPlacement[], frame: SectionFrame): void {
+/** Names are kept inside `labelBounds` (x, mm) when given: a shot near a sheet's edge keeps its name on the sheet. */
+export function shotMarkers(parent: Container, shots: readonly ShotPlacement[], frame: SectionFrame, labelBounds?: { x0: number; x1: number }): void {
   const group = parent.group().attr('data-role', 'shots');
   const rowsEnd: number[] = [];
   const order = shots.map((s, i) => ({ s, i })).sort((a, b) => a.s.x - b.s.x || a.i - b.i);
@@ -60,10 +61,11 @@ export function shotMarkers(parent: Container, shots: readonly ShotPlacement[], 
     one.line(round3(cx), round3(starY), round3(cx), round3(groundY)).attr({ stroke: SECTION_COLOURS.shot, 'stroke-width': 0.3 });
     marker(one, 'star', cx, starY, SHOT_MM, { colour: SECTION_COLOURS.shot, strokeMm: 0.15 });
     const width = textWidthMm(s.id, TEXT_MM.label);
+    const lx = labelBounds ? Math.min(Math.max(cx, labelBounds.x0 + width / 2 + 0.5), labelBounds.x1 - width / 2 - 0.5) : cx;
     let row = 0;
-    while (row < rowsEnd.length && rowsEnd[row] > cx - width / 2 - 1) row++;
-    rowsEnd[row] = cx + width / 2;
+    while (row < rowsEnd.length && rowsEnd[row] > lx - width / 2 - 1) row++;
+    rowsEnd[row] = lx + width / 2;
     const labelY = starY - SHOT_MM / 2 - 1 - row * TEXT_MM.label * 1.15;
-    addText(one, s.id, cx, labelY, { sizeMm: TEXT_MM.label, anchor: 'middle', halo: true, role: 'shot-label' });
+    addText(one, s.id, lx, labelY, { sizeMm: TEXT_MM.label, anchor: 'middle', halo: true, role: 'shot-label' });
   }
 }

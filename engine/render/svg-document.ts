@@ -6,7 +6,7 @@
  */
 import { createSVGWindow } from 'svgdom';
 import { SVG, registerWindow, type Svg } from '@svgdotjs/svg.js';
-import { FONT_FAMILY, PAGE } from './page.js';
+import { FONT_FAMILY, PAGE, type PageSize } from './page.js';
 import { INK } from './palette.js';
 
 export interface Canvas {
@@ -15,15 +15,15 @@ export interface Canvas {
   serialize(): string;
 }
 
-export function createCanvas(title: string): Canvas {
+export function createCanvas(title: string, page: PageSize = PAGE): Canvas {
   const window = createSVGWindow();
   const document = window.document;
   registerWindow(window, document);
   const svg = SVG(document.documentElement) as Svg;
   svg.attr({
-    width: `${PAGE.widthMm}mm`,
-    height: `${PAGE.heightMm}mm`,
-    viewBox: `0 0 ${PAGE.widthMm} ${PAGE.heightMm}`,
+    width: `${page.widthMm}mm`,
+    height: `${page.heightMm}mm`,
+    viewBox: `0 0 ${page.widthMm} ${page.heightMm}`,
     'font-family': FONT_FAMILY,
     fill: INK.text,
   });
@@ -31,7 +31,7 @@ export function createCanvas(title: string): Canvas {
   const titleElement = document.createElementNS('http://www.w3.org/2000/svg', 'title');
   titleElement.appendChild(document.createTextNode(title));
   svg.node.appendChild(titleElement);
-  svg.rect(PAGE.widthMm, PAGE.heightMm).attr({ x: 0, y: 0, fill: '#ffffff', 'data-role': 'page' });
+  svg.rect(page.widthMm, page.heightMm).attr({ x: 0, y: 0, fill: '#ffffff', 'data-role': 'page' });
   return {
     svg,
     serialize() {

@@ -8,7 +8,7 @@ import type { Container } from '@svgdotjs/svg.js';
 import type { Interpretation } from '../output/interpretation.js';
 import { fixed } from './format.js';
 import { INK } from './palette.js';
-import { PAGE, TEXT_MM, textWidthMm } from './page.js';
+import { PAGE, TEXT_MM, textWidthMm, type PageSize } from './page.js';
 import { addText } from './text.js';
 
 export interface TitleBlockContent {
@@ -18,6 +18,24 @@ export interface TitleBlockContent {
   dateLine?: string;
   /** Right-hand notes, one per line; `alert` lines are bold in the alert colour. */
   notes: { text: string; role?: string; alert?: boolean }[];
+  /**
+   * Lines of running text under the date on the left (the section's warnings in words),
+   * already wrapped to `titleLeftWidthMm`; set at REMARK_MM.
+   */
+  remarks?: { text: string; role: string }[];
+  /** The drawing area (default PAGE, A4 landscape). */
+  page?: PageSize;
+}
+
+/** Size of the remark lines, mm (above the 2 mm floor of the smallest type). */
+export const REMARK_MM = 2.6;
+const REMARK_LEAD = 1.3;
+
+/** Width left of the notes column, mm: where the title, particulars and remarks go. */
+export function titleLeftWidthMm(content: Pick<TitleBlockContent, 'notes' | 'page'>): number {
+  const page = content.page ?? PAGE;
+  const noteWidth = Math.max(0, ...content.notes.map((n) => textWidthMm(n.text, TEXT_MM.subtitle)));
+  return page.widthMm - 2 * page.marginMm - noteWidth - 6;
 }
 
 /** Fits text to a width: the size it is set at and the (possibly shortened) text. */
@@ -30,23 +48,25 @@ export function fitText(text: string, widthMm: number, sizeMm: number, minSizeMm
 }
 
 /** Where the rule under the block will sit, mm: depends only on the number of lines, not their text. */
-export function titleBlockBottomMm(content: { dateLine?: string; notes: unknown[] }): number {
+export function titleBlockBottomMm(content: { dateLine?: string; notes: unknown[]; remarks?: unknown[]; page?: PageSize }): number {
+  const page = content.page ?? PAGE;
   const hasDate = typeof content.dateLine === 'string' && content.dateLine.trim().length > 0;
-  const leftBottom = PAGE.marginMm + TEXT_MM.title + TEXT_MM.subtitle * 1.6 + (hasDate ? TEXT_MM.subtitle * 1.35 : 0);
-  const notesBottom = PAGE.marginMm + TEXT_MM.subtitle + (content.notes.length - 1) * TEXT_MM.subtitle * 1.4;
+  const remarks = content.remarks?.length ?? 0;
+  const leftBottom = page.marginMm + TEXT_MM.title + TEXT_MM.subtitle * 1.6 + (hasDate ? TEXT_MM.subtitle * 1.35 : 0) + (remarks > 0 ? REMARK_MM * 0.4 + remarks * REMARK_MM * REMARK_LEAD : 0);
+  const notesBottom = page.marginMm + TEXT_MM.subtitle + (content.notes.length - 1) * TEXT_MM.subtitle * 1.4;
   return Math.max(leftBottom, notesBottom) + 2.4;
 }
 
 /** Draws the block; returns the y (mm) of the rule under it. */
 export function titleBlock(parent: Container, content: TitleBlockContent): number {
   const group = parent.group().attr('data-role', 'title-block');
-  const left = PAGE.marginMm;
-  const right = PAGE.widthMm - PAGE.marginMm;
+  const page = content.page ?? PAGE;
+  const left = page.marginMm;
+  const right = page.widthMm - page.marginMm;
   const noteLead = TEXT_MM.subtitle * 1.4;
-  const noteWidth = Math.max(0, ...content.notes.map((n) => textWidthMm(n.text, TEXT_MM.subtitle)));
-  const room = right - left - noteWidth - 6;
+  const room = titleLeftWidthMm(content);
   const title = fitText(content.title, room, TEXT_MM.title, 3.6);
-  let y = PAGE.marginMm + TEXT_MM.title;
+  let y = page.marginMm + TEXT_MM.title;
   addText(group, title.text, left, y, { sizeMm: title.sizeMm, weight: 'bold', role: 'title' });
   const subtitle = fitText(content.subtitle, room, TEXT_MM.subtitle, 2.6);
   y += TEXT_MM.subtitle * 1.6;
@@ -56,8 +76,15 @@ export function titleBlock(parent: Container, content: TitleBlockContent): numbe
     y += TEXT_MM.subtitle * 1.35;
     addText(group, date.text, left, y, { sizeMm: date.sizeMm, fill: INK.muted, role: 'date' });
   }
+  if (content.remarks && content.remarks.length > 0) {
+    y += REMARK_MM * 0.4;
+    for (const remark of content.remarks) {
+      y += REMARK_MM * REMARK_LEAD;
+      addText(group, remark.text, left, y, { sizeMm: REMARK_MM, fill: INK.text, role: remark.role });
+    }
+  }
   content.notes.forEach((note, i) => {
-    addText(group, note.text, right, PAGE.marginMm + TEXT_MM.subtitle + i * noteLead, {
+    addText(group, note.text, right, page.marginMm + TEXT_MM.subtitle + i * noteLead, {
       sizeMm: TEXT_MM.subtitle,
       anchor: 'end',
       role: note.role,

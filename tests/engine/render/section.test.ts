@@ -72,13 +72,24 @@ describe('renderSection', () => {
     expect(markers.map((m) => Number(m.getAttribute('data-x')))).toEqual(survey.geophones.map((g) => g.x));
   });
 
-  it('draws one shot marker per shot, labelled with its id', () => {
+  it('shows every shot once: a marker labelled with its id on the sheet, or its name and chainage at the sheet edge', () => {
     const { survey, interpretation } = renderFixture();
     const root = parseSvg(renderSection(survey, interpretation));
     const shots = byRole(root, 'shot');
-    expect(shots).toHaveLength(survey.shots.length);
-    expect(shots.map((s) => s.getAttribute('data-shot')).sort()).toEqual(survey.shots.map((s) => s.id).sort());
+    const offSheet = byRole(root, 'shot-off-sheet');
+    expect(shots.length + offSheet.length).toBe(survey.shots.length);
+    expect([...shots, ...offSheet].map((s) => s.getAttribute('data-shot')).sort()).toEqual(survey.shots.map((s) => s.id).sort());
     for (const s of shots) expect(textOf(s)).toBe(s.getAttribute('data-shot'));
+    const x = axisMap(root, 'x-tick');
+    for (const s of offSheet) {
+      const shot = survey.shots.find((one) => one.id === s.getAttribute('data-shot'))!;
+      expect(textOf(s)).toContain(`${shot.x} m`);
+      // Really off the sheet: beyond the plot's first or last chainage.
+      const frame = byRole(root, 'plot-frame')[0];
+      const left = x.toData(Number(frame.getAttribute('x')));
+      const right = x.toData(Number(frame.getAttribute('x')) + Number(frame.getAttribute('width')));
+      expect(shot.x < left || shot.x > right).toBe(true);
+    }
   });
 
   it('escapes a hostile line name, date and shot id: they appear only as text, no <script> element exists', () => {
