@@ -1,6 +1,8 @@
 // Pure helpers that turn values into the words and numbers the page shows.
 // No DOM here, so each can be reasoned about on its own.
 
+import { degreesText, fixedDecimals, metresText, millisecondsText, velocityText } from './display-precision.js';
+
 /** @typedef {'json' | 'csv'} BodyFormat */
 
 /**
@@ -28,35 +30,82 @@ export function formatLabel(format) {
 const DASH = '—';
 
 /**
- * A number with a fixed count of decimals, or a dash when the value is missing.
+ * A number with a fixed count of decimals ("-0.0" shown as zero), or a dash when the value
+ * is missing.
  * @param {unknown} value
  * @param {number} decimals
  * @returns {string}
  */
 export function fixed(value, decimals) {
   if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
-  const text = value.toFixed(decimals);
-  // "-0.0" reads as a sign error on a section; show it as zero.
-  return Number(text) === 0 ? (0).toFixed(decimals) : text;
+  return fixedDecimals(value, decimals);
 }
 
 /**
- * Distance along the line, m: whole metres stay whole, fractions keep up to two decimals.
+ * A length, m, to the shown decimals (display-precision.js: 0.1 m), or a dash.
  * @param {unknown} value
  * @returns {string}
  */
 export function metres(value) {
-  if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
-  return String(Number(value.toFixed(2)));
+  return typeof value === 'number' && Number.isFinite(value) ? metresText(value) : DASH;
 }
 
 /**
- * Velocities are shown to the metre per second: more digits would claim false precision.
+ * A time, ms, to the shown decimals (0.1 ms), or a dash.
+ * @param {unknown} value
+ * @returns {string}
+ */
+export function milliseconds(value) {
+  return typeof value === 'number' && Number.isFinite(value) ? millisecondsText(value) : DASH;
+}
+
+/**
+ * An angle, degrees, to the shown decimals (0.1°), or a dash.
+ * @param {unknown} value
+ * @returns {string}
+ */
+export function degrees(value) {
+  return typeof value === 'number' && Number.isFinite(value) ? degreesText(value) : DASH;
+}
+
+/**
+ * A velocity as the drawings write it: rounded to 10 m/s, thousands grouped ("2,800"), or a dash.
+ * More digits would claim a precision a fitted slope does not have.
  * @param {unknown} value
  * @returns {string}
  */
 export function velocity(value) {
-  return fixed(value, 0);
+  return typeof value === 'number' && Number.isFinite(value) ? velocityText(value) : DASH;
+}
+
+/**
+ * The depth range to every refractor over the stations, for a summary: one entry per
+ * refractor (two on a three-layer line), e.g. { label: "Depth to refractor 2", text: "8.1–9.4 m" }.
+ * Reads station.depth for the first refractor and station.depths[k − 1] for the k-th. O(n·k).
+ * @param {readonly { depth?: number | null, depths?: readonly (number | null)[] }[]} stations
+ * @returns {{ label: string, text: string }[]}
+ */
+export function refractorDepthRanges(stations) {
+  const count = Math.max(1, ...stations.map((s) => (Array.isArray(s.depths) ? s.depths.length : 0)));
+  /** @type {{ label: string, text: string }[]} */
+  const ranges = [];
+  for (let k = 1; k <= count; k += 1) {
+    /** @type {number[]} */
+    const depths = [];
+    for (const s of stations) {
+      const d = k === 1 ? s.depth : Array.isArray(s.depths) ? s.depths[k - 1] : null;
+      if (typeof d === 'number' && Number.isFinite(d)) depths.push(d);
+    }
+    const label = count === 1 ? 'Depth to the refractor' : 'Depth to refractor ' + k;
+    if (depths.length === 0) {
+      ranges.push({ label, text: 'not reached at any station' });
+      continue;
+    }
+    const lo = metres(Math.min(...depths));
+    const hi = metres(Math.max(...depths));
+    ranges.push({ label, text: (lo === hi ? lo : lo + '–' + hi) + ' m' });
+  }
+  return ranges;
 }
 
 /** @type {Readonly<Record<string, string>>} */

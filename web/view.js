@@ -1,7 +1,7 @@
 // Builds the parts of the page from an interpretation. Text goes in through textContent
 // only: names, messages and numbers come from files the page does not control.
 
-import { describePath, fixed, metres, velocity } from './describe.js';
+import { degrees, describePath, metres, milliseconds, refractorDepthRanges, velocity } from './describe.js';
 import { cellText, stationColumns } from './station-columns.js';
 
 /**
@@ -82,6 +82,10 @@ export function renderSummary(list, interpretation) {
     term(list, 'Layer velocities', layers.map((l, i) => 'layer ' + (i + 1) + ': ' + velocity(l.velocity) + ' m/s').join(' · '));
   }
 
+  for (const range of refractorDepthRanges(Array.isArray(interpretation.stations) ? interpretation.stations : [])) {
+    term(list, range.label, range.text);
+  }
+
   const segments = Array.isArray(interpretation.refractorVelocity) ? interpretation.refractorVelocity : [];
   if (segments.length > 1) {
     term(list, 'Refractor velocity along the line', segments
@@ -92,14 +96,14 @@ export function renderSummary(list, interpretation) {
   if (features.dip && typeof features.dip.degrees === 'number') {
     const d = features.dip.degrees;
     const toward = d > 0 ? ' (deepens toward +x)' : d < 0 ? ' (deepens toward −x)' : '';
-    term(list, 'Refractor dip', fixed(Math.abs(d), 1) + '°' + toward);
+    term(list, 'Refractor dip', degrees(Math.abs(d)) + '°' + toward);
   } else if (features.dip === null) {
     term(list, 'Refractor dip', 'no single planar dip describes the refractor');
   }
 
   const steps = Array.isArray(features.steps) ? features.steps : [];
   term(list, 'Steps in the refractor', steps.length
-    ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + fixed(s.throw, 1) + ' m').join('; ')
+    ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + metres(s.throw) + ' m').join('; ')
     : 'none found');
 
   const changes = Array.isArray(features.velocityChanges) ? features.velocityChanges : [];
@@ -114,13 +118,13 @@ export function renderSummary(list, interpretation) {
     const text = bad.length === 0
       ? (reciprocal.length === 1 ? 'the opposing shot pair agrees' : 'all ' + reciprocal.length + ' opposing shot pairs agree')
         + ' within tolerance'
-      : bad.map((r) => (r.shots ?? []).join(' / ') + ' differ by ' + fixed(r.differenceMs, 1) + ' ms').join('; ');
+      : bad.map((r) => (r.shots ?? []).join(' / ') + ' differ by ' + milliseconds(r.differenceMs) + ' ms').join('; ');
     term(list, 'Reciprocal times', text);
   }
 
   const residuals = interpretation.qc?.residuals;
   if (residuals && typeof residuals.rmsMs === 'number') {
-    term(list, 'Picks against the model', 'RMS misfit ' + fixed(residuals.rmsMs, 2) + ' ms');
+    term(list, 'Picks against the model', 'RMS misfit ' + milliseconds(residuals.rmsMs) + ' ms');
   }
 }
 

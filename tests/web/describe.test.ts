@@ -25,12 +25,16 @@ describe('number formats', () => {
     expect(fixed('3', 1)).toBe('—');
   });
 
-  it('keeps whole metres whole and velocities to the metre per second', () => {
-    expect(metres(12)).toBe('12');
+  it('shows lengths to 0.1 m and velocities to 10 m/s with thousands grouped, as the drawings do', () => {
+    expect(metres(12)).toBe('12.0');
     expect(metres(2.5)).toBe('2.5');
-    expect(metres(1.234)).toBe('1.23');
+    expect(metres(1.234)).toBe('1.2');
+    expect(metres(-0.04)).toBe('0.0');
     expect(metres(undefined)).toBe('—');
-    expect(velocity(2449.6)).toBe('2450');
+    expect(velocity(2449.6)).toBe('2,450');
+    expect(velocity(698)).toBe('700');
+    expect(velocity(2801)).toBe('2,800');
+    expect(velocity(null)).toBe('—');
   });
 });
 
