@@ -47,15 +47,15 @@ export function readableTime(iso: string, timeZone?: string): string {
 }
 
 /**
- * The survey's free-text date: a bare ISO date ("2024-05-14") in words ("14 May 2024"),
- * anything else as the survey gives it.
+ * The survey's free-text date line (site, date of shooting, crew): a bare ISO date
+ * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it.
  */
 export function readableSurveyDate(text: string): string {
   const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text.trim());
   if (!match) return text;
   const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])));
   if (Number.isNaN(date.getTime()) || date.getUTCDate() !== Number(match[3])) return text;
-  return new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(date);
+  return `shot on ${new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(date)}`;
 }
 
 /** Words (coverage) read from the left, numbers from the right, as on the page. */
@@ -98,6 +98,7 @@ h2{font-size:1.1rem}
 .summary dd{margin:0}
 .allowance{border-left:4px solid #5b7a99;background:#eef3f8;padding:.5rem 1rem;margin:.6rem 0}
 .allowance p{margin:.2rem 0}
+.allowance h2{font-size:1rem;margin:.1rem 0 .3rem}
 .allowance .why{color:#444;font-size:.85rem}
 figure{margin:1rem 0}
 figure svg{max-width:100%;height:auto;border:1px solid #ddd}
@@ -129,7 +130,8 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
 function allowanceSection(interpretation: Interpretation): string {
   const note = hiddenLayerNote(interpretation);
   if (!note) return '';
-  return `<section class="allowance" aria-label="Hidden-layer allowance">
+  return `<section class="allowance" aria-labelledby="allowance-heading">
+<h2 id="allowance-heading">Hidden-layer allowance</h2>
 <p>${escapeHtml(note.headline)}</p>
 <p>${escapeHtml(note.detail)}</p>
 <p class="why">${escapeHtml(note.reasoning)}</p>
@@ -149,7 +151,7 @@ export function renderSharePage(input: SharePageInput): string {
   const { interpretation } = input;
   const columns = stationColumns(interpretation.stations);
   const warnings = otherWarnings(interpretation.qc?.warnings);
-  const surveyDate = input.survey.date ? ` · shot ${escapeHtml(readableSurveyDate(input.survey.date))}` : '';
+  const surveyDate = input.survey.date ? ` · ${escapeHtml(readableSurveyDate(input.survey.date))}` : '';
   const stored = `<time datetime="${escapeHtml(input.storedAt)}">${escapeHtml(readableTime(input.storedAt, input.timeZone))}</time>`;
   return `<!DOCTYPE html>
 <html lang="en">

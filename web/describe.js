@@ -177,6 +177,36 @@ export function describePath(path, survey) {
 }
 
 /**
+ * What a file is when it is binary rather than a text pick file, in words, or null for text.
+ * Looks at the first bytes only (O(1) in file size, at most 4096 bytes read):
+ *  - SEG-2 shot record: its file descriptor block starts with the id 0x3A55, stored little-endian
+ *    as the bytes 55 3A (from memory: Pullan 1990, SEG-2 format, Geophysics 55(11)), or big-endian 3A 55;
+ *  - SEG-Y: a 3200-byte EBCDIC text header that starts with "C" (0xC3) and a space (0x40)
+ *    (SEG-Y rev 1, 2002, section 3);
+ *  - a ZIP container (.xlsx, .docx, .zip: "PK\x03\x04"), an old Office file (D0 CF 11 E0),
+ *    a PDF ("%PDF");
+ *  - anything else with a NUL byte or more than 10 % control characters (common practice).
+ * @param {Uint8Array} bytes The file's first bytes.
+ * @returns {string | null}
+ */
+export function binaryKind(bytes) {
+  const head = bytes.subarray(0, 4096);
+  const b = (/** @type {number} */ i) => head[i] ?? -1;
+  if ((b(0) === 0x55 && b(1) === 0x3a) || (b(0) === 0x3a && b(1) === 0x55)) return 'a SEG-2 seismograph record';
+  if (b(0) === 0xc3 && b(1) === 0x40) return 'a SEG-Y seismic data file';
+  if (b(0) === 0x50 && b(1) === 0x4b && b(2) === 0x03 && b(3) === 0x04) return 'a ZIP container (for example an Excel .xlsx workbook)';
+  if (b(0) === 0xd0 && b(1) === 0xcf && b(2) === 0x11 && b(3) === 0xe0) return 'an Office document (for example an Excel .xls workbook)';
+  if (b(0) === 0x25 && b(1) === 0x50 && b(2) === 0x44 && b(3) === 0x46) return 'a PDF document';
+  let control = 0;
+  for (const byte of head) {
+    if (byte === 0) return 'a binary file';
+    // Tab, line feed, carriage return and form feed are text.
+    if (byte < 0x20 && byte !== 0x09 && byte !== 0x0a && byte !== 0x0d && byte !== 0x0c) control += 1;
+  }
+  return head.length > 0 && control / head.length > 0.1 ? 'a binary file' : null;
+}
+
+/**
  * The line name a pick table carries in its leading "# name: …" comment, or ''.
  * @param {string} text
  * @returns {string}

@@ -15,6 +15,7 @@ export const HIDDEN_LAYER_CODE = 'hidden-layer';
 
 /**
  * @typedef {object} HiddenLayerNote
+ * @property {string} short One short sentence for the line above the figures.
  * @property {string} headline One sentence: how much deeper the refractor could be.
  * @property {string} detail Where the numbers are drawn and listed.
  * @property {string} reasoning The engine's own message (thickness, velocities, sources).
@@ -42,7 +43,8 @@ export function hiddenLayerNote(interpretation) {
   const reasoning = String(warning.message ?? '');
   if (extras.length === 0) {
     return {
-      headline: 'Hidden-layer allowance: a layer too thin to give first arrivals could lie above the refractor unseen.',
+      short: 'Hidden-layer allowance: a thin layer could hide above the refractor (details below the figures).',
+      headline: 'A layer too thin to give first arrivals could lie above the refractor unseen.',
       detail: 'This is a limit of the method on every refraction line, not a fault in these picks.',
       reasoning,
       mostExtraM: null,
@@ -52,7 +54,8 @@ export function hiddenLayerNote(interpretation) {
   const most = Math.max(...extras);
   const along = metres(least) === metres(most) ? '' : ' (' + metres(least) + '–' + metres(most) + ' m along the line)';
   return {
-    headline: 'Hidden-layer allowance: if a layer too thin to give first arrivals lies above the refractor, '
+    short: 'Hidden-layer allowance: the refractor could be up to ' + metres(most) + ' m deeper than drawn if a thin layer hides above it.',
+    headline: 'If a layer too thin to give first arrivals lies above the refractor, '
       + 'the refractor could be up to ' + metres(most) + ' m deeper than drawn' + along + '.',
     detail: 'A limit of the method on every refraction line, not a fault in these picks. The section draws the '
       + 'deeper limit as a dashed line; the station table gives it as “Depth if a hidden layer”.',

@@ -126,12 +126,12 @@ describe('the share page', () => {
     expect(readableTime('2026-12-05T05:07:09.000Z', 'UTC')).toBe('5 December 2026 at 05:07 UTC');
     expect(readableTime('2026-07-01T22:30:00.000Z', 'Europe/Berlin')).toBe('2 July 2026 at 00:30 CEST');
     expect(readableTime('not a date', 'UTC')).toBe('not a date');
-    expect(readableSurveyDate('2024-05-14')).toBe('14 May 2024');
+    expect(readableSurveyDate('2024-05-14')).toBe('shot on 14 May 2024');
     expect(readableSurveyDate('2024-02-30')).toBe('2024-02-30');
     expect(readableSurveyDate('spring 2024, crew B')).toBe('spring 2024, crew B');
     const page = sharePage({ ...survey, date: '2024-05-14' }, demo);
     expect(page).toContain('<time datetime="2026-12-05T05:07:09.000Z">5 December 2026 at 05:07 UTC</time>');
-    expect(page).toContain('shot 14 May 2024');
+    expect(page).toContain(' · shot on 14 May 2024');
     expect(page).not.toMatch(/>\s*2026-12-05T/);
   });
 
