@@ -52,8 +52,15 @@ export function layoutChange(storedXs, newXs) {
     if (!(Math.abs(x - newXs[i]) < SAME_POSITION_M)) moved.push(i);
   });
   if (moved.length === 0) return null;
+  const sameExtent = Math.abs(storedXs[0] - newXs[0]) < SAME_POSITION_M
+    && Math.abs(storedXs[storedXs.length - 1] - newXs[newXs.length - 1]) < SAME_POSITION_M;
+  if (!sameExtent) {
+    return 'The stored line has ' + layoutWords(storedXs) + '; this file has ' + layoutWords(newXs) + ': '
+      + moved.length + ' of the ' + storedXs.length + ' geophones are at other positions.';
+  }
   const shown = moved.slice(0, 3).map((i) => 'geophone ' + (i + 1) + ' from ' + position(storedXs[i]) + ' to ' + position(newXs[i]) + ' m');
   const rest = moved.length - shown.length;
-  return 'Both have ' + storedXs.length + ' geophones, but ' + (moved.length === 1 ? 'one has' : moved.length + ' have')
+  return 'Both have ' + layoutWords(storedXs).replace(/, (every|irregularly).*$/, '') + ', but '
+    + (moved.length === 1 ? 'one geophone has' : moved.length + ' geophones have')
     + ' moved: ' + shown.join(', ') + (rest > 0 ? ' and ' + rest + ' more' : '') + '.';
 }

@@ -251,8 +251,11 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await context.close();
   });
 
-  it('lists every problem of a rejected survey in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+  it('replaces the open line with the error of a rejected survey, and lists every problem once, in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { context, page, trouble } = await openArcline(launched, baseUrl);
+    // The stored demo line is on show first: its figures and table must not stay beside the error.
+    await page.locator('#station-body tr').first().waitFor();
+    expect(await page.isVisible('#figures')).toBe(true);
 
     // Two faults: geophones out of order, and a negative first-break time.
     const bad = structuredClone(flat);
@@ -274,17 +277,36 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await box.waitFor({ state: 'visible' });
     expect(await box.getAttribute('role')).toBe('alert');
     const text = (await box.textContent()) ?? '';
-    expect(text).toContain(body.error.message);
-    const problems = body.problems?.length ? body.problems : [{ path: body.error.path, message: '' }];
+    const problems = body.problems?.length ? body.problems : [{ path: body.error.path, message: body.error.message }];
+    expect(problems.length).toBe(2);
     expect(await box.locator('.problem-list > li').count()).toBe(problems.length);
+    expect(text).toContain('The line was not interpreted: 2 problems, each listed below.');
     for (const problem of problems) {
-      expect(text).toContain(problem.message);
-      expect(text).toContain(problem.path);
+      // Each problem once: the service's summary sentence repeats the first, and is not shown.
+      expect(text.split(problem.message).length - 1, problem.message).toBe(1);
     }
-    // The time fault is named by shot and geophone, not only by its JSON path.
-    if (problems.some((p) => p.path === '/shots/1/times/5')) {
-      expect(text).toContain(`shot 2 (“${bad.shots[1].id}”), pick at geophone 6`);
+    expect(text).not.toMatch(/listed in .?problems/i);
+    // Where, in words (no JSON pointer where words exist).
+    expect(text).toContain('Where: geophone 4, field “x”');
+    expect(text).toContain(`Where: shot 2 (“${bad.shots[1].id}”), pick at geophone 6`);
+    expect(text).not.toContain('/shots/1/times/5');
+
+    // The error replaced the demo line: no figures, no table, no summary of the old line; the
+    // header says so and points to the problems beside the input.
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe('Not interpreted');
+    expect(await page.textContent('#line-badge')).toBe('Not interpreted');
+    for (const gone of ['#figures', '#stations', '#summary', '#files-panel', '#line-notes', '#allowance']) {
+      expect(await page.isVisible(gone), gone).toBe(false);
     }
+    expect(await page.locator('#station-body tr').count()).toBe(0);
+    expect(await page.isVisible('#failed-note')).toBe(true);
+    expect(await page.textContent('#failed-note')).toContain('listed beside the input');
+    expect(await page.locator('#stored-list [aria-current="true"]').count()).toBe(0);
+    // Beside the input: the error box sits in the load panel, right of nothing but the input.
+    const panel = await page.locator('#load-heading').locator('..').boundingBox();
+    const boxRect = await box.boundingBox();
+    expect(boxRect!.x).toBeGreaterThanOrEqual(panel!.x);
+    expect(boxRect!.x + boxRect!.width).toBeLessThanOrEqual(panel!.x + panel!.width + 1);
     await page.screenshot({ path: join(SCREENSHOTS, 'rejected-survey.png'), fullPage: true });
     // Chromium logs every non-2xx fetch as a console error; the 400 here is the point of the test.
     expectNoTrouble(trouble, [/status of 400/]);

@@ -1,8 +1,8 @@
 // The page's pure word and number helpers (web/describe.js), run in node: no DOM needed.
 import { describe, expect, it } from 'vitest';
 import {
-  coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, velocity, when,
- binaryKind } from '../../web/describe.js';
+  binaryKind, coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, velocity, when,
+} from '../../web/describe.js';
 
 describe('detectFormat', () => {
   it('trusts the file name first, then the content', () => {

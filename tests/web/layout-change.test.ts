@@ -28,13 +28,20 @@ describe('layoutChange', () => {
     );
   });
 
-  it('names the moved geophones with their surveyed positions when the count is the same', () => {
+  it('names the moved geophones with their surveyed positions when count and extent are the same', () => {
     const moved = spread(24, 3);
     moved[4] = 12.5;
-    expect(layoutChange(spread(24, 3), moved)).toBe('Both have 24 geophones, but one has moved: geophone 5 from 12 to 12.5 m.');
-    const shifted = spread(24, 3, 100);
-    expect(layoutChange(spread(24, 3), shifted)).toBe(
-      'Both have 24 geophones, but 24 have moved: geophone 1 from 0 to 100 m, geophone 2 from 3 to 103 m, geophone 3 from 6 to 106 m and 21 more.',
+    expect(layoutChange(spread(24, 3), moved)).toBe('Both have 24 geophones from 0.0 to 69.0 m, but one geophone has moved: geophone 5 from 12 to 12.5 m.');
+    const several = spread(24, 3);
+    for (const i of [2, 5, 8, 11]) several[i] += 0.25;
+    expect(layoutChange(spread(24, 3), several)).toBe(
+      'Both have 24 geophones from 0.0 to 69.0 m, but 4 geophones have moved: geophone 3 from 6 to 6.25 m, geophone 6 from 15 to 15.25 m, geophone 9 from 24 to 24.25 m and 1 more.',
+    );
+  });
+
+  it('names both layouts when the extent differs', () => {
+    expect(layoutChange(spread(24, 3), spread(24, 2))).toBe(
+      'The stored line has 24 geophones from 0.0 to 69.0 m, every 3.0 m; this file has 24 geophones from 0.0 to 46.0 m, every 2.0 m: 23 of the 24 geophones are at other positions.',
     );
   });
 });
