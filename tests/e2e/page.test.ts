@@ -352,4 +352,31 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expectNoTrouble(trouble);
     await context.close();
   });
+
+  it('names a binary file and an empty file for what they are, and keeps garbage out of the text box', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
+    await page.fill('#survey-text', '# name: kept\n');
+    // A SEG-2 shot record starts with the block id 0x3A55, little-endian (from memory: Pullan 1990); the rest is invented.
+    const record = Buffer.alloc(512);
+    record.writeUInt16LE(0x3a55, 0);
+    record.writeUInt16LE(1, 2);
+    for (let i = 32; i < 512; i += 1) record[i] = (i * 37) % 256;
+    await page.setInputFiles('#file-input', { name: 'shot-01.sg2', mimeType: 'application/octet-stream', buffer: record });
+    const box = page.locator('#error-box');
+    await box.waitFor({ state: 'visible' });
+    const text = (await box.textContent()) ?? '';
+    expect(text).toContain('“shot-01.sg2” is a SEG-2 seismograph record, not a pick file');
+    expect(text).toContain('CSV pick table');
+    expect(await page.inputValue('#survey-text')).toBe('# name: kept\n');
+    expect(await page.inputValue('#file-input')).toBe('');
+
+    // An empty file that was chosen is named; the page does not ask to choose one.
+    await page.setInputFiles('#file-input', { name: 'picks.csv', mimeType: 'text/csv', buffer: Buffer.alloc(0) });
+    await expect.poll(() => page.textContent('#format-name'), POLL).toBe('nothing loaded yet');
+    await page.click('#interpret-button');
+    await expect.poll(() => box.textContent(), POLL).toContain('The file “picks.csv” is empty');
+    expect(await box.textContent()).not.toContain('choose a pick file');
+    expectNoTrouble(trouble);
+    await context.close();
+  });
 });
