@@ -109,8 +109,9 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     const created = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');
     await page.click('#layout-new-line');
     expect((await created).status()).toBe(201);
-    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(flat.name);
-    expect(await page.textContent('#line-badge')).toBe('Stored');
+    // The preview already carried Demo B's name: wait for the stored line to open.
+    await expect.poll(() => page.textContent('#line-badge'), POLL).toBe('Stored');
+    expect(await page.textContent('#line-title')).toBe(flat.name);
     const lines = await listed(page, baseUrl);
     expect(lines.map((l) => l.name).sort()).toEqual([demo.name, flat.name].sort());
     // Demo A is untouched: one revision, its own layout.
