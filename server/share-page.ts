@@ -10,6 +10,8 @@ import type { Survey } from '../engine/survey/survey.js';
 // The page's own column list (plain ES with JSDoc types, served to the browser as it is), so
 // the share page shows the same columns, units and decimals as the page and stations.csv.
 import { cellText, columnHeading, stationColumns, type StationColumn } from '../web/station-columns.js';
+import { metres, refractorDepthRanges, velocity } from '../web/describe.js';
+import { hiddenLayerNote, otherWarnings } from '../web/hidden-layer-note.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -31,8 +33,29 @@ function inlineSvg(svg: string): string {
   return svg.replace(/^\s*<\?xml[^>]*\?>\s*/i, '').replace(/^\s*<!DOCTYPE[^>]*>\s*/i, '');
 }
 
-function num(value: number | null | undefined, digits: number): string {
-  return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : '–';
+/**
+ * A stored timestamp in words, e.g. "5 December 2026, 06:07 CET": the page has no script to
+ * learn the reader's time zone, so the service's own zone is used and named.
+ */
+export function readableTime(iso: string, timeZone?: string): string {
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  return new Intl.DateTimeFormat('en-GB', {
+    day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false, timeZoneName: 'short',
+    ...(timeZone ? { timeZone } : {}),
+  }).format(date);
+}
+
+/**
+ * The survey's free-text date line (site, date of shooting, crew): a bare ISO date
+ * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it.
+ */
+export function readableSurveyDate(text: string): string {
+  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text.trim());
+  if (!match) return text;
+  const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])));
+  if (Number.isNaN(date.getTime()) || date.getUTCDate() !== Number(match[3])) return text;
+  return `shot on ${new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(date)}`;
 }
 
 /** Words (coverage) read from the left, numbers from the right, as on the page. */
@@ -54,6 +77,8 @@ export interface SharePageInput {
   name: string;
   revision: number;
   storedAt: string;
+  /** IANA time zone for the stored time (tests fix it); the service's own zone by default. */
+  timeZone?: string;
   sectionSvg: string;
   travelTimesSvg: string;
   cautions: readonly string[];
@@ -63,10 +88,18 @@ export interface SharePageInput {
 const PAGE_STYLE = `
 body{font-family:system-ui,sans-serif;margin:0 auto;max-width:1100px;padding:1rem 1.5rem;color:#1b1b1b;background:#fff}
 h1{font-size:1.5rem;margin:.2rem 0}
-.meta{color:#555;margin:0 0 1rem}
-.cautions{border:2px solid #b35806;background:#fff4e5;padding:.6rem 1rem;margin:1rem 0}
-.cautions h2{font-size:1rem;margin:.2rem 0 .4rem;color:#7a3b00}
-.cautions p{margin:.3rem 0}
+h2{font-size:1.1rem}
+.meta{color:#555;margin:0 0 .6rem}
+.cautions{border:2px solid #b35806;background:#fff4e5;padding:.5rem 1rem;margin:.6rem 0;font-size:.9rem}
+.cautions h2{font-size:.95rem;margin:.2rem 0 .3rem;color:#7a3b00}
+.cautions p{margin:.25rem 0}
+.summary{display:grid;grid-template-columns:max-content 1fr;gap:.2rem 1rem;margin:.6rem 0}
+.summary dt{color:#555}
+.summary dd{margin:0}
+.allowance{border-left:4px solid #5b7a99;background:#eef3f8;padding:.5rem 1rem;margin:.6rem 0}
+.allowance p{margin:.2rem 0}
+.allowance h2{font-size:1rem;margin:.1rem 0 .3rem}
+.allowance .why{color:#444;font-size:.85rem}
 figure{margin:1rem 0}
 figure svg{max-width:100%;height:auto;border:1px solid #ddd}
 figcaption{font-weight:600;margin-bottom:.3rem}
@@ -78,15 +111,48 @@ td{white-space:nowrap}
 th{background:#f2f2f2}
 .warnings li{margin:.2rem 0}
 footer{margin-top:2rem;color:#666;font-size:.85rem}
+@media print{
+  @page{size:A4 landscape;margin:12mm}
+  body{max-width:none;padding:0;font-size:10pt}
+  a[download]{display:none}
+  .cautions,.allowance{break-inside:avoid}
+  figure{break-inside:avoid;page-break-inside:avoid}
+  figure svg{width:100%;max-height:170mm;border:none}
+  .table-wrap{overflow:visible}
+  table{width:100%;font-size:8pt}
+  th,td{padding:1px 4px}
+  thead{display:table-header-group}
+  tr{break-inside:avoid}
+}
 `;
+
+/** The hidden-layer allowance in calm words (web/hidden-layer-note.js), or ''. */
+function allowanceSection(interpretation: Interpretation): string {
+  const note = hiddenLayerNote(interpretation);
+  if (!note) return '';
+  return `<section class="allowance" aria-labelledby="allowance-heading">
+<h2 id="allowance-heading">Hidden-layer allowance</h2>
+<p>${escapeHtml(note.headline)}</p>
+<p>${escapeHtml(note.detail)}</p>
+<p class="why">${escapeHtml(note.reasoning)}</p>
+</section>`;
+}
+
+/** Layer velocities and the depth range to every refractor, as on the page. */
+function summaryList(interpretation: Interpretation): string {
+  const layers = interpretation.layers ?? [];
+  const items: [string, string][] = [];
+  if (layers.length) items.push(['Layer velocities', layers.map((l, i) => `layer ${i + 1}: ${velocity(l.velocity)} m/s`).join(' · ')]);
+  for (const range of refractorDepthRanges(interpretation.stations)) items.push([range.label, range.text]);
+  return `<dl class="summary">${items.map(([t, d]) => `<dt>${escapeHtml(t)}</dt><dd>${escapeHtml(d)}</dd>`).join('')}</dl>`;
+}
 
 export function renderSharePage(input: SharePageInput): string {
   const { interpretation } = input;
   const columns = stationColumns(interpretation.stations);
-  const warnings = interpretation.qc?.warnings ?? [];
-  const layers = interpretation.layers ?? [];
-  const layerText = layers.map((l, i) => `layer ${i + 1}: ${num(l.velocity, 0)} m/s`).join(', ');
-  const dateLine = input.survey.date ? ` · ${escapeHtml(input.survey.date)}` : '';
+  const warnings = otherWarnings(interpretation.qc?.warnings);
+  const surveyDate = input.survey.date ? ` · ${escapeHtml(readableSurveyDate(input.survey.date))}` : '';
+  const stored = `<time datetime="${escapeHtml(input.storedAt)}">${escapeHtml(readableTime(input.storedAt, input.timeZone))}</time>`;
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -100,12 +166,13 @@ export function renderSharePage(input: SharePageInput): string {
 <body>
 <header>
 <h1>${escapeHtml(input.name)}</h1>
-<p class="meta">Read-only copy of revision ${escapeHtml(input.revision)}, stored ${escapeHtml(input.storedAt)}${dateLine} · method ${escapeHtml(interpretation.method ?? 'plus-minus')}${layerText ? ` · ${escapeHtml(layerText)}` : ''}</p>
+<p class="meta">Read-only copy of revision ${escapeHtml(input.revision)}, stored ${stored}${surveyDate} · method ${escapeHtml(interpretation.method ?? 'plus-minus')}</p>
 </header>
 <section class="cautions" aria-label="Cautions">
 <h2>Read before using these depths</h2>
 ${input.cautions.map((c) => `<p>${escapeHtml(c)}</p>`).join('\n')}
 </section>
+${summaryList(interpretation)}
 <figure>
 <figcaption>Depth section</figcaption>
 ${inlineSvg(input.sectionSvg)}
@@ -114,13 +181,14 @@ ${inlineSvg(input.sectionSvg)}
 <figcaption>Time–distance plot</figcaption>
 ${inlineSvg(input.travelTimesSvg)}
 </figure>
+${allowanceSection(interpretation)}
 <section aria-label="Warnings">
 <h2>Warnings</h2>
 ${
   warnings.length === 0
     ? '<p>None.</p>'
     : `<ul class="warnings">${warnings
-        .map((w) => `<li><strong>${escapeHtml(w.code)}</strong>${typeof w.x === 'number' ? ` at x = ${escapeHtml(num(w.x, 1))} m` : ''}: ${escapeHtml(w.message)}</li>`)
+        .map((w) => `<li>${escapeHtml(w.message)}${typeof w.x === 'number' && !/x\s*=/.test(w.message) ? ` (at x = ${escapeHtml(metres(w.x))} m)` : ''}</li>`)
         .join('')}</ul>`
 }
 </section>

@@ -202,6 +202,7 @@ export function statusWords(status) {
   }
   if (status === 404) return 'That line is not in the store (it may have been removed).';
   if (status === 413) return 'The file is too large for the service.';
+  if (status === 409) return 'The service refused the request because it conflicts with the stored line.';
   if (status >= 500) return 'The service failed while handling this request (status ' + status + ').';
   return 'The service answered with status ' + status + '.';
 }
@@ -246,15 +247,36 @@ export function storeLine(bodyText, format) {
 }
 
 /**
+ * The query that tells the service a revision's new geophone layout is meant; without it the
+ * service answers 409 (LAYOUT_CHANGED_STATUS) to a body whose layout differs from the line's.
+ */
+export const LAYOUT_CHANGE_CONFIRMATION = 'layoutChange=confirm';
+
+/** The status of a revision refused because its geophone layout differs from the line's. */
+export const LAYOUT_CHANGED_STATUS = 409;
+
+/**
+ * The path of POST …/revisions, with the layout-change confirmation when the user agreed to it.
+ * @param {string} id
+ * @param {boolean} [confirmLayoutChange]
+ * @returns {string}
+ */
+export function revisionsPath(id, confirmLayoutChange = false) {
+  return 'api/v1/surveys/' + encodeURIComponent(id) + '/revisions' + (confirmLayoutChange ? '?' + LAYOUT_CHANGE_CONFIRMATION : '');
+}
+
+/**
  * POST /api/v1/surveys/:id/revisions — stores the corrected line as the next revision of a
- * stored line (nothing is overwritten); sends the write token when one is set.
+ * stored line (nothing is overwritten); sends the write token when one is set. The layout
+ * change is confirmed only when the user said it is meant.
  * @param {string} id
  * @param {string} bodyText
  * @param {BodyFormat} format
+ * @param {boolean} [confirmLayoutChange]
  * @returns {Promise<Result<StoreAnswer>>}
  */
-export function storeRevision(id, bodyText, format) {
-  return request('api/v1/surveys/' + encodeURIComponent(id) + '/revisions', surveyPost(bodyText, format, readWriteToken()));
+export function storeRevision(id, bodyText, format, confirmLayoutChange = false) {
+  return request(revisionsPath(id, confirmLayoutChange), surveyPost(bodyText, format, readWriteToken()));
 }
 
 /**

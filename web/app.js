@@ -2,10 +2,13 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision,
+  LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision,
 } from './api.js';
-import { detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
-import { el, markFiguresAsPreview, renderFailure, renderStationTable, renderSummary, renderWarnings } from './view.js';
+import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
+import { layoutChange } from './layout-change.js';
+import {
+  el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
+} from './view.js';
 
 /**
  * @typedef {import('./api.js').Failure} Failure
@@ -67,6 +70,17 @@ const ui = {
   stationHead: $('station-head', HTMLTableRowElement),
   stationBody: $('station-body', HTMLTableSectionElement),
   emptyNote: $('empty-note', HTMLElement),
+  lineNotes: $('line-notes', HTMLElement),
+  failedNote: $('failed-note', HTMLElement),
+  allowance: $('allowance', HTMLElement),
+  allowanceHeadline: $('allowance-headline', HTMLElement),
+  allowanceDetail: $('allowance-detail', HTMLElement),
+  allowanceReasoning: $('allowance-reasoning', HTMLElement),
+  layoutDialog: $('layout-dialog', HTMLDialogElement),
+  layoutChangeText: $('layout-dialog-change', HTMLElement),
+  layoutNewLine: $('layout-new-line', HTMLButtonElement),
+  layoutConfirm: $('layout-confirm', HTMLButtonElement),
+  layoutCancel: $('layout-cancel', HTMLButtonElement),
 };
 
 /** What the input area holds: its format follows the file name until the text is edited. */
@@ -77,14 +91,16 @@ const input = { fileName: '' };
  */
 let openLineId = null;
 /**
- * The stored line opened last ({ id, name } of its latest revision), still known while a newly
- * loaded line is interpreted: that line can then be stored as its next revision.
- * @type {{ id: string, name: string } | null}
+ * The stored line opened last ({ id, name } of its latest revision, and the geophone positions
+ * of the revision on show), still known while a newly loaded line is interpreted: that line
+ * can then be stored as its next revision, after a question if its layout differs.
+ * @type {{ id: string, name: string, geophoneXs: number[] } | null}
  */
 let revisionBase = null;
 /**
- * Exactly what was interpreted last, until the input is changed.
- * @type {{ bodyText: string, format: BodyFormat } | null}
+ * Exactly what was interpreted last, until the input is changed, with its geophone positions
+ * (one station per geophone, in order).
+ * @type {{ bodyText: string, format: BodyFormat, geophoneXs: number[] } | null}
  */
 let interpreted = null;
 /** Counts stored-line openings, so an answer for an earlier one (a quick change of revision) is dropped. */
@@ -105,6 +121,16 @@ function setStatus(text) {
 function clearError() {
   ui.errorBox.hidden = true;
   ui.errorBox.replaceChildren();
+}
+
+/**
+ * Shows a failure beside the input and brings it into view.
+ * @param {Pick<Failure, 'message' | 'path' | 'problems'>} failure
+ * @param {string} [what] What did not happen, e.g. "The line was not interpreted".
+ */
+function showError(failure, what) {
+  renderFailure(ui.errorBox, failure, parsedSurvey(), what);
+  ui.errorBox.scrollIntoView({ block: 'nearest' });
 }
 
 function currentFormat() {
@@ -176,7 +202,10 @@ function showInterpretation(name, interpretation, metaText) {
   ui.title.textContent = name;
   ui.meta.textContent = metaText;
   ui.emptyNote.hidden = true;
+  ui.failedNote.hidden = true;
   const stations = Array.isArray(interpretation.stations) ? interpretation.stations : [];
+  renderLineNotes(ui.lineNotes, interpretation);
+  renderAllowance({ box: ui.allowance, headline: ui.allowanceHeadline, detail: ui.allowanceDetail, reasoning: ui.allowanceReasoning }, interpretation);
   renderWarnings(ui.warnings, ui.warningList, interpretation.qc?.warnings);
   renderSummary(ui.summaryList, interpretation);
   ui.summary.hidden = false;
@@ -206,6 +235,40 @@ function hideStoredParts() {
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.revisionRow.hidden = true;
+}
+
+/**
+ * The input could not be interpreted: whatever line was on show goes (its numbers are not
+ * those of the input any more), the header says so and points to the problems beside the input.
+ * The stored line stays in the list, one click away.
+ */
+function showNotInterpreted() {
+  hideStoredParts();
+  openLineId = null;
+  interpreted = null;
+  updateReviseButton();
+  markOpenInList();
+  ui.title.textContent = 'Not interpreted';
+  ui.meta.textContent = 'The input has problems; they are listed beside it.';
+  ui.badge.textContent = 'Not interpreted';
+  ui.badge.className = 'badge failed';
+  ui.badge.hidden = false;
+  for (const part of [ui.lineNotes, ui.allowance, ui.warnings, ui.unsavedNote, ui.summary, ui.stations, ui.emptyNote]) part.hidden = true;
+  ui.summaryList.replaceChildren();
+  ui.stationHead.replaceChildren();
+  ui.stationBody.replaceChildren();
+  ui.failedNote.hidden = false;
+  history.replaceState(null, '', window.location.pathname + window.location.search);
+}
+
+/**
+ * Whether a failed request was refused for what the input holds (bad survey, pick table,
+ * size, type), rather than for the token, the network or the service.
+ * @param {Failure} failure
+ * @returns {boolean}
+ */
+function inputRefused(failure) {
+  return [400, 413, 415, 422].includes(failure.status);
 }
 
 /**
@@ -328,7 +391,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   const result = await fetchLine(id, revision);
   if (round !== openRound) return false;
   if (!result.ok) {
-    renderFailure(ui.errorBox, result.failure);
+    showError(result.failure, 'The stored line could not be opened');
     setStatus('Could not open the line.');
     return false;
   }
@@ -345,7 +408,8 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   const latest = integerOr(result.data?.latestRevision, shown);
   const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
   const latestName = revisions.find((r) => r?.revision === latest)?.name;
-  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name };
+  const geophoneXs = Array.isArray(survey?.geophones) ? survey.geophones.map((g) => g.x) : interpretation.stations.map((s) => s.x);
+  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name, geophoneXs };
   interpreted = null;
   updateReviseButton();
   const stationCount = interpretation.stations.length;
@@ -406,7 +470,7 @@ function setDownload(id, url, fileName) {
 async function refreshList() {
   const result = await listLines();
   if (!result.ok) {
-    renderFailure(ui.errorBox, result.failure);
+    showError(result.failure, 'The stored lines could not be listed');
     return [];
   }
   const lines = (Array.isArray(result.data) ? result.data : [])
@@ -433,9 +497,11 @@ async function refreshList() {
 
 function requireInput() {
   if (ui.text.value.trim() !== '') return true;
-  renderFailure(ui.errorBox, {
-    message: 'Nothing to send yet: choose a pick file or paste a survey first.', path: '', problems: [],
-  });
+  // Said differently when a file was chosen: asking to choose one would be wrong.
+  const message = input.fileName
+    ? 'The file “' + input.fileName + '” is empty: there is nothing in it to interpret. Choose another pick file or paste a survey.'
+    : 'Nothing to send yet: choose a pick file or paste a survey first.';
+  showError({ message, path: '', problems: [] });
   setStatus('');
   return false;
 }
@@ -458,7 +524,8 @@ async function interpretInput() {
   setBusy(false);
   if (round !== figures.round) return;
   if (!result.ok) {
-    renderFailure(ui.errorBox, result.failure, parsedSurvey());
+    showError(result.failure, 'The line was not interpreted');
+    showNotInterpreted();
     setStatus('The line was not interpreted: see the problems listed.');
     return;
   }
@@ -468,7 +535,7 @@ async function interpretInput() {
   const name = lineName(parsedSurvey(), fromTable || input.fileName || 'Pasted line');
   openLineId = null;
   // Offered for storing as a revision only while the input still holds what was interpreted.
-  interpreted = ui.text.value === bodyText ? { bodyText, format } : null;
+  interpreted = ui.text.value === bodyText ? { bodyText, format, geophoneXs: interpretation.stations.map((s) => s.x) } : null;
   markOpenInList();
   const stationCount = interpretation.stations.length;
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + formatLabel(format));
@@ -492,7 +559,8 @@ async function storeInput() {
   const result = await storeLine(ui.text.value, currentFormat());
   setBusy(false);
   if (!result.ok) {
-    renderFailure(ui.errorBox, result.failure, parsedSurvey());
+    showError(result.failure, 'The line was not stored');
+    if (inputRefused(result.failure)) showNotInterpreted();
     setStatus('The line was not stored.');
     return;
   }
@@ -507,17 +575,81 @@ async function storeInput() {
   if (opened) setStatus('Stored. The share link is ready to copy.');
 }
 
-/** Stores exactly the text that was interpreted as the next revision of the line opened before. */
+/**
+ * Asks what to do with a file whose geophone layout differs from the stored line's: store it
+ * as a new line, store it as a revision anyway (the service is then told the change is meant),
+ * or nothing. Esc and Cancel answer 'cancel'.
+ * @param {string} change What changes, in words.
+ * @param {string} baseName
+ * @returns {Promise<'new-line' | 'confirm' | 'cancel'>}
+ */
+function askAboutLayout(change, baseName) {
+  ui.layoutChangeText.textContent = change;
+  ui.layoutConfirm.textContent = 'Store as revision of “' + baseName + '” anyway';
+  return new Promise((resolve) => {
+    const listening = new AbortController();
+    /** @param {'new-line' | 'confirm' | 'cancel'} answer */
+    const answer = (answer) => {
+      listening.abort();
+      if (ui.layoutDialog.open) ui.layoutDialog.close();
+      resolve(answer);
+    };
+    const { signal } = listening;
+    ui.layoutNewLine.addEventListener('click', () => answer('new-line'), { signal });
+    ui.layoutConfirm.addEventListener('click', () => answer('confirm'), { signal });
+    ui.layoutCancel.addEventListener('click', () => answer('cancel'), { signal });
+    ui.layoutDialog.addEventListener('cancel', () => answer('cancel'), { signal });
+    ui.layoutDialog.showModal();
+    // The safe choice has the focus: Enter never stores another line under this one's link by accident.
+    ui.layoutNewLine.focus();
+  });
+}
+
+/**
+ * Stores exactly the text that was interpreted as the next revision of the line opened
+ * before. When its geophone layout differs from that line's (checked here, and by the
+ * service, which answers 409), the user is asked first; the service is told the change is
+ * meant only when the user says so, and a new line is offered instead.
+ */
 async function reviseInput() {
   const base = revisionBase;
   const sent = interpreted;
   if (!base || !sent) return;
+  const change = layoutChange(base.geophoneXs, sent.geophoneXs);
+  let confirmed = false;
+  if (change !== null) {
+    const choice = await askAboutLayout(change, base.name);
+    if (choice === 'cancel') {
+      setStatus('Nothing stored.');
+      return;
+    }
+    if (choice === 'new-line') {
+      await storeAsNewLine(sent);
+      return;
+    }
+    confirmed = true;
+  }
   setBusy(true);
   setStatus('Storing as a revision of “' + base.name + '”…');
-  const result = await storeRevision(base.id, sent.bodyText, sent.format);
+  let result = await storeRevision(base.id, sent.bodyText, sent.format, confirmed);
   setBusy(false);
+  if (!result.ok && result.failure.status === LAYOUT_CHANGED_STATUS && !confirmed) {
+    // The service sees a layout change the page did not: ask with its words.
+    const choice = await askAboutLayout(result.failure.message, base.name);
+    if (choice === 'cancel') {
+      setStatus('Nothing stored.');
+      return;
+    }
+    if (choice === 'new-line') {
+      await storeAsNewLine(sent);
+      return;
+    }
+    setBusy(true);
+    result = await storeRevision(base.id, sent.bodyText, sent.format, true);
+    setBusy(false);
+  }
   if (!result.ok) {
-    renderFailure(ui.errorBox, result.failure, parsedSurvey());
+    showError(result.failure, 'The revision was not stored');
     setStatus('The revision was not stored.');
     return;
   }
@@ -526,6 +658,31 @@ async function reviseInput() {
   await refreshList();
   const opened = await openStoredLine(base.id, result.data?.shareUrl, revision);
   if (opened) setStatus('Stored as revision ' + (revision ?? '') + ' of “' + base.name + '”.');
+}
+
+/**
+ * Stores the interpreted text as a line of its own (the answer to a layout change).
+ * @param {{ bodyText: string, format: BodyFormat }} sent
+ */
+async function storeAsNewLine(sent) {
+  setBusy(true);
+  setStatus('Storing as a new line…');
+  const result = await storeLine(sent.bodyText, sent.format);
+  setBusy(false);
+  if (!result.ok) {
+    showError(result.failure, 'The line was not stored');
+    setStatus('The line was not stored.');
+    return;
+  }
+  clearError();
+  const id = result.data?.id;
+  if (typeof id !== 'string' && typeof id !== 'number') {
+    setStatus('The service stored the line but did not say under which id.');
+    return;
+  }
+  await refreshList();
+  const opened = await openStoredLine(String(id), result.data?.shareUrl);
+  if (opened) setStatus('Stored as a new line. The share link is ready to copy.');
 }
 
 async function copyShareLink() {
@@ -552,12 +709,27 @@ async function copyShareLink() {
 async function loadChosenFile() {
   const file = ui.fileInput.files?.[0];
   if (!file) return;
+  let text;
   try {
-    ui.text.value = await file.text();
+    // A binary file (a seismograph record, a workbook) would fill the text box with garbage:
+    // say what it is instead, and leave the input as it was.
+    const kind = binaryKind(new Uint8Array(await file.slice(0, 4096).arrayBuffer()));
+    if (kind !== null) {
+      showError({
+        message: 'The file “' + file.name + '” is ' + kind + ', not a pick file. Arcline reads first-break picks: '
+          + 'a JSON survey or a CSV pick table (see the README for both). Pick the first breaks first and export them in one of these forms.',
+        path: '', problems: [],
+      });
+      ui.fileInput.value = '';
+      setStatus('');
+      return;
+    }
+    text = await file.text();
   } catch {
-    renderFailure(ui.errorBox, { message: 'The file “' + file.name + '” could not be read.', path: '', problems: [] });
+    showError({ message: 'The file “' + file.name + '” could not be read.', path: '', problems: [] });
     return;
   }
+  ui.text.value = text;
   input.fileName = file.name;
   forgetInterpreted();
   clearError();

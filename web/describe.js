@@ -1,6 +1,8 @@
 // Pure helpers that turn values into the words and numbers the page shows.
 // No DOM here, so each can be reasoned about on its own.
 
+import { degreesText, fixedDecimals, metresText, millisecondsText, velocityText } from './display-precision.js';
+
 /** @typedef {'json' | 'csv'} BodyFormat */
 
 /**
@@ -28,35 +30,82 @@ export function formatLabel(format) {
 const DASH = '—';
 
 /**
- * A number with a fixed count of decimals, or a dash when the value is missing.
+ * A number with a fixed count of decimals ("-0.0" shown as zero), or a dash when the value
+ * is missing.
  * @param {unknown} value
  * @param {number} decimals
  * @returns {string}
  */
 export function fixed(value, decimals) {
   if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
-  const text = value.toFixed(decimals);
-  // "-0.0" reads as a sign error on a section; show it as zero.
-  return Number(text) === 0 ? (0).toFixed(decimals) : text;
+  return fixedDecimals(value, decimals);
 }
 
 /**
- * Distance along the line, m: whole metres stay whole, fractions keep up to two decimals.
+ * A length, m, to the shown decimals (display-precision.js: 0.1 m), or a dash.
  * @param {unknown} value
  * @returns {string}
  */
 export function metres(value) {
-  if (typeof value !== 'number' || !Number.isFinite(value)) return DASH;
-  return String(Number(value.toFixed(2)));
+  return typeof value === 'number' && Number.isFinite(value) ? metresText(value) : DASH;
 }
 
 /**
- * Velocities are shown to the metre per second: more digits would claim false precision.
+ * A time, ms, to the shown decimals (0.1 ms), or a dash.
+ * @param {unknown} value
+ * @returns {string}
+ */
+export function milliseconds(value) {
+  return typeof value === 'number' && Number.isFinite(value) ? millisecondsText(value) : DASH;
+}
+
+/**
+ * An angle, degrees, to the shown decimals (0.1°), or a dash.
+ * @param {unknown} value
+ * @returns {string}
+ */
+export function degrees(value) {
+  return typeof value === 'number' && Number.isFinite(value) ? degreesText(value) : DASH;
+}
+
+/**
+ * A velocity as the drawings write it: rounded to 10 m/s, thousands grouped ("2,800"), or a dash.
+ * More digits would claim a precision a fitted slope does not have.
  * @param {unknown} value
  * @returns {string}
  */
 export function velocity(value) {
-  return fixed(value, 0);
+  return typeof value === 'number' && Number.isFinite(value) ? velocityText(value) : DASH;
+}
+
+/**
+ * The depth range to every refractor over the stations, for a summary: one entry per
+ * refractor (two on a three-layer line), e.g. { label: "Depth to refractor 2", text: "8.1–9.4 m" }.
+ * Reads station.depth for the first refractor and station.depths[k − 1] for the k-th. O(n·k).
+ * @param {readonly { depth?: number | null, depths?: readonly (number | null)[] }[]} stations
+ * @returns {{ label: string, text: string }[]}
+ */
+export function refractorDepthRanges(stations) {
+  const count = Math.max(1, ...stations.map((s) => (Array.isArray(s.depths) ? s.depths.length : 0)));
+  /** @type {{ label: string, text: string }[]} */
+  const ranges = [];
+  for (let k = 1; k <= count; k += 1) {
+    /** @type {number[]} */
+    const depths = [];
+    for (const s of stations) {
+      const d = k === 1 ? s.depth : Array.isArray(s.depths) ? s.depths[k - 1] : null;
+      if (typeof d === 'number' && Number.isFinite(d)) depths.push(d);
+    }
+    const label = count === 1 ? 'Depth to the refractor' : 'Depth to refractor ' + k;
+    if (depths.length === 0) {
+      ranges.push({ label, text: 'not reached at any station' });
+      continue;
+    }
+    const lo = metres(Math.min(...depths));
+    const hi = metres(Math.max(...depths));
+    ranges.push({ label, text: (lo === hi ? lo : lo + '–' + hi) + ' m' });
+  }
+  return ranges;
 }
 
 /** @type {Readonly<Record<string, string>>} */
@@ -125,6 +174,36 @@ export function describePath(path, survey) {
   if (head === 'options') return field === undefined && index ? 'option “' + index + '”' : 'options';
   if (parts.length === 1) return 'field “' + head + '”';
   return path;
+}
+
+/**
+ * What a file is when it is binary rather than a text pick file, in words, or null for text.
+ * Looks at the first bytes only (O(1) in file size, at most 4096 bytes read):
+ *  - SEG-2 shot record: its file descriptor block starts with the id 0x3A55, stored little-endian
+ *    as the bytes 55 3A (from memory: Pullan 1990, SEG-2 format, Geophysics 55(11)), or big-endian 3A 55;
+ *  - SEG-Y: a 3200-byte EBCDIC text header that starts with "C" (0xC3) and a space (0x40)
+ *    (SEG-Y rev 1, 2002, section 3);
+ *  - a ZIP container (.xlsx, .docx, .zip: "PK\x03\x04"), an old Office file (D0 CF 11 E0),
+ *    a PDF ("%PDF");
+ *  - anything else with a NUL byte or more than 10 % control characters (common practice).
+ * @param {Uint8Array} bytes The file's first bytes.
+ * @returns {string | null}
+ */
+export function binaryKind(bytes) {
+  const head = bytes.subarray(0, 4096);
+  const b = (/** @type {number} */ i) => head[i] ?? -1;
+  if ((b(0) === 0x55 && b(1) === 0x3a) || (b(0) === 0x3a && b(1) === 0x55)) return 'a SEG-2 seismograph record';
+  if (b(0) === 0xc3 && b(1) === 0x40) return 'a SEG-Y seismic data file';
+  if (b(0) === 0x50 && b(1) === 0x4b && b(2) === 0x03 && b(3) === 0x04) return 'a ZIP container (for example an Excel .xlsx workbook)';
+  if (b(0) === 0xd0 && b(1) === 0xcf && b(2) === 0x11 && b(3) === 0xe0) return 'an Office document (for example an Excel .xls workbook)';
+  if (b(0) === 0x25 && b(1) === 0x50 && b(2) === 0x44 && b(3) === 0x46) return 'a PDF document';
+  let control = 0;
+  for (const byte of head) {
+    if (byte === 0) return 'a binary file';
+    // Tab, line feed, carriage return and form feed are text.
+    if (byte < 0x20 && byte !== 0x09 && byte !== 0x0a && byte !== 0x0d && byte !== 0x0c) control += 1;
+  }
+  return head.length > 0 && control / head.length > 0.1 ? 'a binary file' : null;
 }
 
 /**

@@ -3,10 +3,12 @@
 // (server/stations-csv.ts). The server imports this file too, so it stays plain ES with
 // JSDoc types: no DOM, no browser globals, nothing from node.
 //
-// Decimals follow the engine's output rounding (0.01 m, 0.01 ms, 1 m/s), so no place shows
-// fewer digits than the service computed, and none pretends to more.
+// Numbers follow the shown precision declared once in display-precision.js (0.1 m, 0.1 ms,
+// velocities to 10 m/s), the same the drawings use, so a depth or a velocity reads the same on
+// the section, on the page, on the share page and in stations.csv.
 
 import { coverageWords, fixed } from './describe.js';
+import { DISPLAY_PRECISION, roundVelocity, velocityText } from './display-precision.js';
 
 /** @typedef {import('../engine/output/interpretation.js').Station} Station */
 
@@ -35,8 +37,10 @@ function column(key, label, unit, csvHeader, decimals, value, optional = false) 
   return { key, label, unit, csvHeader, decimals, value, optional };
 }
 
-/** Decimals per unit: the engine's output rounding. */
-export const UNIT_DECIMALS = Object.freeze({ m: 2, ms: 2, 'm/s': 0 });
+/** Decimals per unit: the shown precision (velocities are also rounded to 10 m/s). */
+export const UNIT_DECIMALS = Object.freeze({
+  m: DISPLAY_PRECISION.metreDecimals, ms: DISPLAY_PRECISION.millisecondDecimals, 'm/s': 0,
+});
 
 /**
  * Depth to the k-th refractor (k ≥ 2; the first is the Depth column), one column per
@@ -103,14 +107,16 @@ export function columnHeading(c) {
 }
 
 /**
- * A cell as people read it (page and share page): the column's decimals, words for codes,
- * a dash where there is no value.
+ * A cell as people read it (page and share page): the column's decimals, velocities rounded
+ * to 10 m/s with thousands grouped ("2,800", as the drawings write them), words for codes, a
+ * dash where there is no value.
  * @param {StationColumn} c
  * @param {Station} station
  * @returns {string}
  */
 export function cellText(c, station) {
   const value = c.value(station);
+  if (c.unit === 'm/s') return typeof value === 'number' && Number.isFinite(value) ? velocityText(value) : fixed(null, 0);
   if (c.decimals !== null) return fixed(value, c.decimals);
   if (c.key === 'coverage') return coverageWords(typeof value === 'string' ? value : undefined);
   return value === null || value === undefined ? fixed(null, 0) : String(value);
@@ -126,6 +132,8 @@ export function cellText(c, station) {
 export function cellData(c, station) {
   const value = c.value(station);
   if (value === null || value === undefined) return '';
-  if (c.decimals !== null) return typeof value === 'number' && Number.isFinite(value) ? fixed(value, c.decimals) : '';
-  return String(value);
+  if (c.decimals === null) return String(value);
+  if (typeof value !== 'number' || !Number.isFinite(value)) return '';
+  // Velocities as on the page, rounded to 10 m/s, but without the thousands comma (a CSV separator).
+  return fixed(c.unit === 'm/s' ? roundVelocity(value) : value, c.decimals);
 }

@@ -1,8 +1,9 @@
 // Builds the parts of the page from an interpretation. Text goes in through textContent
 // only: names, messages and numbers come from files the page does not control.
 
-import { describePath, fixed, metres, velocity } from './describe.js';
+import { degrees, describePath, metres, milliseconds, refractorDepthRanges, velocity } from './describe.js';
 import { cellText, stationColumns } from './station-columns.js';
+import { hiddenLayerNote, otherWarnings } from './hidden-layer-note.js';
 
 /**
  * @typedef {import('../engine/output/interpretation.js').Interpretation} Interpretation
@@ -82,6 +83,10 @@ export function renderSummary(list, interpretation) {
     term(list, 'Layer velocities', layers.map((l, i) => 'layer ' + (i + 1) + ': ' + velocity(l.velocity) + ' m/s').join(' · '));
   }
 
+  for (const range of refractorDepthRanges(Array.isArray(interpretation.stations) ? interpretation.stations : [])) {
+    term(list, range.label, range.text);
+  }
+
   const segments = Array.isArray(interpretation.refractorVelocity) ? interpretation.refractorVelocity : [];
   if (segments.length > 1) {
     term(list, 'Refractor velocity along the line', segments
@@ -92,14 +97,14 @@ export function renderSummary(list, interpretation) {
   if (features.dip && typeof features.dip.degrees === 'number') {
     const d = features.dip.degrees;
     const toward = d > 0 ? ' (deepens toward +x)' : d < 0 ? ' (deepens toward −x)' : '';
-    term(list, 'Refractor dip', fixed(Math.abs(d), 1) + '°' + toward);
+    term(list, 'Refractor dip', degrees(Math.abs(d)) + '°' + toward);
   } else if (features.dip === null) {
     term(list, 'Refractor dip', 'no single planar dip describes the refractor');
   }
 
   const steps = Array.isArray(features.steps) ? features.steps : [];
   term(list, 'Steps in the refractor', steps.length
-    ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + fixed(s.throw, 1) + ' m').join('; ')
+    ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + metres(s.throw) + ' m').join('; ')
     : 'none found');
 
   const changes = Array.isArray(features.velocityChanges) ? features.velocityChanges : [];
@@ -114,24 +119,25 @@ export function renderSummary(list, interpretation) {
     const text = bad.length === 0
       ? (reciprocal.length === 1 ? 'the opposing shot pair agrees' : 'all ' + reciprocal.length + ' opposing shot pairs agree')
         + ' within tolerance'
-      : bad.map((r) => (r.shots ?? []).join(' / ') + ' differ by ' + fixed(r.differenceMs, 1) + ' ms').join('; ');
+      : bad.map((r) => (r.shots ?? []).join(' / ') + ' differ by ' + milliseconds(r.differenceMs) + ' ms').join('; ');
     term(list, 'Reciprocal times', text);
   }
 
   const residuals = interpretation.qc?.residuals;
   if (residuals && typeof residuals.rmsMs === 'number') {
-    term(list, 'Picks against the model', 'RMS misfit ' + fixed(residuals.rmsMs, 2) + ' ms');
+    term(list, 'Picks against the model', 'RMS misfit ' + milliseconds(residuals.rmsMs) + ' ms');
   }
 }
 
 /**
- * Lists qc.warnings; hides the box when there are none.
+ * Lists qc.warnings other than the hidden-layer caution (shown on its own, see
+ * renderAllowance); hides the box when there are none.
  * @param {HTMLElement} box
  * @param {HTMLElement} list
  * @param {readonly Warning[] | undefined} warnings
  */
 export function renderWarnings(box, list, warnings) {
-  const items = Array.isArray(warnings) ? warnings : [];
+  const items = otherWarnings(warnings);
   list.replaceChildren(...items.map((w) => {
     const li = el('li', '', w.message ?? w.code ?? 'Warning');
     // Add the place only when the message does not already name it.
@@ -142,27 +148,68 @@ export function renderWarnings(box, list, warnings) {
 }
 
 /**
- * Shows a failed request: the message, then every problem with where it is, in plain
- * words and as the JSON path the service gave.
+ * The hidden-layer allowance below the figures, in calm words with its numbers; hidden when
+ * the engine gave no such caution.
+ * @param {{ box: HTMLElement, headline: HTMLElement, detail: HTMLElement, reasoning: HTMLElement }} parts
+ * @param {Interpretation} interpretation
+ */
+export function renderAllowance(parts, interpretation) {
+  const note = hiddenLayerNote(interpretation);
+  parts.box.hidden = note === null;
+  parts.headline.textContent = note?.headline ?? '';
+  parts.detail.textContent = note?.detail ?? '';
+  parts.reasoning.textContent = note?.reasoning ?? '';
+}
+
+/**
+ * The one line above the figures: the hidden-layer allowance in short and how many other
+ * warnings are listed below the figures, so neither pushes the figures down. Hidden when empty.
+ * @param {HTMLElement} line
+ * @param {Interpretation} interpretation
+ */
+export function renderLineNotes(line, interpretation) {
+  const note = hiddenLayerNote(interpretation);
+  const count = otherWarnings(interpretation.qc?.warnings).length;
+  line.replaceChildren();
+  if (note) line.append(el('span', 'line-note allowance-note', note.short));
+  if (count) {
+    const link = el('a', 'line-note warning-note', count + (count === 1 ? ' warning' : ' warnings') + ' about this line, listed below the figures');
+    link.href = '#warnings';
+    line.append(link);
+  }
+  line.hidden = !note && !count;
+}
+
+/**
+ * Shows a failed request beside the input: one sentence saying what did not happen, then
+ * every problem once, in words, with where it is ("line 12 of the pick table, column
+ * “time_ms”"). The service's own summary sentence ("… one more problem is listed in
+ * problems") is not repeated when the problems themselves are listed. A JSON pointer is shown
+ * only where no plain words for it exist.
  * @param {HTMLElement} box
  * @param {Pick<Failure, 'message' | 'path' | 'problems'>} failure
  * @param {SurveyNames} [survey]
+ * @param {string} [what] What did not happen, e.g. "The line was not interpreted".
  */
-export function renderFailure(box, failure, survey) {
+export function renderFailure(box, failure, survey, what) {
   box.replaceChildren();
-  box.append(el('p', 'message-title', failure.message));
   const problems = failure.problems.length
     ? failure.problems
-    : failure.path ? [{ path: failure.path, message: '' }] : [];
-  if (problems.length) {
+    : failure.path ? [{ path: failure.path, message: failure.message }] : [];
+  const count = problems.length;
+  const title = count === 0
+    ? (what ? what + ': ' : '') + failure.message
+    : (what ?? 'The request was refused') + (count === 1 ? ':' : ': ' + count + ' problems, each listed below.');
+  box.append(el('p', 'message-title', title));
+  if (count) {
     const list = el('ul', 'problem-list');
     for (const problem of problems) {
       const li = el('li');
       if (problem.message) li.append(el('span', '', problem.message + ' '));
-      const where = el('span', 'where', 'Where: ' + describePath(problem.path, survey));
-      if (problem.path) {
-        where.append(' ', el('code', '', problem.path));
-      }
+      const words = describePath(problem.path, survey);
+      const where = el('span', 'where', 'Where: ' + words);
+      // A pointer the page has no words for is shown as it is, so it can still be found.
+      if (problem.path && words === problem.path) where.replaceChildren('Where: ', el('code', '', problem.path));
       li.append(where);
       list.append(li);
     }

@@ -1,38 +1,32 @@
 /**
  * Number formatting for labels. Written out by hand (no Intl) so the output does not
  * depend on the machine's locale: every render of the same interpretation is identical.
+ * How many digits a velocity, a length or a time shows is declared once, in
+ * web/display-precision.js, which the page, the share page and stations.csv read too: the
+ * drawings and the tables show the same numbers.
  */
+import { fixedDecimals, groupThousands, metresText, millisecondsText, velocityText } from '../../web/display-precision.js';
 
-/** Groups thousands with commas: 12480 → "12,480". Integers only; rounds first. */
-export function groupThousands(value: number): string {
-  const rounded = Math.round(value);
-  const sign = rounded < 0 ? '-' : '';
-  const digits = String(Math.abs(rounded));
-  return sign + digits.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-}
+export { groupThousands };
 
-/**
- * A velocity label, rounded to 10 m/s (the precision a refraction velocity is quoted to,
- * common practice): 2483.2 → "2,480 m/s".
- */
+/** A velocity label, rounded to the shown step (10 m/s): 2483.2 → "2,480 m/s". */
 export function formatVelocity(velocityMPerS: number): string {
-  return `${groupThousands(Math.round(velocityMPerS / 10) * 10)} m/s`;
+  return `${velocityText(velocityMPerS)} m/s`;
 }
 
 /** Fixed decimals without "-0.0". */
 export function fixed(value: number, decimals: number): string {
-  const text = value.toFixed(decimals);
-  return /^-0(\.0+)?$/.test(text) ? text.slice(1) : text;
+  return fixedDecimals(value, decimals);
 }
 
-/** Metres to one decimal: "2.8 m". */
+/** A length to the shown decimals (0.1 m): "2.8 m". */
 export function formatMetres(valueM: number): string {
-  return `${fixed(valueM, 1)} m`;
+  return `${metresText(valueM)} m`;
 }
 
-/** Milliseconds to one decimal: "0.4 ms". */
+/** A time to the shown decimals (0.1 ms): "0.4 ms". */
 export function formatMs(valueMs: number): string {
-  return `${fixed(valueMs, 1)} ms`;
+  return `${millisecondsText(valueMs)} ms`;
 }
 
 /** A tick label: as many decimals as the tick step needs, no more. */

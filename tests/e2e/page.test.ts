@@ -251,8 +251,11 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await context.close();
   });
 
-  it('lists every problem of a rejected survey in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+  it('replaces the open line with the error of a rejected survey, and lists every problem once, in plain words with where it is', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { context, page, trouble } = await openArcline(launched, baseUrl);
+    // The stored demo line is on show first: its figures and table must not stay beside the error.
+    await page.locator('#station-body tr').first().waitFor();
+    expect(await page.isVisible('#figures')).toBe(true);
 
     // Two faults: geophones out of order, and a negative first-break time.
     const bad = structuredClone(flat);
@@ -274,17 +277,36 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await box.waitFor({ state: 'visible' });
     expect(await box.getAttribute('role')).toBe('alert');
     const text = (await box.textContent()) ?? '';
-    expect(text).toContain(body.error.message);
-    const problems = body.problems?.length ? body.problems : [{ path: body.error.path, message: '' }];
+    const problems = body.problems?.length ? body.problems : [{ path: body.error.path, message: body.error.message }];
+    expect(problems.length).toBe(2);
     expect(await box.locator('.problem-list > li').count()).toBe(problems.length);
+    expect(text).toContain('The line was not interpreted: 2 problems, each listed below.');
     for (const problem of problems) {
-      expect(text).toContain(problem.message);
-      expect(text).toContain(problem.path);
+      // Each problem once: the service's summary sentence repeats the first, and is not shown.
+      expect(text.split(problem.message).length - 1, problem.message).toBe(1);
     }
-    // The time fault is named by shot and geophone, not only by its JSON path.
-    if (problems.some((p) => p.path === '/shots/1/times/5')) {
-      expect(text).toContain(`shot 2 (“${bad.shots[1].id}”), pick at geophone 6`);
+    expect(text).not.toMatch(/listed in .?problems/i);
+    // Where, in words (no JSON pointer where words exist).
+    expect(text).toContain('Where: geophone 4, field “x”');
+    expect(text).toContain(`Where: shot 2 (“${bad.shots[1].id}”), pick at geophone 6`);
+    expect(text).not.toContain('/shots/1/times/5');
+
+    // The error replaced the demo line: no figures, no table, no summary of the old line; the
+    // header says so and points to the problems beside the input.
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe('Not interpreted');
+    expect(await page.textContent('#line-badge')).toBe('Not interpreted');
+    for (const gone of ['#figures', '#stations', '#summary', '#files-panel', '#line-notes', '#allowance']) {
+      expect(await page.isVisible(gone), gone).toBe(false);
     }
+    expect(await page.locator('#station-body tr').count()).toBe(0);
+    expect(await page.isVisible('#failed-note')).toBe(true);
+    expect(await page.textContent('#failed-note')).toContain('listed beside the input');
+    expect(await page.locator('#stored-list [aria-current="true"]').count()).toBe(0);
+    // Beside the input: the error box sits in the load panel, right of nothing but the input.
+    const panel = await page.locator('#load-heading').locator('..').boundingBox();
+    const boxRect = await box.boundingBox();
+    expect(boxRect!.x).toBeGreaterThanOrEqual(panel!.x);
+    expect(boxRect!.x + boxRect!.width).toBeLessThanOrEqual(panel!.x + panel!.width + 1);
     await page.screenshot({ path: join(SCREENSHOTS, 'rejected-survey.png'), fullPage: true });
     // Chromium logs every non-2xx fetch as a console error; the 400 here is the point of the test.
     expectNoTrouble(trouble, [/status of 400/]);
@@ -327,6 +349,33 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     await expect.poll(() => page.textContent('#line-badge'), POLL).toBe('Not stored');
     expect(await page.locator('#station-body tr').count()).toBe(flat.geophones.length);
     expect(await page.textContent('#line-title')).toBe(flat.name);
+    expectNoTrouble(trouble);
+    await context.close();
+  });
+
+  it('names a binary file and an empty file for what they are, and keeps garbage out of the text box', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const { context, page, trouble } = await openArcline(launched, baseUrl);
+    await page.fill('#survey-text', '# name: kept\n');
+    // A SEG-2 shot record starts with the block id 0x3A55, little-endian (from memory: Pullan 1990); the rest is invented.
+    const record = Buffer.alloc(512);
+    record.writeUInt16LE(0x3a55, 0);
+    record.writeUInt16LE(1, 2);
+    for (let i = 32; i < 512; i += 1) record[i] = (i * 37) % 256;
+    await page.setInputFiles('#file-input', { name: 'shot-01.sg2', mimeType: 'application/octet-stream', buffer: record });
+    const box = page.locator('#error-box');
+    await box.waitFor({ state: 'visible' });
+    const text = (await box.textContent()) ?? '';
+    expect(text).toContain('“shot-01.sg2” is a SEG-2 seismograph record, not a pick file');
+    expect(text).toContain('CSV pick table');
+    expect(await page.inputValue('#survey-text')).toBe('# name: kept\n');
+    expect(await page.inputValue('#file-input')).toBe('');
+
+    // An empty file that was chosen is named; the page does not ask to choose one.
+    await page.setInputFiles('#file-input', { name: 'picks.csv', mimeType: 'text/csv', buffer: Buffer.alloc(0) });
+    await expect.poll(() => page.textContent('#format-name'), POLL).toBe('nothing loaded yet');
+    await page.click('#interpret-button');
+    await expect.poll(() => box.textContent(), POLL).toContain('The file “picks.csv” is empty');
+    expect(await box.textContent()).not.toContain('choose a pick file');
     expectNoTrouble(trouble);
     await context.close();
   });

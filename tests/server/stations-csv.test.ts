@@ -6,6 +6,7 @@ import { csvCell, downloadName, stationsCsv } from '../../server/stations-csv.js
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
+import { DISPLAY_PRECISION } from '../../web/display-precision.js';
 
 function parseRows(csv: string): string[][] {
   expect(csv.endsWith('\r\n')).toBe(true);
@@ -20,21 +21,27 @@ describe('stationsCsv', () => {
     const rows = parseRows(stationsCsv(interpretation));
     const header = rows[0];
     expect(rows).toHaveLength(interpretation.stations.length + 1);
-    const fields: [string, keyof Station][] = [
-      ['x_m', 'x'],
-      ['elevation_m', 'elevation'],
-      ['delay_time_ms', 'delayTime'],
-      ['depth_m', 'depth'],
-      ['refractor_elevation_m', 'refractorElevation'],
-      ['v1_m_per_s', 'v1'],
-      ['refractor_velocity_m_per_s', 'refractorVelocity'],
+    // Each cell within half the shown step of the interpretation's value: 0.1 m, 0.1 ms, 10 m/s.
+    const halfStep = (decimals: number) => 0.5 * 10 ** -decimals + 1e-9;
+    const fields: [string, keyof Station, number][] = [
+      ['x_m', 'x', halfStep(DISPLAY_PRECISION.metreDecimals)],
+      ['elevation_m', 'elevation', halfStep(DISPLAY_PRECISION.metreDecimals)],
+      ['delay_time_ms', 'delayTime', halfStep(DISPLAY_PRECISION.millisecondDecimals)],
+      ['depth_m', 'depth', halfStep(DISPLAY_PRECISION.metreDecimals)],
+      ['refractor_elevation_m', 'refractorElevation', halfStep(DISPLAY_PRECISION.metreDecimals)],
+      ['v1_m_per_s', 'v1', DISPLAY_PRECISION.velocityStepMPerS / 2],
+      ['refractor_velocity_m_per_s', 'refractorVelocity', DISPLAY_PRECISION.velocityStepMPerS / 2],
     ];
     interpretation.stations.forEach((station, i) => {
-      for (const [column, key] of fields) {
+      for (const [column, key, tolerance] of fields) {
         const cell = rows[i + 1][header.indexOf(column)];
         const value = station[key] as number | null;
         if (value === null) expect(cell).toBe('');
-        else expect(Number(cell)).toBeCloseTo(value, 3);
+        else expect(Math.abs(Number(cell) - value), `${column} of station ${i}`).toBeLessThanOrEqual(tolerance);
+      }
+      for (const column of ['v1_m_per_s', 'refractor_velocity_m_per_s']) {
+        const cell = rows[i + 1][header.indexOf(column)];
+        if (cell !== '') expect(Number(cell) % DISPLAY_PRECISION.velocityStepMPerS, column).toBe(0);
       }
       // The first refractor's depth is the depth_m column; the file has no copy of it.
       expect(station.depths[0] ?? null).toBe(station.depth);
@@ -58,10 +65,11 @@ describe('stationsCsv', () => {
     expect(first.delay_time_ms).toBe('');
     expect(first.depth_to_refractor_2_m).toBe('');
     expect(first.future_score_ratio).toBe('');
-    // The declared decimals of the column (0.01 ms), as on the page and the share page.
-    expect(second.delay_time_ms).toBe('4.12');
-    expect(second.depth_to_refractor_2_m).toBe('9.10');
-    expect(second.x_m).toBe('2.50');
+    // The shown precision (0.1 ms, 0.1 m, 10 m/s), as on the page, the share page and the drawings.
+    expect(second.delay_time_ms).toBe('4.1');
+    expect(second.depth_to_refractor_2_m).toBe('9.1');
+    expect(second.x_m).toBe('2.5');
+    expect(second.refractor_velocity_m_per_s).toBe('2400');
     expect(second.future_score_ratio).toBe('0.75');
   });
 });

@@ -1,7 +1,7 @@
 // The page's pure word and number helpers (web/describe.js), run in node: no DOM needed.
 import { describe, expect, it } from 'vitest';
 import {
-  coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, velocity, when,
+  binaryKind, coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, velocity, when,
 } from '../../web/describe.js';
 
 describe('detectFormat', () => {
@@ -25,12 +25,16 @@ describe('number formats', () => {
     expect(fixed('3', 1)).toBe('—');
   });
 
-  it('keeps whole metres whole and velocities to the metre per second', () => {
-    expect(metres(12)).toBe('12');
+  it('shows lengths to 0.1 m and velocities to 10 m/s with thousands grouped, as the drawings do', () => {
+    expect(metres(12)).toBe('12.0');
     expect(metres(2.5)).toBe('2.5');
-    expect(metres(1.234)).toBe('1.23');
+    expect(metres(1.234)).toBe('1.2');
+    expect(metres(-0.04)).toBe('0.0');
     expect(metres(undefined)).toBe('—');
-    expect(velocity(2449.6)).toBe('2450');
+    expect(velocity(2449.6)).toBe('2,450');
+    expect(velocity(698)).toBe('700');
+    expect(velocity(2801)).toBe('2,800');
+    expect(velocity(null)).toBe('—');
   });
 });
 
@@ -83,5 +87,24 @@ describe('pickTableName, fileStem, when', () => {
     expect(when('not a date')).toBe('not a date');
     expect(when(42)).toBe('');
     expect(when('2024-05-01T10:00:00Z')).toMatch(/2024/);
+  });
+});
+
+describe('binaryKind', () => {
+  const bytes = (...values: number[]) => new Uint8Array(values);
+  const text = (t: string) => new TextEncoder().encode(t);
+  it('names a seismograph record and common containers by their first bytes', () => {
+    // SEG-2 file descriptor block id 0x3A55, little-endian (from memory: Pullan 1990).
+    expect(binaryKind(bytes(0x55, 0x3a, 0x01, 0x00, 0x20, 0x00))).toBe('a SEG-2 seismograph record');
+    // SEG-Y EBCDIC header: "C" (0xC3) then a space (0x40) (SEG-Y rev 1).
+    expect(binaryKind(bytes(0xc3, 0x40, 0xf1, 0x40))).toBe('a SEG-Y seismic data file');
+    expect(binaryKind(text('PK\u0003\u0004rest'))).toMatch(/ZIP container/);
+    expect(binaryKind(text('%PDF-1.7\n'))).toBe('a PDF document');
+    expect(binaryKind(bytes(0x10, 0x00, 0x41))).toBe('a binary file');
+  });
+  it('lets text pick files through, with tabs, CRLF and a byte-order mark', () => {
+    expect(binaryKind(text('\uFEFF# name: Line 1\r\nshot_x,x,time_ms\r\n0,2,1.5\t\r\n'))).toBeNull();
+    expect(binaryKind(text('{"name": "Läufer-Hang", "geophones": []}'))).toBeNull();
+    expect(binaryKind(bytes())).toBeNull();
   });
 });

@@ -6,7 +6,7 @@ import {
   cellData, cellText, columnHeading, DECLARED_STATION_FIELDS, stationColumns, UNIT_DECIMALS,
 } from '../../web/station-columns.js';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { OUTPUT_DECIMALS } from '../../engine/output/output-decimals.js';
+import { DISPLAY_PRECISION } from '../../web/display-precision.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
@@ -45,8 +45,8 @@ function csvTable(interpretation: Interpretation): { head: string[]; rows: strin
 }
 
 describe('the declared columns', () => {
-  it('use the engine\'s output decimals for every unit, so no place hides or invents digits', () => {
-    expect(UNIT_DECIMALS).toEqual({ m: OUTPUT_DECIMALS.metres, ms: OUTPUT_DECIMALS.milliseconds, 'm/s': OUTPUT_DECIMALS.velocity });
+  it('use the shown precision of display-precision.js for every unit, the one the drawings use', () => {
+    expect(UNIT_DECIMALS).toEqual({ m: DISPLAY_PRECISION.metreDecimals, ms: DISPLAY_PRECISION.millisecondDecimals, 'm/s': 0 });
     for (const c of stationColumns(THREE_REFRACTORS)) {
       if (c.unit in UNIT_DECIMALS) expect(c.decimals, c.key).toBe(UNIT_DECIMALS[c.unit as keyof typeof UNIT_DECIMALS]);
     }
@@ -70,12 +70,17 @@ describe('the declared columns', () => {
     const [first, second] = THREE_REFRACTORS;
     const columns = stationColumns(THREE_REFRACTORS);
     const byKey = Object.fromEntries(columns.map((c) => [c.key, c]));
-    expect(cellText(byKey.x, second)).toBe('2.50');
-    expect(cellData(byKey.x, second)).toBe('2.50');
-    expect(cellText(byKey.depth3, first)).toBe('20.50');
+    expect(cellText(byKey.x, second)).toBe('2.5');
+    expect(cellData(byKey.x, second)).toBe('2.5');
+    expect(cellText(byKey.depth2, first)).toBe('9.3'); // 9.25 → 9.3 (toFixed: 9.25 is exact in binary, rounds half up)
+    expect(cellText(byKey.depth3, first)).toBe('20.5');
     expect(cellText(byKey.depth3, second)).toBe('—');
     expect(cellData(byKey.depth3, second)).toBe('');
     expect(cellText(byKey.v1, first)).toBe('500');
+    // Velocities to 10 m/s, thousands grouped for people (as the drawings write them), plain in the file.
+    const fast = { ...first, refractorVelocity: 2801 } as Station;
+    expect(cellText(byKey.refractorVelocity, fast)).toBe('2,800');
+    expect(cellData(byKey.refractorVelocity, fast)).toBe('2800');
     const coverage = stationColumns([{ ...first, coverage: 'phantom' } as Station]).find((c) => c.key === 'coverage')!;
     expect(cellText(coverage, { ...first, coverage: 'phantom' } as Station)).toBe('phantomed');
     expect(cellData(coverage, { ...first, coverage: 'phantom' } as Station)).toBe('phantom');
@@ -101,7 +106,8 @@ describe('share page and stations.csv', () => {
           expect(share.rows[i][j], `${c.key} of station ${i}`).toBe(cellText(c, station));
           if (c.decimals !== null) {
             // Same digits in the file as on the share page; an empty cell where the page shows a dash.
-            expect(csv.rows[i][j], `${c.key} of station ${i}`).toBe(share.rows[i][j] === '—' ? '' : share.rows[i][j]);
+            // Velocities drop only the thousands comma, a CSV separator.
+            expect(csv.rows[i][j], `${c.key} of station ${i}`).toBe(share.rows[i][j] === '—' ? '' : share.rows[i][j].replace(/,/g, ''));
           }
         });
       });
