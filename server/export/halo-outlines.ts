@@ -6,12 +6,12 @@
  * put every such label twice in the PDF's text layer (search and copy would find it
  * twice). So the halo becomes a path: the glyph outlines of the label, laid out by fontkit
  * from the same font file the PDF embeds, stroked white just before the text, which stays
- * real text drawn once. Cost: O(characters) per label.
+ * real text drawn once. Cost: O(length of the SVG) to find the labels, O(characters) per label.
  */
 import { readFileSync } from 'node:fs';
 import { create, type Font, type PathCommand } from 'fontkit';
 import type { FontFiles } from './export-fonts.js';
-import { inherited } from './svg-sheet.js';
+import { attributes, attributeText, decodeXml } from './svg-sheet.js';
 
 const HALO_ATTRIBUTES = ['stroke', 'stroke-width', 'stroke-linejoin', 'stroke-opacity', 'paint-order'] as const;
 
@@ -32,12 +32,6 @@ export function fontFileFor(fonts: FontFiles, bold: boolean, italic: boolean): s
   if (bold) return fonts.bold ?? fonts.regular;
   if (italic) return fonts.italic ?? fonts.regular;
   return fonts.regular;
-}
-
-function isHalo(text: Element): boolean {
-  const order = text.getAttribute('paint-order');
-  const stroke = text.getAttribute('stroke');
-  return order !== null && /^\s*stroke\b/.test(order) && stroke !== null && stroke !== 'none';
 }
 
 const round3 = (value: number): string => String(Math.round(value * 1000) / 1000);
@@ -70,37 +64,42 @@ export function labelOutline(font: Font, content: string, x: number, y: number, 
   return parts.join('');
 }
 
+/** A `<text>` without child elements (every label the renderer writes: text.ts uses a plain text node). */
+const PLAIN_TEXT = /<text((?:\s+[\w:.-]+\s*=\s*"[^"]*")*)\s*>([^<]*)<\/text>/g;
+
 /**
- * Replaces every haloed label's stroke by a stroked outline path placed just before it.
- * Without font files the halo is dropped (the label stays legible, lines may cross it).
- * Returns the number of halos outlined.
+ * Every haloed label's stroke replaced by a stroked outline path placed just before it.
+ * Without font files, or where a label does not state its size, the halo is dropped (the
+ * label stays legible; lines may cross it). `outlined` counts the halos drawn as outlines.
  */
-export function outlineHalos(root: Element, fonts: FontFiles | null): number {
+export function outlineHalos(svg: string, fonts: FontFiles | null): { svg: string; outlined: number } {
   let outlined = 0;
-  for (const text of Array.from(root.querySelectorAll('text'))) {
-    if (!isHalo(text)) continue;
-    const content = (text.textContent ?? '').replace(/\s+/g, ' ').trim();
-    const sizeMm = Number(inherited(text, 'font-size'));
-    const x = Number((text.getAttribute('x') ?? '0').split(/[\s,]+/)[0]);
-    const y = Number((text.getAttribute('y') ?? '0').split(/[\s,]+/)[0]);
+  const result = svg.replace(PLAIN_TEXT, (whole, attributeSource: string, escaped: string) => {
+    const values = attributes(attributeSource);
+    const stroke = values.get('stroke');
+    if (!/^\s*stroke\b/.test(values.get('paint-order') ?? '') || stroke === undefined || stroke === 'none') return whole;
+    const content = decodeXml(escaped).replace(/\s+/g, ' ').trim();
+    const sizeMm = Number(values.get('font-size'));
+    const x = Number((values.get('x') ?? '0').split(/[\s,]+/)[0]);
+    const y = Number((values.get('y') ?? '0').split(/[\s,]+/)[0]);
+    let halo = '';
     if (fonts !== null && content !== '' && sizeMm > 0 && Number.isFinite(x) && Number.isFinite(y)) {
-      const bold = /^(bold|bolder|[6-9]00)$/.test(inherited(text, 'font-weight') ?? '');
-      const italic = /^(italic|oblique)$/.test(inherited(text, 'font-style') ?? '');
+      const bold = /^(bold|bolder|[6-9]00)$/.test(values.get('font-weight') ?? '');
+      const italic = /^(italic|oblique)$/.test(values.get('font-style') ?? '');
       const font = loadFont(fontFileFor(fonts, bold, italic));
-      const path = text.ownerDocument.createElementNS('http://www.w3.org/2000/svg', 'path');
-      path.setAttribute('d', labelOutline(font, content, x, y, sizeMm, inherited(text, 'text-anchor') ?? 'start'));
-      path.setAttribute('fill', 'none');
+      const path = new Map<string, string>([['d', labelOutline(font, content, x, y, sizeMm, values.get('text-anchor') ?? 'start')], ['fill', 'none']]);
       for (const name of HALO_ATTRIBUTES) {
-        const value = text.getAttribute(name);
-        if (value !== null && name !== 'paint-order') path.setAttribute(name, value);
+        const value = values.get(name);
+        if (value !== undefined && name !== 'paint-order') path.set(name, value);
       }
-      const transform = text.getAttribute('transform');
-      if (transform !== null) path.setAttribute('transform', transform);
-      path.setAttribute('data-role', 'label-halo');
-      text.parentNode?.insertBefore(path, text);
+      const transform = values.get('transform');
+      if (transform !== undefined) path.set('transform', transform);
+      path.set('data-role', 'label-halo');
+      halo = `<path${attributeText(path)}></path>`;
       outlined += 1;
     }
-    for (const name of HALO_ATTRIBUTES) text.removeAttribute(name);
-  }
-  return outlined;
+    for (const name of HALO_ATTRIBUTES) values.delete(name);
+    return `${halo}<text${attributeText(values)}>${escaped}</text>`;
+  });
+  return { svg: result, outlined };
 }

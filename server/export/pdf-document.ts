@@ -4,7 +4,7 @@
  * pdfkit writes the PDF and svg-to-pdfkit draws each SVG into it as PDF paths and real
  * text in an embedded font subset (export-fonts.ts), so lines keep their widths at any
  * zoom and the labels can be searched and copied. Label halos are turned into outline
- * paths first (halo-outlines.ts).
+ * paths first (halo-outlines.ts), and rectangular clips into viewports (svg-sheet.ts).
  *
  * Placement: the page is the chosen ISO sheet in landscape; each drawing is scaled by one
  * factor to fill the area inside the printer margin and centred. A sheet drawn for that
@@ -19,7 +19,7 @@ import SVGtoPDF from 'svg-to-pdfkit';
 import type { FontFiles } from './export-fonts.js';
 import { fontFileFor, outlineHalos } from './halo-outlines.js';
 import { paperPoints, POINTS_PER_MM, printableMm, type PaperName } from './paper.js';
-import { parseSheet, serialiseSheet, sheetSizeMm } from './svg-sheet.js';
+import { clipRectsAsViewports, sheetSizeMm, withSheetSize } from './svg-sheet.js';
 
 export interface PdfMeta {
   title: string;
@@ -80,20 +80,17 @@ export function sheetsToPdf(sheets: string[], paper: PaperName, meta: PdfMeta, f
   const placements: number[] = [];
   const warnings: string[] = [];
   for (const sheet of sheets) {
-    const root = parseSheet(sheet);
-    outlineHalos(root, fonts);
-    const size = sheetSizeMm(root);
+    const size = sheetSizeMm(sheet);
     const fit = Math.min(printable.widthMm / size.widthMm, printable.heightMm / size.heightMm);
     // Within a thousandth of 1 is 1: a sheet made for this paper is printed as drawn.
     const factor = Math.abs(fit - 1) < 1e-3 ? 1 : fit;
     const widthMm = size.widthMm * factor;
     const heightMm = size.heightMm * factor;
-    root.setAttribute('width', `${widthMm}mm`);
-    root.setAttribute('height', `${heightMm}mm`);
+    const prepared = clipRectsAsViewports(withSheetSize(outlineHalos(sheet, fonts).svg, widthMm, heightMm));
     doc.addPage({ size: [page.widthPt, page.heightPt], margin: 0 });
     const x = (page.widthPt - widthMm * POINTS_PER_MM) / 2;
     const y = (page.heightPt - heightMm * POINTS_PER_MM) / 2;
-    SVGtoPDF(doc, serialiseSheet(root), x, y, {
+    SVGtoPDF(doc, prepared, x, y, {
       width: widthMm * POINTS_PER_MM,
       height: heightMm * POINTS_PER_MM,
       fontCallback: fontCallback(fonts),

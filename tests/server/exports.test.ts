@@ -294,3 +294,51 @@ describe('without font files', () => {
     expect(findExportFonts([tmpdir() + '/no-such-font-folder'])).toBeNull();
   });
 });
+
+describe('preparing a sheet for the PDF', () => {
+  // resvg (an independent SVG renderer) draws the sheet both ways: a rectangular clip-path
+  // and the nested viewport that replaces it must give the same picture.
+  it('draws the same pixels with the clips turned into viewports as with the clip-paths', async () => {
+    const { Resvg } = await import('@resvg/resvg-js');
+    const { clipRectsAsViewports } = await import('../../server/export/svg-sheet.js');
+    const stored = app.store.getRevision(id)!;
+    const opts = { paper: 'A4' as const, showArcs: true };
+    for (const svg of [sectionSheets(stored.survey, stored.interpretation, opts)[0], renderTravelTimes(stored.survey, stored.interpretation)]) {
+      const pixels = (text: string) => new Resvg(text, { dpi: 72 }).render().pixels;
+      const differing = (a: Buffer, b: Buffer) => a.reduce((n, byte, i) => n + (byte === b[i] ? 0 : 1), 0);
+      const asDrawn = pixels(svg);
+      const converted = clipRectsAsViewports(svg);
+      expect(converted).not.toContain('clip-path=');
+      // The clips matter on these drawings: without them thousands of bytes change…
+      const unclipped = differing(asDrawn, pixels(svg.replace(/ clip-path="[^"]*"/g, '')));
+      expect(unclipped).toBeGreaterThan(1000);
+      // …and the viewports reproduce them but for anti-aliasing along the clip edge.
+      expect(differing(asDrawn, pixels(converted))).toBeLessThan(unclipped / 50);
+    }
+  });
+
+  it('turns label halos into outline paths and leaves each label as text once', async () => {
+    const { outlineHalos } = await import('../../server/export/halo-outlines.js');
+    const fonts = findExportFonts();
+    const stored = app.store.getRevision(id)!;
+    const svg = renderTravelTimes(stored.survey, stored.interpretation);
+    const haloed = (svg.match(/paint-order="stroke"/g) ?? []).length;
+    expect(haloed).toBeGreaterThan(0);
+    const { svg: prepared, outlined } = outlineHalos(svg, fonts);
+    expect(prepared).not.toContain('paint-order');
+    expect(outlined).toBe(fonts === null ? 0 : haloed);
+    expect(svgTexts(prepared)).toEqual(svgTexts(svg));
+    // An outline lies where its label is: its first point within a label's width of the text's anchor.
+    if (fonts !== null) {
+      const root = parseSvg(prepared);
+      for (const halo of byRole(root, 'label-halo')) {
+        const text = halo.nextElementSibling!;
+        const [, x0, y0] = /^M(-?[\d.]+) (-?[\d.]+)/.exec(halo.getAttribute('d')!)!.map(Number);
+        const size = Number(text.getAttribute('font-size'));
+        const width = (text.textContent ?? '').length * size;
+        expect(Math.abs(x0 - Number(text.getAttribute('x')))).toBeLessThan(width);
+        expect(Math.abs(y0 - Number(text.getAttribute('y')))).toBeLessThan(size * 1.2);
+      }
+    }
+  });
+});
