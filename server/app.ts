@@ -20,6 +20,7 @@ import { surveyRoutes } from './routes/surveys.js';
 import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
 import { previewRoutes } from './routes/previews.js';
+import { exportRoutes } from './routes/exports.js';
 import { ComputePool, type ComputePoolOptions } from './compute/pool.js';
 import { openApiOptions, openApiRoutes } from './routes/openapi.js';
 
@@ -207,6 +208,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(shareRoutes, { store });
     await app.register(syntheticRoutes);
     await app.register(previewRoutes);
+    await app.register(exportRoutes, { store });
 
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {

@@ -175,9 +175,13 @@ export function toAppError(error: unknown, request?: FastifyRequest): { appError
     const first = fastifyError.validation[0];
     const field = first?.instancePath ? first.instancePath.slice(1) : '';
     const what = context === 'querystring' && field ? `query parameter "${field}"` : `${context}${field ? ` ${field}` : ''}`;
+    // An enum's message names the allowed values (spellings that differ only in case once).
+    const allowed = (first?.params as { allowedValues?: unknown[] } | undefined)?.allowedValues;
+    const firstSpellings = (allowed ?? []).map(String).filter((v, i, all) => all.findIndex((w) => w.toLowerCase() === v.toLowerCase()) === i);
+    const values = allowed ? `: ${firstSpellings.join(', ')}` : '';
     return {
       appError: new AppError('invalid_request', {
-        message: `The ${what} ${first?.message ?? 'is not valid'}.`,
+        message: `The ${what} ${first?.message ?? 'is not valid'}${values}.`,
         path: schemaErrorPath(fastifyError as FastifyError),
       }),
       unexpected: false,

@@ -13,6 +13,7 @@
 import { Type, type TSchema } from '@sinclair/typebox';
 import { SurveySchema } from '../engine/schemas/survey.js';
 import { InterpretationSchema } from '../engine/schemas/interpretation.js';
+import { EXPORT_DEFAULTS, EXPORT_LIMITS } from './export/export-options.js';
 
 const closed = { additionalProperties: false } as const;
 
@@ -170,4 +171,40 @@ export const HealthSchema = Type.Object({ status: Type.Literal('ok') }, closed);
 /** A response that is not JSON: described for the OpenAPI document, never serialised by a schema. */
 export function fileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {
   return { description, content: { [mediaType]: { schema: Type.String() } } };
+}
+
+/*
+ * Query strings of the exports (…/section.pdf|png, …/traveltimes.pdf|png). Limits come
+ * from server/export/export-options.ts; absent parameters take the defaults there.
+ */
+const exportRevision = Type.Optional(Type.Integer({ minimum: 1, description: 'A revision number; absent: the latest.' }));
+const paper = Type.Optional(
+  Type.String({ enum: ['A4', 'A3', 'a4', 'a3'], description: 'ISO 216 paper, landscape: A4 (default) or A3. PDF pages are this size.' }),
+);
+const dpi = Type.Optional(
+  Type.Integer({ ...EXPORT_LIMITS.dpi, description: `PNG resolution, dots per inch (default ${EXPORT_DEFAULTS.dpi}); the image is the drawing's size on paper at this resolution.` }),
+);
+const sectionSheetQuery = {
+  revision: exportRevision,
+  paper,
+  scale: Type.Optional(
+    Type.Integer({ ...EXPORT_LIMITS.scale, description: 'Horizontal drawing scale 1:N, given as N (e.g. 500 for 1:500); absent: the line is fitted to the sheet.' }),
+  ),
+  exaggeration: Type.Optional(
+    Type.Number({ ...EXPORT_LIMITS.verticalExaggeration, description: 'Vertical exaggeration (e.g. 2 for 2:1); absent: chosen to fill the sheet.' }),
+  ),
+  arcs: Type.Optional(Type.Boolean({ description: 'Draw the depth arcs (default true).' })),
+};
+export const sectionPdfQuerySchema = Type.Object(sectionSheetQuery);
+export const sectionPngQuerySchema = Type.Object({
+  ...sectionSheetQuery,
+  dpi,
+  sheet: Type.Optional(Type.Integer({ minimum: 1, description: 'Which sheet of a section paged over several (default 1); the answer\'s Arcline-Sheet-Count header gives how many.' })),
+});
+export const travelTimesPdfQuerySchema = Type.Object({ revision: exportRevision, paper });
+export const travelTimesPngQuerySchema = Type.Object({ revision: exportRevision, dpi });
+
+/** A binary file answer (PDF, PNG), for the OpenAPI document. */
+export function binaryFileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {
+  return { description, content: { [mediaType]: { schema: Type.String({ format: 'binary' }) } } };
 }

@@ -310,7 +310,8 @@ export function fetchLine(id, revision) {
  * Relative URLs of the files of a stored line; of one revision when `revision` is given.
  * @param {string} id
  * @param {number} [revision]
- * @returns {{ section: string, travelTimes: string, stations: string, interpretation: string }}
+ * @returns {{ section: string, travelTimes: string, stations: string, interpretation: string,
+ *   sectionPdf: string, sectionPng: string, travelTimesPdf: string, travelTimesPng: string }}
  */
 export function lineFileUrls(id, revision) {
   const base = 'api/v1/surveys/' + encodeURIComponent(id) + '/';
@@ -320,5 +321,9 @@ export function lineFileUrls(id, revision) {
     travelTimes: base + 'traveltimes.svg' + query,
     stations: base + 'stations.csv' + query,
     interpretation: base + 'interpretation.json' + query,
+    sectionPdf: base + 'section.pdf' + query,
+    sectionPng: base + 'section.png' + query,
+    travelTimesPdf: base + 'traveltimes.pdf' + query,
+    travelTimesPng: base + 'traveltimes.png' + query,
   };
 }

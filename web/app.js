@@ -438,6 +438,10 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   setDownload('download-traveltimes', urls.travelTimes, stem + '-traveltimes.svg');
   setDownload('download-stations', urls.stations, stem + '-stations.csv');
   setDownload('download-interpretation', urls.interpretation, stem + '-interpretation.json');
+  setDownload('download-section-pdf', urls.sectionPdf, stem + '-section.pdf');
+  setDownload('download-section-png', urls.sectionPng, stem + '-section.png');
+  setDownload('download-traveltimes-pdf', urls.travelTimesPdf, stem + '-traveltimes.pdf');
+  setDownload('download-traveltimes-png', urls.travelTimesPng, stem + '-traveltimes.png');
   ui.filesPanel.hidden = false;
 
   showShareLink(shareUrlFromStore ?? result.data?.shareUrl);

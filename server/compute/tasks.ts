@@ -1,7 +1,7 @@
 /**
  * The computations the service hands to its worker threads, by name: everything that costs
  * more than reading or writing a stored record (interpreting a line, drawing a figure,
- * making a synthetic line). Pure functions of their input, so a worker can run any of
+ * making a synthetic line, writing a PDF or PNG). Pure functions of their input, so a worker can run any of
  * them and the main thread never does.
  */
 import { interpret } from '../../engine/pipeline/interpret.js';
@@ -10,6 +10,8 @@ import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
 import { refractorVisibility, visibilityNotes, type RefractorVisibility, type SyntheticNote } from '../../engine/forward/refractor-visibility.js';
+import { exportFile, type ExportRequest } from '../export/export-file.js';
+import type { ExportResult } from '../export/section-pages.js';
 
 export type Figure = 'section' | 'traveltimes';
 
@@ -24,6 +26,8 @@ export interface TaskTable {
     input: { request: SyntheticRequest; interpret: boolean };
     result: { survey: Survey; interpretation: Interpretation | null; refractors: RefractorVisibility[]; notes: SyntheticNote[] };
   };
+  /** A figure of a stored revision as PDF (every sheet) or PNG (one sheet). */
+  exportFile: { input: ExportRequest; result: Promise<ExportResult> };
 }
 
 export type TaskName = keyof TaskTable;
@@ -49,6 +53,7 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
     const refractors = refractorVisibility(request);
     return { survey, interpretation: withInterpretation ? interpret(survey) : null, refractors, notes: visibilityNotes(refractors) };
   },
+  exportFile: (request) => exportFile(request),
 };
 
 /** Runs one task here, in this thread (the worker's entry calls this). */

@@ -94,9 +94,11 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expect(shown.map((t) => t.replace(/\s+/g, ' ').trim())).toEqual([...CAUTIONS]);
 
     // Downloads point at the stored line's files, and the files answer.
-    for (const id of ['download-section', 'download-traveltimes', 'download-stations', 'download-interpretation']) {
+    const downloads = ['download-section', 'download-traveltimes', 'download-stations', 'download-interpretation'];
+    downloads.push('download-section-pdf', 'download-section-png', 'download-traveltimes-pdf', 'download-traveltimes-png');
+    for (const id of downloads) {
       const href = await page.getAttribute('#' + id, 'href');
-      expect(href).toMatch(/^api\/v1\/surveys\/[^/]+\/(section\.svg|traveltimes\.svg|stations\.csv|interpretation\.json)$/);
+      expect(href).toMatch(/^api\/v1\/surveys\/[^/]+\/(section\.(svg|pdf|png)|traveltimes\.(svg|pdf|png)|stations\.csv|interpretation\.json)$/);
       const response = await page.request.get(new URL(href!, baseUrl).href);
       expect(response.status(), href!).toBe(200);
     }

@@ -101,7 +101,7 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
     expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
     expect(await loadedWidth(page, '#traveltimes-image')).toBeGreaterThan(0);
     expect(await page.locator('#station-body tr').count()).toBe(demo.geophones.length);
-    for (const link of ['download-section', 'download-traveltimes', 'download-stations', 'download-interpretation']) {
+    for (const link of ['download-section', 'download-traveltimes', 'download-stations', 'download-interpretation', 'download-section-pdf', 'download-traveltimes-png']) {
       const href = await page.getAttribute('#' + link, 'href');
       expect(href).toMatch(/\?revision=1$/);
       expect((await page.request.get(new URL(href!, baseUrl).href)).status(), href!).toBe(200);

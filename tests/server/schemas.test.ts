@@ -131,6 +131,10 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/share/{token}'],
     ['post', '/api/v1/surveys/{id}/revisions'],
     ['get', '/api/v1/openapi.json'],
+    ['get', '/api/v1/surveys/{id}/section.pdf'],
+    ['get', '/api/v1/surveys/{id}/traveltimes.pdf'],
+    ['get', '/api/v1/surveys/{id}/section.png'],
+    ['get', '/api/v1/surveys/{id}/traveltimes.png'],
   ];
   const added: [string, string][] = [
     ['get', '/healthz'],

@@ -30,7 +30,12 @@ describe('request building', () => {
       travelTimes: 'api/v1/surveys/a%2Fb%20c/traveltimes.svg',
       stations: 'api/v1/surveys/a%2Fb%20c/stations.csv',
       interpretation: 'api/v1/surveys/a%2Fb%20c/interpretation.json',
+      sectionPdf: 'api/v1/surveys/a%2Fb%20c/section.pdf',
+      sectionPng: 'api/v1/surveys/a%2Fb%20c/section.png',
+      travelTimesPdf: 'api/v1/surveys/a%2Fb%20c/traveltimes.pdf',
+      travelTimesPng: 'api/v1/surveys/a%2Fb%20c/traveltimes.png',
     });
+    expect(lineFileUrls('id', 2).sectionPdf).toBe('api/v1/surveys/id/section.pdf?revision=2');
     expect(lineFileUrls('id', 2).section).toBe('api/v1/surveys/id/section.svg?revision=2');
   });
 });

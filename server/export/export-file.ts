@@ -1,0 +1,36 @@
+/**
+ * The export task (run in a compute worker, server/compute/tasks.ts): draw the figure of a
+ * stored revision and turn it into a PDF or a PNG.
+ */
+import { renderTravelTimes } from '../../engine/render/index.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import type { Survey } from '../../engine/survey/survey.js';
+import type { FontFiles } from './export-fonts.js';
+import type { ExportFormat, ExportOptions } from './export-options.js';
+import { assemblePages, sectionSheets, type ExportResult } from './section-pages.js';
+
+export type ExportFigure = 'section' | 'traveltimes';
+
+export interface ExportRequest {
+  figure: ExportFigure;
+  format: ExportFormat;
+  survey: Survey;
+  interpretation: Interpretation;
+  options: ExportOptions;
+  /** The stored line: its name, revision number and when the revision was stored. */
+  line: { name: string; revision: number; createdAt: string };
+  fonts: FontFiles | null;
+}
+
+const FIGURE_TITLE: Record<ExportFigure, string> = { section: 'Depth section', traveltimes: 'Time–distance plot' };
+
+export function exportFile(request: ExportRequest): Promise<ExportResult> {
+  const { figure, format, survey, interpretation, options, line, fonts } = request;
+  const sheets = figure === 'section' ? sectionSheets(survey, interpretation, options) : [renderTravelTimes(survey, interpretation)];
+  const meta = {
+    title: `${FIGURE_TITLE[figure]} — ${line.name}`,
+    subject: `Revision ${line.revision} of the line, drawn from its stored interpretation`,
+    createdAt: line.createdAt,
+  };
+  return assemblePages(sheets, format, options, meta, fonts);
+}
