@@ -2,7 +2,7 @@
  * The export task (run in a compute worker, server/compute/tasks.ts): draw the figure of a
  * stored revision and turn it into a PDF or a PNG.
  */
-import { renderTravelTimes } from '../../engine/render/index.js';
+import { renderTravelTimes, SectionSheetError } from '../../engine/render/index.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import type { FontFiles } from './export-fonts.js';
@@ -24,9 +24,15 @@ export interface ExportRequest {
 
 const FIGURE_TITLE: Record<ExportFigure, string> = { section: 'Depth section', traveltimes: 'Time–distance plot' };
 
-export function exportFile(request: ExportRequest): Promise<ExportResult> {
+export async function exportFile(request: ExportRequest): Promise<ExportResult> {
   const { figure, format, survey, interpretation, options, line, fonts } = request;
-  const sheets = figure === 'section' ? sectionSheets(survey, interpretation, options) : [renderTravelTimes(survey, interpretation)];
+  let sheets: string[];
+  try {
+    sheets = figure === 'section' ? sectionSheets(survey, interpretation, options) : [renderTravelTimes(survey, interpretation)];
+  } catch (e) {
+    if (e instanceof SectionSheetError) return { kind: 'sheet-options', problems: e.problems.map((p) => ({ ...(p.field ? { field: p.field } : {}), message: p.message })) };
+    throw e;
+  }
   const meta = {
     title: `${FIGURE_TITLE[figure]} — ${line.name}`,
     subject: `Revision ${line.revision} of the line, drawn from its stored interpretation`,

@@ -3,7 +3,7 @@
  * sheet as PNG. The assembly takes any list of drawn sheets, so a section paged over
  * several sheets (issue 11 item 3) is printed page by page without change here.
  */
-import { renderSection } from '../../engine/render/index.js';
+import { renderSectionSheets } from '../../engine/render/index.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import type { FontFiles } from './export-fonts.js';
@@ -12,18 +12,25 @@ import { sheetsToPdf, type PdfMeta } from './pdf-document.js';
 import { sheetToPng } from './png-image.js';
 
 /**
- * The section drawn for the chosen paper, one SVG per sheet. Until the sheet renderer
- * lands, the whole line on one sheet (the same drawing as section.svg); then this becomes
- * `renderSectionSheets(survey, interpretation, options)`.
+ * The section drawn for the chosen paper at the chosen scale and exaggeration, one SVG per
+ * sheet (renderSectionSheets: long lines are paged at match lines). Throws
+ * SectionSheetError for a scale or exaggeration that cannot be drawn (a section too tall
+ * for the sheet, or more sheets than SHEET_LIMITS allows); exportFile answers that as a 400.
  */
 export function sectionSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions): string[] {
-  return [renderSection(survey, interpretation, { showArcs: options.showArcs })];
+  return renderSectionSheets(survey, interpretation, {
+    paper: options.paper,
+    scale: options.scale ?? 'auto',
+    verticalExaggeration: options.verticalExaggeration ?? 'auto',
+    showArcs: options.showArcs,
+  });
 }
 
 export type ExportResult =
   | { kind: 'file'; bytes: Uint8Array; sheetCount: number; sheet: number; warnings: string[] }
   | { kind: 'sheet-out-of-range'; sheetCount: number }
-  | { kind: 'too-many-sheets'; sheetCount: number };
+  | { kind: 'too-many-sheets'; sheetCount: number }
+  | { kind: 'sheet-options'; problems: { field?: string; message: string }[] };
 
 /** PDF: every sheet, one page each (refused past EXPORT_LIMITS.sheets). PNG: sheet `options.sheet`. */
 export async function assemblePages(

@@ -100,6 +100,13 @@ export async function exportRoutes(app: FastifyInstance, options: ExportRouteOpt
             path: '/sheet',
           });
         }
+        if (result.kind === 'sheet-options') {
+          // The sheet renderer's own refusal (e.g. a section too tall for the sheet at this
+          // exaggeration); its option names are the query's (verticalExaggeration → exaggeration).
+          const first = result.problems[0];
+          const field = first?.field === 'verticalExaggeration' ? 'exaggeration' : first?.field ?? 'scale';
+          throw new AppError('invalid_request', { message: result.problems.map((p) => p.message).join(' '), path: `/${field}` });
+        }
         if (result.kind === 'too-many-sheets') {
           throw new AppError('invalid_request', {
             message:

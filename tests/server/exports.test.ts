@@ -342,3 +342,42 @@ describe('preparing a sheet for the PDF', () => {
     }
   });
 });
+
+/**
+ * Issue 11 "done means": a 240-geophone, 12-shot line on A3 landscape at a stated scale,
+ * downloaded as one PDF page per sheet (renderSectionSheets pages long lines at match lines).
+ * The sheet count is checked against the renderer's own plan for the same options, and each
+ * page against ISO 216 A3 in points.
+ */
+describe('a long line as a multi-page PDF', () => {
+  let longId: string;
+  beforeAll(async () => {
+    const { longLine } = await import('../helpers/long-lines.js');
+    const survey = longLine({ geophones: 240, spacingM: 5, shots: 12 });
+    const res = await request(app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(JSON.stringify({ ...survey, name: 'long line 240 x 5 m' }));
+    expect(res.status).toBe(201);
+    longId = res.body.id;
+  });
+
+  it('section.pdf at A3 1:2500: one A3 page per sheet, as many as the sheet renderer draws, more than one', async () => {
+    const res = await getFile(`/api/v1/surveys/${longId}/section.pdf?paper=A3&scale=2500`);
+    expect(res.status).toBe(200);
+    const stored = await request(app.server).get(`/api/v1/surveys/${longId}`);
+    const sheets = sectionSheets(stored.body.survey, stored.body.interpretation, { paper: 'A3', scale: 2500, showArcs: true });
+    expect(sheets.length).toBeGreaterThan(1);
+    const pdf = await readPdf(res.body);
+    expect(pdf.pages.length).toBe(sheets.length);
+    expect(Number(res.headers['arcline-sheet-count'])).toBe(sheets.length);
+    for (const page of pdf.pages) {
+      expect(page.widthPt).toBeCloseTo(A3_PT.width, 2);
+      expect(page.heightPt).toBeCloseTo(A3_PT.height, 2);
+      expect(pageTexts(page).join(' ')).toContain('1:2,500');
+    }
+  });
+
+  it('a section too tall for the sheet at the asked exaggeration is a 400 naming exaggeration', async () => {
+    const res = await request(app.server).get(`/api/v1/surveys/${longId}/section.pdf?scale=50&exaggeration=20`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.path).toMatch(/^\/(exaggeration|scale)$/);
+  });
+});
