@@ -25,7 +25,7 @@ export const HIDDEN_LAYER_CODE = 'hidden-layer';
 /**
  * The hidden-layer note of an interpretation, or null when the engine gave no such caution.
  * The extra depth per station is hiddenLayerDepth − depth (both from the interpretation), so
- * the range quoted is exactly what the dashed line on the section and the table column show.
+ * the range quoted is exactly what the dash-dot line on the section and the table column show.
  * Cost O(n) in stations.
  * @param {Pick<Interpretation, 'stations' | 'qc'>} interpretation
  * @returns {HiddenLayerNote | null}
@@ -58,7 +58,7 @@ export function hiddenLayerNote(interpretation) {
     headline: 'If a layer too thin to give first arrivals lies above the refractor, '
       + 'the refractor could be up to ' + metres(most) + ' m deeper than drawn' + along + '.',
     detail: 'A limit of the method on every refraction line, not a fault in these picks. The section draws the '
-      + 'deeper limit as a dashed line; the station table gives it as “Depth if a hidden layer”.',
+      + 'deeper limit as a dash-dot line; the station table gives it as “Depth if a hidden layer”.',
     reasoning,
     mostExtraM: most,
   };

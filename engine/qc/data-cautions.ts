@@ -109,7 +109,7 @@ function hiddenLayerCaution(survey: Survey, interp: Interpretation): HiddenLayer
       return extra[k] + (extra[k + 1] - extra[k]) * (t - k);
     };
     return {
-      warning: { ...w, message: `${w.message} The section shows that deeper limit as a dashed line. (Blind zone: such a layer would never arrive first at these offsets; ASTM D5777; USACE EM 1110-1-1802.)` },
+      warning: { ...w, message: `${w.message} The section shows that deeper limit as a dash-dot line. (Blind zone: such a layer would never arrive first at these offsets; ASTM D5777; USACE EM 1110-1-1802.)` },
       deepestM: interp.stations.map((s) => (isNum(s.depth) && s.depth > 0 ? roundM(s.depth + extraAt(s.depth)) : null)),
     };
   } catch {
