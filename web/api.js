@@ -307,6 +307,23 @@ export function fetchLine(id, revision) {
 }
 
 /**
+ * `url` with the paper and section scale of the exported files added to its query: none
+ * for the defaults (A4, scale chosen by the service), `paper=A3` and `scale=N` otherwise.
+ * @param {string} url
+ * @param {{ paper: string, scale: string }} sheet
+ * @param {boolean} withScale  false for the time–distance plot, which has no scale
+ * @returns {string}
+ */
+export function withSheetQuery(url, sheet, withScale) {
+  const params = [];
+  if (sheet.paper === 'A3') params.push('paper=A3');
+  const n = Number(sheet.scale);
+  if (withScale && sheet.scale.trim() !== '' && Number.isInteger(n) && n > 0) params.push('scale=' + n);
+  if (params.length === 0) return url;
+  return url + (url.includes('?') ? '&' : '?') + params.join('&');
+}
+
+/**
  * Relative URLs of the files of a stored line; of one revision when `revision` is given.
  * @param {string} id
  * @param {number} [revision]

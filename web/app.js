@@ -2,7 +2,7 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision,
+  LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import { layoutChange } from './layout-change.js';
@@ -438,10 +438,8 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   setDownload('download-traveltimes', urls.travelTimes, stem + '-traveltimes.svg');
   setDownload('download-stations', urls.stations, stem + '-stations.csv');
   setDownload('download-interpretation', urls.interpretation, stem + '-interpretation.json');
-  setDownload('download-section-pdf', urls.sectionPdf, stem + '-section.pdf');
-  setDownload('download-section-png', urls.sectionPng, stem + '-section.png');
-  setDownload('download-traveltimes-pdf', urls.travelTimesPdf, stem + '-traveltimes.pdf');
-  setDownload('download-traveltimes-png', urls.travelTimesPng, stem + '-traveltimes.png');
+  exportFiles = { urls, stem };
+  setExportDownloads();
   ui.filesPanel.hidden = false;
 
   showShareLink(shareUrlFromStore ?? result.data?.shareUrl);
@@ -458,6 +456,20 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
  */
 function integerOr(value, fallback) {
   return typeof value === 'number' && Number.isInteger(value) ? value : fallback;
+}
+
+/** @type {{ urls: ReturnType<typeof lineFileUrls>, stem: string } | null} */
+let exportFiles = null;
+
+/** The PDF and PNG links of the open line, with the paper and section scale chosen beside them. */
+function setExportDownloads() {
+  if (!exportFiles) return;
+  const { urls, stem } = exportFiles;
+  const sheet = { paper: $('export-paper', HTMLSelectElement).value, scale: $('export-scale', HTMLInputElement).value };
+  setDownload('download-section-pdf', withSheetQuery(urls.sectionPdf, sheet, true), stem + '-section.pdf');
+  setDownload('download-section-png', withSheetQuery(urls.sectionPng, sheet, true), stem + '-section.png');
+  setDownload('download-traveltimes-pdf', withSheetQuery(urls.travelTimesPdf, sheet, false), stem + '-traveltimes.pdf');
+  setDownload('download-traveltimes-png', urls.travelTimesPng, stem + '-traveltimes.png');
 }
 
 /**
@@ -759,6 +771,8 @@ function imageFailed(event) {
 
 function wire() {
   ui.fileInput.addEventListener('change', () => { void loadChosenFile(); });
+  $('export-paper', HTMLSelectElement).addEventListener('change', setExportDownloads);
+  $('export-scale', HTMLInputElement).addEventListener('input', setExportDownloads);
   ui.text.addEventListener('input', () => {
     // Edited text is judged by its content, not by the name of the file it came from.
     input.fileName = '';

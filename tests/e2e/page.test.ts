@@ -103,6 +103,15 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
       expect(response.status(), href!).toBe(200);
     }
 
+    // Paper and scale chosen beside the links go into the PDF's query, and the file answers.
+    await page.selectOption('#export-paper', 'A3');
+    await page.fill('#export-scale', '250');
+    const pdfHref = await page.getAttribute('#download-section-pdf', 'href');
+    expect(pdfHref).toMatch(/section\.pdf\?paper=A3&scale=250$/);
+    const pdf = await page.request.get(new URL(pdfHref!, baseUrl).href);
+    expect(pdf.status(), pdfHref!).toBe(200);
+    expect(pdf.headers()['content-type']).toContain('application/pdf');
+
     await page.screenshot({ path: join(SCREENSHOTS, 'demo-line.png'), fullPage: true });
     expectNoTrouble(trouble);
     await context.close();

@@ -1,7 +1,7 @@
 // The page's request building and answer reading (web/api.js): everything but fetch itself.
 import { describe, expect, it } from 'vitest';
 import {
-  contentTypeOf, failureFromBody, lineFileUrls, readPreviewBundle, revisionQuery, statusWords, surveyPost,
+  contentTypeOf, failureFromBody, lineFileUrls, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
 } from '../../web/api.js';
 
 describe('request building', () => {
@@ -73,5 +73,15 @@ describe('reading answers', () => {
     expect(readPreviewBundle({ ...good, interpretation: { stations: 'no' } })).toBeNull();
     expect(readPreviewBundle(null)).toBeNull();
     expect(readPreviewBundle([good])).toBeNull();
+  });
+});
+
+describe('withSheetQuery: paper and section scale of the exported files', () => {
+  it('adds nothing for the defaults, paper=A3 and scale=N when chosen, after a revision query', () => {
+    expect(withSheetQuery('a/section.pdf', { paper: 'A4', scale: '' }, true)).toBe('a/section.pdf');
+    expect(withSheetQuery('a/section.pdf', { paper: 'A3', scale: '2500' }, true)).toBe('a/section.pdf?paper=A3&scale=2500');
+    expect(withSheetQuery('a/section.pdf?revision=2', { paper: 'A4', scale: '500' }, true)).toBe('a/section.pdf?revision=2&scale=500');
+    expect(withSheetQuery('a/traveltimes.pdf', { paper: 'A3', scale: '500' }, false)).toBe('a/traveltimes.pdf?paper=A3');
+    expect(withSheetQuery('a/section.pdf', { paper: 'A4', scale: '12.5' }, true)).toBe('a/section.pdf');
   });
 });
