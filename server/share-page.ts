@@ -83,6 +83,8 @@ export interface SharePageInput {
   travelTimesSvg: string;
   cautions: readonly string[];
   stationsCsvUrl: string;
+  /** Where the drawings' PDF and PNG files of this shared line live ("…/share/TOKEN/"); absent: no links. */
+  drawingFilesUrl?: string;
 }
 
 const PAGE_STYLE = `
@@ -194,7 +196,12 @@ ${
 </section>
 <section aria-label="Stations">
 <h2>Stations</h2>
-<p><a href="${escapeHtml(input.stationsCsvUrl)}" download>Download the station table (CSV)</a></p>
+<p><a href="${escapeHtml(input.stationsCsvUrl)}" download>Download the station table (CSV)</a></p>${
+  input.drawingFilesUrl === undefined
+    ? ''
+    : `
+<p class="drawing-files">Download the drawings: depth section <a href="${escapeHtml(input.drawingFilesUrl)}section.pdf" download>PDF</a> · <a href="${escapeHtml(input.drawingFilesUrl)}section.png" download>PNG</a>; time–distance plot <a href="${escapeHtml(input.drawingFilesUrl)}traveltimes.pdf" download>PDF</a> · <a href="${escapeHtml(input.drawingFilesUrl)}traveltimes.png" download>PNG</a> (A4 landscape; a long line is one PDF page per sheet).</p>`
+}
 <div class="table-wrap">
 <table>
 <thead>${stationHead(columns)}</thead>

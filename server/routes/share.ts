@@ -1,6 +1,7 @@
 /**
  * Share links: GET only. /share/:token is a read-only HTML page of the latest revision;
- * /share/:token/{section.svg,traveltimes.svg,stations.csv} are its pieces. No write
+ * /share/:token/{section.svg,traveltimes.svg,stations.csv} are its pieces (the PDF and PNG
+ * files of its drawings are served by routes/exports.ts). No write
  * route exists under /share, so POST/PUT/DELETE there meet the 404 handler.
  * Responses are not cached, so a revoked link stops working at once.
  */
@@ -48,6 +49,7 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
       travelTimesSvg,
       cautions: CAUTIONS,
       stationsCsvUrl: `/share/${token}/stations.csv`,
+      drawingFilesUrl: `/share/${token}/`,
     });
     privateResponse(reply);
     reply.header('Content-Security-Policy', SHARE_PAGE_CSP);

@@ -381,3 +381,26 @@ describe('a long line as a multi-page PDF', () => {
     expect(res.body.error.path).toMatch(/^\/(exaggeration|scale)$/);
   });
 });
+
+describe('exports of a shared line (/share/:token/…)', () => {
+  it('serve the latest revision\'s PDF and PNG, are linked from the share page, and stop with the link', async () => {
+    const posted = await request(app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(demoJsonText);
+    expect(posted.status).toBe(201);
+    const shareUrl: string = posted.body.shareUrl;
+    const path = new URL(shareUrl, 'http://localhost').pathname;
+    const page = await request(app.server).get(path);
+    expect(page.text).toContain(`${path}/section.pdf`);
+    expect(page.text).toContain(`${path}/traveltimes.png`);
+    const pdf = await getFile(`${path}/section.pdf?paper=A3`);
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers['cache-control']).toBe('no-store');
+    const read = await readPdf(pdf.body);
+    expect(read.pages.length).toBe(Number(pdf.headers['arcline-sheet-count']));
+    expect(read.pages[0].widthPt).toBeCloseTo(A3_PT.width, 2);
+    const png = await getFile(`${path}/traveltimes.png?dpi=72`);
+    expect(png.status).toBe(200);
+    expect(readPng(png.body).width).toBeGreaterThan(0);
+    expect((await request(app.server).delete(`/api/v1/surveys/${posted.body.id}/share`)).status).toBeLessThan(300);
+    expect((await request(app.server).get(`${path}/section.pdf`)).status).toBe(404);
+  });
+});

@@ -148,6 +148,10 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/share/{token}/section.svg'],
     ['get', '/share/{token}/traveltimes.svg'],
     ['get', '/share/{token}/stations.csv'],
+    ['get', '/share/{token}/section.pdf'],
+    ['get', '/share/{token}/section.png'],
+    ['get', '/share/{token}/traveltimes.pdf'],
+    ['get', '/share/{token}/traveltimes.png'],
   ];
   let doc: { openapi: string; paths: Record<string, Record<string, any>> };
   beforeAll(async () => {
