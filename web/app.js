@@ -570,13 +570,24 @@ async function interpretInput() {
 
 async function storeInput() {
   if (!requireInput()) return;
+  await storeNewLine(ui.text.value, currentFormat(), { busy: 'Storing…', done: 'Stored. The share link is ready to copy.', markRefusedInput: true });
+}
+
+/**
+ * Stores a body as a line of its own and opens it. `markRefusedInput`: a refusal of the input
+ * itself also withdraws the shown results (the Store button's case).
+ * @param {string} bodyText
+ * @param {BodyFormat} format
+ * @param {{ busy: string, done: string, markRefusedInput: boolean }} words
+ */
+async function storeNewLine(bodyText, format, words) {
   setBusy(true);
-  setStatus('Storing…');
-  const result = await storeLine(ui.text.value, currentFormat());
+  setStatus(words.busy);
+  const result = await storeLine(bodyText, format);
   setBusy(false);
   if (!result.ok) {
     showError(result.failure, 'The line was not stored');
-    if (inputRefused(result.failure)) showNotInterpreted();
+    if (words.markRefusedInput && inputRefused(result.failure)) showNotInterpreted();
     setStatus('The line was not stored.');
     return;
   }
@@ -588,7 +599,7 @@ async function storeInput() {
   }
   await refreshList();
   const opened = await openStoredLine(String(id), result.data?.shareUrl);
-  if (opened) setStatus('Stored. The share link is ready to copy.');
+  if (opened) setStatus(words.done);
 }
 
 /**
@@ -681,24 +692,7 @@ async function reviseInput() {
  * @param {{ bodyText: string, format: BodyFormat }} sent
  */
 async function storeAsNewLine(sent) {
-  setBusy(true);
-  setStatus('Storing as a new line…');
-  const result = await storeLine(sent.bodyText, sent.format);
-  setBusy(false);
-  if (!result.ok) {
-    showError(result.failure, 'The line was not stored');
-    setStatus('The line was not stored.');
-    return;
-  }
-  clearError();
-  const id = result.data?.id;
-  if (typeof id !== 'string' && typeof id !== 'number') {
-    setStatus('The service stored the line but did not say under which id.');
-    return;
-  }
-  await refreshList();
-  const opened = await openStoredLine(String(id), result.data?.shareUrl);
-  if (opened) setStatus('Stored as a new line. The share link is ready to copy.');
+  await storeNewLine(sent.bodyText, sent.format, { busy: 'Storing as a new line…', done: 'Stored as a new line. The share link is ready to copy.', markRefusedInput: false });
 }
 
 async function copyShareLink() {

@@ -6,8 +6,12 @@
 
 import { metres } from './describe.js';
 
-/** Positions closer than this are the same geophone, m: below the 0.01 m the service keeps. */
-export const SAME_POSITION_M = 0.005;
+/**
+ * Positions closer than this are the same geophone, m: the service's own tolerance
+ * (server/revision-layout.ts, SAME_POSITION_TOLERANCE_M, 1 mm), so the page asks exactly
+ * when the service would answer 409.
+ */
+export const SAME_POSITION_M = 0.001;
 
 /**
  * The layout in words: "24 geophones from 0.0 to 69.0 m, every 3.0 m" (spacing named only

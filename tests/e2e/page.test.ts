@@ -3,13 +3,12 @@
  * the demo section on load, a CSV line interpreted, stored and shared, errors in plain
  * words, keyboard reach, no console errors and no CSP violations.
  */
-import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { CAUTIONS } from '../../engine/qc/cautions.js';
 import type { Survey } from '../../engine/survey/survey.js';
-import { loadedWidth, openArcline, readSample, SAMPLES_DIR, servePageInChromium, type ServedPage } from './served-page.js';
+import { loadedWidth, openArcline, SAMPLES_DIR, serveDemoLine, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, CHROMIUM_PATH, POLL, browserTestsRun, hasChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
@@ -54,10 +53,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
   let flat: Survey;
 
   beforeAll(async () => {
-    await mkdir(SCREENSHOTS, { recursive: true });
-    demo = await readSample('demo-line.json');
-    flat = await readSample('flat-line.json');
-    served = await servePageInChromium({ seedDemo: true });
+    ({ served, demo, flat } = await serveDemoLine(SCREENSHOTS));
     ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
 

@@ -6,13 +6,12 @@
  *    warnings, downloads and table, with the cautions and the hidden-layer allowance above it
  *    in a few lines. Screenshots at 1600×1000 and 1280×800 go to test-output/e2e.
  */
-import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
 import type { Survey } from '../../engine/survey/survey.js';
 import { CAUTIONS } from '../../engine/index.js';
-import { loadedWidth, readSample, servePageInChromium, type ServedPage } from './served-page.js';
+import { loadedWidth, serveDemoLine, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
@@ -66,9 +65,7 @@ describe.skipIf(!browserTestsRun)('Printing and the first screen', () => {
   let demo: Survey;
 
   beforeAll(async () => {
-    await mkdir(SCREENSHOTS, { recursive: true });
-    demo = await readSample('demo-line.json');
-    served = await servePageInChromium({ seedDemo: true });
+    ({ served, demo } = await serveDemoLine(SCREENSHOTS));
     ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
 

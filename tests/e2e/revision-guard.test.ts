@@ -7,12 +7,11 @@
  * 409 unless the request says the change is meant). A 409 the page did not foresee is asked
  * about with the service's words. No console errors beyond the provoked 409, no CSP violations.
  */
-import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page, Request } from 'playwright-core';
 import type { Survey } from '../../engine/survey/survey.js';
-import { openArcline, readSample, SAMPLES_DIR, servePageInChromium, type ServedPage } from './served-page.js';
+import { openArcline, SAMPLES_DIR, serveDemoLine, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser, type PageTrouble } from './browser.js';
 import { LAYOUT_CHANGE_CONFIRMATION } from '../../web/api.js';
 
@@ -61,10 +60,7 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
   let demoId: string;
 
   beforeAll(async () => {
-    await mkdir(SCREENSHOTS, { recursive: true });
-    demo = await readSample('demo-line.json');
-    flat = await readSample('flat-line.json');
-    served = await servePageInChromium({ seedDemo: true });
+    ({ served, demo, flat } = await serveDemoLine(SCREENSHOTS));
     ({ baseUrl, launched } = served);
     const seeded = (await (await fetch(new URL('api/v1/surveys', baseUrl))).json()) as { id: string }[];
     expect(seeded).toHaveLength(1);

@@ -4,11 +4,10 @@
  * then says "revision 2 of 2" and a select brings back revision 1 with its own figures,
  * table and downloads. No console errors, no CSP violations.
  */
-import { mkdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Survey } from '../../engine/survey/survey.js';
-import { loadedWidth, openArcline, readSample, servePageInChromium, type ServedPage } from './served-page.js';
+import { loadedWidth, openArcline, serveDemoLine, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
@@ -28,9 +27,7 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
   let demo: Survey;
 
   beforeAll(async () => {
-    await mkdir(SCREENSHOTS, { recursive: true });
-    demo = await readSample('demo-line.json');
-    served = await servePageInChromium({ seedDemo: true });
+    ({ served, demo } = await serveDemoLine(SCREENSHOTS));
     ({ baseUrl, launched } = served);
   }, BROWSER_TEST_TIMEOUT_MS);
 

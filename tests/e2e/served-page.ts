@@ -3,7 +3,7 @@
  * started together for a browser test file and stopped together; and the few steps every
  * browser test takes on the page.
  */
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdir, mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
@@ -39,6 +39,16 @@ export const SAMPLES_DIR = resolve(import.meta.dirname, '../../samples');
 
 export async function readSample(name: string): Promise<Survey> {
   return JSON.parse(await readFile(join(SAMPLES_DIR, name), 'utf8')) as Survey;
+}
+
+/**
+ * What most browser test files start from: the service with the demo line stored, one
+ * Chromium, the two sample lines read, and the screenshot folder made.
+ */
+export async function serveDemoLine(screenshotsDir: string): Promise<{ served: ServedPage; demo: Survey; flat: Survey }> {
+  await mkdir(screenshotsDir, { recursive: true });
+  const [demo, flat] = await Promise.all([readSample('demo-line.json'), readSample('flat-line.json')]);
+  return { served: await servePageInChromium({ seedDemo: true }), demo, flat };
 }
 
 /** Opens the page in a new empty browser context, watched for errors, once it has loaded its first line. */

@@ -138,3 +138,11 @@ describe('layoutChange (pure)', () => {
     expect(change?.description).toContain('1 of its 3 geophones');
   });
 });
+
+describe('the page and the service agree on what is the same position', () => {
+  it('web/layout-change.js uses the service\'s tolerance', async () => {
+    const { SAME_POSITION_M } = await import('../../web/layout-change.js');
+    const { SAME_POSITION_TOLERANCE_M } = await import('../../server/revision-layout.js');
+    expect(SAME_POSITION_M).toBe(SAME_POSITION_TOLERANCE_M);
+  });
+});

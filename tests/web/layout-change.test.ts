@@ -17,9 +17,10 @@ describe('layoutWords', () => {
 });
 
 describe('layoutChange', () => {
-  it('is silent for the same layout, also within survey rounding (0.005 m)', () => {
+  it('is silent for the same layout, also within the service\'s 1 mm tolerance, and speaks past it as the service does', () => {
     expect(layoutChange(spread(24, 3), spread(24, 3))).toBeNull();
-    expect(layoutChange(spread(24, 3), spread(24, 3).map((x) => x + 0.004))).toBeNull();
+    expect(layoutChange(spread(24, 3), spread(24, 3).map((x) => x + 0.0009))).toBeNull();
+    expect(layoutChange(spread(24, 3), spread(24, 3).map((x) => x + 0.004))).not.toBeNull();
   });
 
   it('names both layouts when the geophone count differs', () => {
