@@ -52,7 +52,7 @@ export function sectionLegend(needs: SectionLegendNeeds, band: { min: number; ma
     { label: 'shot', glyph: (g, cx, cy) => void marker(g, 'star', cx, cy, 2.8, { colour: SECTION_COLOURS.shot, strokeMm: 0.15 }) },
     { label: needs.hasSecond ? 'first refractor, timed from both sides' : 'refractor, timed from both sides', glyph: stroke(SECTION_COLOURS.refractor, 0.8) },
   ];
-  if (needs.oneSided) items.push({ label: 'from one side only (phantom or intercept)', glyph: stroke(SECTION_COLOURS.refractor, 0.8, SOURCE_DASH['one-sided']) });
+  if (needs.oneSided) items.push({ label: 'with phantomed arrivals, or one-way (intercept)', glyph: stroke(SECTION_COLOURS.refractor, 0.8, SOURCE_DASH['one-sided']) });
   if (needs.interpolated) {
     items.push({
       label: 'interpolated between stations',
@@ -78,6 +78,6 @@ export function sectionLegend(needs: SectionLegendNeeds, band: { min: number; ma
   if (needs.steps) items.push({ label: 'step (throw)', glyph: (g, cx, cy) => void g.line(round3(cx), round3(cy - 1.6), round3(cx), round3(cy + 1.6)).attr({ stroke: SECTION_COLOURS.step, 'stroke-width': 0.8 }) });
   if (needs.changes) items.push({ label: 'velocity change', glyph: (g, cx, cy) => void g.line(round3(cx), round3(cy - 1.6), round3(cx), round3(cy + 1.6)).attr({ stroke: SECTION_COLOURS.velocityChange, 'stroke-width': 0.45, 'stroke-dasharray': '0.6 0.9' }) });
   if (needs.matchLines) items.push({ label: 'match line (sheet edge)', glyph: (g, cx, cy) => void g.line(round3(cx), round3(cy - 1.6), round3(cx), round3(cy + 1.6)).attr({ stroke: INK.text, 'stroke-width': 0.5, 'stroke-dasharray': '1.2 0.5' }) });
-  if (needs.depthMarks) items.push({ label: 'depths: (8.1) one side only · ~8.1 interpolated · – none', glyph: () => undefined });
+  if (needs.depthMarks) items.push({ label: 'depths: (8.1) phantomed or one-way · ~8.1 interpolated · – none', glyph: () => undefined });
   return items;
 }

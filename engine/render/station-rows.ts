@@ -36,7 +36,7 @@ export function labelInterval(geophoneXs: readonly number[], mmPerM: number, wid
   return LABEL_INTERVALS[LABEL_INTERVALS.length - 1];
 }
 
-/** Depth as written in a row: "8.1" from both sides, "(8.1)" from one side, "~8.1" interpolated, "–" none. */
+/** Depth as written in a row: "8.1" from both sides, "(8.1)" with phantomed arrivals or one-way, "~8.1" interpolated, "–" none. */
 export function depthLabel(station: Station, index: number): string {
   const depth = station.depths?.[index] ?? (index === 0 ? station.depth : null);
   const source = stationSource(station, index);

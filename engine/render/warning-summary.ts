@@ -15,7 +15,7 @@ const PHRASES: Readonly<Record<string, string>> = {
   'no-coverage': 'no depth where no shot pair covers the line (hatched)',
   'phantom-not-parallel': 'a phantom was refused: branches not parallel',
   'first-refractor-interpolated': 'first refractor interpolated between stations (dotted)',
-  'delay-from-intercepts': 'depths from intercept times, one side only (dashed)',
+  'delay-from-intercepts': 'depths from intercept times, one-way (dashed)',
   'velocity-inversion': 'a branch slower than the one before it (velocity inversion?)',
   'v2-not-above-v1': 'refractor velocity not above the top-layer velocity',
   'impossible-velocity': 'an impossible velocity was set aside',

@@ -230,7 +230,7 @@ describe('renderSectionSheets: honest drawing', () => {
     const depths = byRole(root, 'depth-row-label').map(textOf);
     expect(depths[0]).toMatch(/^\(\d+\.\d\)$/);
     expect(depths[11]).toMatch(/^~\d+\.\d$/);
-    expect(textOf(root)).toContain('from one side only');
+    expect(textOf(root)).toContain('with phantomed arrivals, or one-way (intercept)');
     expect(textOf(root)).toContain('interpolated between stations');
   });
 
