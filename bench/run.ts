@@ -195,7 +195,7 @@ function formerAgainstCurrent(): void {
   for (const k of [10, 45, 100, 200, 400]) {
     const g = 96;
     const run = (adjust: (p: FormerPair[]) => void): number => timeIt(() => adjust(randomPairs(k, g)), k >= 200 ? 1 : 3);
-    // The current code takes Float64Arrays with NaN for none (engine/shared/nan-none.ts): converted inside the timing, as building the pairs is.
+    // The current code takes arrays of doubles with NaN for none (engine/shared/nan-none.ts): converted inside the timing, as building the pairs is.
     const current = (): void => adjustReciprocalTimes(randomPairs(k, g).map((p): AdjustablePair => ({ ...p, plusTimeMs: fromNullable(p.plusTimeMs), plusVarianceMs2: fromNullable(p.plusVarianceMs2) })));
     timeIt(current, 1); // warm-up
     const currentMs = timeIt(current, k >= 200 ? 1 : 3);

@@ -14,6 +14,7 @@
  * Cost: O(n) for two segments, O(n²) for three (prefix sums make each trial O(1)).
  */
 import { median } from 'simple-statistics';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 export interface FitPoint {
   offsetM: number;
@@ -112,12 +113,12 @@ export function bicScore(sseMs2: number, n: number, segmentCount: number, noiseF
 
 /** Prefix sums of centred x, y and their products, for O(1) line fits of any index range. */
 class PrefixSums {
-  private readonly c: Float64Array[];
+  private readonly c: Doubles[];
   constructor(xs: number[], ys: number[]) {
     const n = xs.length;
     const mx = xs.reduce((s, v) => s + v, 0) / Math.max(n, 1);
     const my = ys.reduce((s, v) => s + v, 0) / Math.max(n, 1);
-    this.c = [0, 1, 2, 3, 4].map(() => new Float64Array(n + 1));
+    this.c = [0, 1, 2, 3, 4].map(() => zeros(n + 1));
     const [sx, sy, sxx, sxy, syy] = this.c;
     for (let i = 0; i < n; i++) {
       const x = xs[i] - mx;

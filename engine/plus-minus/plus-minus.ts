@@ -14,9 +14,10 @@
  *
  * Normal depth (radius of G's depth arc): aG = zG·cos(ic)/V1 with sin(ic) = V1/V2, so
  *   zG = (T+/2)·V1·V2 / sqrt(V2² − V1²)            (T+ in s, V in m/s, z in m).
- * Per-pair arrays are Float64Arrays with NaN for "none" (shared/nan-none.ts).
+ * Per-pair arrays are arrays of doubles with NaN for "none" (shared/nan-none.ts).
  */
 import type { NanNone } from '../shared/nan-none.js';
+import { zeros } from '../shared/zeros.js';
 
 export interface PlusMinusPairInput {
   /** Shot positions along the line, m; leftShotXM < rightShotXM. */
@@ -43,15 +44,15 @@ export interface PlusMinusPairResult {
  * Plus and minus times of one opposing shot pair at every geophone it covers.
  * @example
  * plusMinus({ leftShotXM: 0, rightShotXM: 30, geophoneXM: [10, 20],
- *   leftTimesMs: Float64Array.of(15, 19), rightTimesMs: Float64Array.of(19, 15), reciprocalTimeMs: 22 })
- * // → { plusTimeMs: Float64Array [12, 12], minusTimeMs: Float64Array [-4, 4] }
+ *   leftTimesMs: [15, 19], rightTimesMs: [19, 15], reciprocalTimeMs: 22 })
+ * // → { plusTimeMs: [12, 12], minusTimeMs: [-4, 4] }
  * Cost O(N), two arrays of N.
  */
 export function plusMinus(input: PlusMinusPairInput): PlusMinusPairResult {
   const { leftShotXM, rightShotXM, geophoneXM, leftTimesMs, rightTimesMs, reciprocalTimeMs } = input;
   const n = geophoneXM.length;
-  const plusTimeMs = new Float64Array(n);
-  const minusTimeMs = new Float64Array(n);
+  const plusTimeMs = zeros(n);
+  const minusTimeMs = zeros(n);
   const tabOk = isTime(reciprocalTimeMs);
   for (let i = 0; i < n; i++) {
     const x = geophoneXM[i];
@@ -96,9 +97,9 @@ export function combineWeighted(values: readonly NanNone[], variances: readonly 
   // Pair by pair along each pair's row (its arrays are read in order, not one element of
   // every pair per geophone), into per-geophone sums; each geophone still adds its pairs in
   // pair order, so the sums are the same numbers. O(K·N), three arrays of N.
-  const sw = new Float64Array(geophoneCount);
-  const swv = new Float64Array(geophoneCount);
-  const used = new Int32Array(geophoneCount);
+  const sw = zeros(geophoneCount);
+  const swv = zeros(geophoneCount);
+  const used = zeros(geophoneCount);
   for (let k = 0; k < values.length; k++) {
     const row = values[k];
     const rowVariance = variances[k];
@@ -112,10 +113,10 @@ export function combineWeighted(values: readonly NanNone[], variances: readonly 
       used[i]++;
     }
   }
-  const mean = new Float64Array(geophoneCount);
+  const mean = zeros(geophoneCount);
   for (let i = 0; i < geophoneCount; i++) mean[i] = sw[i] > 0 ? swv[i] / sw[i] : NaN;
   // Σ w_k·(v_k − mean)² over the same pairs, in the same order, where more than one pair.
-  const chi = new Float64Array(geophoneCount);
+  const chi = zeros(geophoneCount);
   for (let k = 0; k < values.length; k++) {
     const row = values[k];
     const rowVariance = variances[k];
@@ -160,8 +161,8 @@ export function combineMinusTimes(values: readonly NanNone[], variances: readonl
   const pairCount = values.length;
   const n = geophoneCount;
   // has[k·N + i]: pair k has a usable value at geophone i. O(K·N).
-  const has = new Uint8Array(pairCount * n);
-  const count = new Int32Array(pairCount);
+  const has = zeros(pairCount * n);
+  const count = zeros(pairCount);
   for (let k = 0; k < pairCount; k++) {
     for (let i = 0; i < n; i++) {
       const v = values[k][i];
@@ -177,9 +178,9 @@ export function combineMinusTimes(values: readonly NanNone[], variances: readonl
   order.sort((p, q) => count[q] - count[p] || p - q);
   if (order.length === 0) return combineWeighted([], [], geophoneCount);
 
-  const sw = new Float64Array(n);
-  const swv = new Float64Array(n);
-  const overlap = new Int32Array(pairCount);
+  const sw = zeros(n);
+  const swv = zeros(n);
+  const overlap = zeros(pairCount);
   const pending = order.slice(1);
   const shifted: NanNone[] = [];
   const shiftedVar: NanNone[] = [];

@@ -6,12 +6,13 @@
  * pairs of its refractor (which picks, which phantoms, which reciprocal readings); from
  * there on the first and the second refractor go through this one code.
  * Units: ms, ms², m. Cost: O(pairs · geophones) plus the adjustment (reciprocal-adjustment.ts).
- * Per-pair arrays are Float64Arrays with NaN for "none" (shared/nan-none.ts).
+ * Per-pair arrays are arrays of doubles with NaN for "none" (shared/nan-none.ts).
  */
 import type { ShotAnalysis } from '../output/interpretation.js';
 import { isSome, type NanNone } from '../shared/nan-none.js';
 import { plusMinus } from './plus-minus.js';
 import { weightedPlusTimes, type WeightablePair, type WeightedPlusTimes } from './weighted-plus-times.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 /** The arrivals a shot contributes toward the other shot of a pair. */
 export interface HeadWaveTimes {
@@ -45,7 +46,7 @@ export interface PairPlusMinus extends WeightablePair {
   /** Variance of T− per geophone, ms² (the two picks'; tAB cancels out of T−); NaN where none. */
   minusVarianceMs2: NanNone;
   /** Geophones where either shot's time was phantomed (1), with a T+. */
-  phantomUsed: Uint8Array;
+  phantomUsed: Doubles;
 }
 
 /** How a geophone's delay time was found: from picks of a pair, with a phantom, or none. */
@@ -72,9 +73,9 @@ export function pairPlusMinus(pair: OpposingPairInput, geophoneXM: number[]): Pa
     reciprocalTimeMs: pair.reciprocalTimeMs,
   });
   const n = geophoneXM.length;
-  const phantomUsed = new Uint8Array(n);
-  const minusVarianceMs2 = new Float64Array(n);
-  const plusVarianceMs2 = new Float64Array(n);
+  const phantomUsed = zeros(n);
+  const minusVarianceMs2 = zeros(n);
+  const plusVarianceMs2 = zeros(n);
   for (let i = 0; i < n; i++) {
     // A time without a variance counts as variance 0, as before the arrays were typed.
     const lv = leftTimes.varianceMs2[i];

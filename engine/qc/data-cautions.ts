@@ -27,7 +27,7 @@
 import type { Survey } from '../survey/survey.js';
 import type { Interpretation, ShotAnalysis, Warning } from '../output/interpretation.js';
 import { median } from 'simple-statistics';
-import { hiddenLayerAllowances, hiddenLayerWarning, velocityInversion } from '../structure/hidden-layer.js';
+import { hiddenLayerAllowances, hiddenLayerWarningFor, velocityInversion } from '../structure/hidden-layer.js';
 import { roundM } from '../output/output-decimals.js';
 import { isFiniteNumber as isNum } from '../shared/numbers.js';
 
@@ -95,12 +95,15 @@ function hiddenLayerCaution(survey: Survey, interp: Interpretation): HiddenLayer
   const spreadsM = shotSideSpreads(survey);
   if (spreadsM.length === 0) return null;
   try {
-    const w = hiddenLayerWarning({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: median(depths), spreadsM });
-    if (!w) return null;
+    const input = { v1MPerS: v1, refractorVelocityMPerS: v2, depthM: median(depths), spreadsM };
     const lo = Math.min(...depths);
     const hi = Math.max(...depths);
     const samples = Array.from({ length: hi > lo ? ALLOWANCE_SAMPLES : 1 }, (_, k) => lo + ((hi - lo) * k) / Math.max(1, ALLOWANCE_SAMPLES - 1));
-    const extra = hiddenLayerAllowances({ v1MPerS: v1, refractorVelocityMPerS: v2, depthM: lo, spreadsM }, samples).map((a) => a?.extraDepthM ?? 0);
+    // The median depth and the samples in one call: the spreads are checked and sorted once.
+    const [atMedian, ...atSamples] = hiddenLayerAllowances(input, [input.depthM, ...samples]);
+    if (atMedian === null) return null;
+    const w = hiddenLayerWarningFor(input, atMedian);
+    const extra = atSamples.map((a) => a?.extraDepthM ?? 0);
     const extraAt = (d: number): number => {
       if (samples.length === 1 || d <= lo) return extra[0];
       if (d >= hi) return extra[extra.length - 1];

@@ -4,6 +4,7 @@
  */
 import type { NanNone } from '../shared/nan-none.js';
 import { planStructuredAdjustment } from './structured-adjustment.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 /** What the adjustment reads and corrects of one opposing pair. */
 export interface AdjustablePair {
@@ -59,7 +60,7 @@ export function adjustReciprocalTimes(pairWork: AdjustablePair[]): void {
 }
 
 /** Shifts and the diagonal of N⁻¹ by the cheaper of the two routes; null when no two pairs overlap. */
-export function reciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Float64Array; inverseDiagonal: Float64Array } | null {
+export function reciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Doubles; inverseDiagonal: Doubles } | null {
   const k = pairWork.length;
   const plan = planStructuredAdjustment(pairWork);
   const structuredWork = plan.columns ** 3 / 2 + 2 * plan.pairColumnWork;
@@ -73,7 +74,7 @@ export function reciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shi
 }
 
 /** The dense route: normal equations, one Cholesky factor, the shifts and the inverse's diagonal from it. O(k³). */
-export function denseReciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Float64Array; inverseDiagonal: Float64Array } | null {
+export function denseReciprocalAdjustment(pairWork: readonly AdjustablePair[]): { shifts: Doubles; inverseDiagonal: Doubles } | null {
   const k = pairWork.length;
   const system = normalEquations(pairWork);
   if (!system) return null;
@@ -89,16 +90,16 @@ export function denseReciprocalAdjustment(pairWork: readonly AdjustablePair[]): 
  * Built geophone by geophone from the pairs with a pick there: O(k·G + Σ_i k_i²) for G
  * geophones and k_i pairs at geophone i (at most O(k²·G)), O(k²) memory.
  */
-export function normalEquations(pairWork: readonly AdjustablePair[]): { matrix: Float64Array; rhs: Float64Array } | null {
+export function normalEquations(pairWork: readonly AdjustablePair[]): { matrix: Doubles; rhs: Doubles } | null {
   const k = pairWork.length;
-  const matrix = new Float64Array(k * k);
-  const rhs = new Float64Array(k);
+  const matrix = zeros(k * k);
+  const rhs = zeros(k);
   for (let m = 0; m < k; m++) matrix[m * k + m] += 1 / Math.max(pairWork[m].reciprocalVarianceMs2, 1e-6);
   const geophones = pairWork.reduce((g, p) => Math.max(g, p.plusTimeMs.length), 0);
   // Pairs with a usable T+ at the current geophone: index, T+, pick variance (reused).
-  const at = new Int32Array(k);
-  const time = new Float64Array(k);
-  const variance = new Float64Array(k);
+  const at = zeros(k);
+  const time = zeros(k);
+  const variance = zeros(k);
   let overlaps = 0;
   for (let i = 0; i < geophones; i++) {
     let count = 0;
@@ -138,8 +139,8 @@ export function normalEquations(pairWork: readonly AdjustablePair[]): { matrix: 
  * a pivot is not above 1e-12 (the bound the former elimination used: numerically
  * singular). Cost k³/6 multiply-adds, O(k²) memory; reads only the lower triangle.
  */
-export function choleskyFactor(matrix: Float64Array, k: number): Float64Array | null {
-  const l = new Float64Array(k * k);
+export function choleskyFactor(matrix: Doubles, k: number): Doubles | null {
+  const l = zeros(k * k);
   for (let j = 0; j < k; j++) {
     const rowJ = j * k;
     let d = matrix[rowJ + j];
@@ -158,14 +159,14 @@ export function choleskyFactor(matrix: Float64Array, k: number): Float64Array | 
 }
 
 /** Solves L·Lᵀ·x = b by forward and back substitution. Cost O(k²). */
-export function choleskySolve(l: Float64Array, k: number, rhs: Float64Array): Float64Array {
-  const y = new Float64Array(k);
+export function choleskySolve(l: Doubles, k: number, rhs: Doubles): Doubles {
+  const y = zeros(k);
   for (let r = 0; r < k; r++) {
     let s = rhs[r];
     for (let c = 0; c < r; c++) s -= l[r * k + c] * y[c];
     y[r] = s / l[r * k + r];
   }
-  const x = new Float64Array(k);
+  const x = zeros(k);
   for (let r = k - 1; r >= 0; r--) {
     let s = y[r];
     for (let c = r + 1; c < k; c++) s -= l[c * k + r] * x[c];
@@ -180,9 +181,9 @@ export function choleskySolve(l: Float64Array, k: number, rhs: Float64Array): Fl
  * inverse). L⁻¹ is built column by column by forward substitution into one reused
  * vector: k³/6 multiply-adds, O(k) extra memory; no k×k system is solved k times.
  */
-export function choleskyInverseDiagonal(l: Float64Array, k: number): Float64Array {
-  const diagonal = new Float64Array(k);
-  const column = new Float64Array(k);
+export function choleskyInverseDiagonal(l: Doubles, k: number): Doubles {
+  const diagonal = zeros(k);
+  const column = zeros(k);
   for (let m = 0; m < k; m++) {
     // Column m of L⁻¹: zero above row m, 1/L_mm at m, then forward substitution.
     column[m] = 1 / l[m * k + m];

@@ -31,12 +31,13 @@
  * (96 geophones × 64 shots: k = 1494, R ≈ 250).
  */
 import type { AdjustablePair } from './reciprocal-adjustment.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 /** Two pick variances within this many times the T+ variance are one class (the rounding of v − var(tAB): 16 ulps). */
 const ROUNDING_TOLERANCE = 16 * Number.EPSILON;
 
 /** The shifts and the diagonal of N⁻¹, or the reason the structured route does not serve. */
-export type StructuredResult = { shifts: Float64Array; inverseDiagonal: Float64Array } | 'no-overlap' | 'not-positive-definite';
+export type StructuredResult = { shifts: Doubles; inverseDiagonal: Doubles } | 'no-overlap' | 'not-positive-definite';
 
 /** Planned structured solve: what is known after one pass over the geophones. */
 export interface StructuredPlan {
@@ -56,24 +57,24 @@ export interface StructuredPlan {
  */
 export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): StructuredPlan {
   const k = pairWork.length;
-  const delta = new Float64Array(k);
-  const rhs = new Float64Array(k);
+  const delta = zeros(k);
+  const rhs = zeros(k);
   for (let m = 0; m < k; m++) delta[m] = 1 / Math.max(pairWork[m].reciprocalVarianceMs2, 1e-6);
   const geophones = pairWork.reduce((g, p) => Math.max(g, p.plusTimeMs.length), 0);
-  const at = new Int32Array(k);
-  const time = new Float64Array(k);
-  const variance = new Float64Array(k);
-  const plusVariance = new Float64Array(k);
-  const classOf = new Int32Array(k);
+  const at = zeros(k);
+  const time = zeros(k);
+  const variance = zeros(k);
+  const plusVariance = zeros(k);
+  const classOf = zeros(k);
   let classVariance: number[] = [];
   let denseBuildWork = 0;
   let overlaps = 0;
   // Column groups: one per distinct membership; members[g][c] = pairs of class c; omega[g] = Σ Ω_i.
   const groupMembers: number[][][] = [];
-  const groupOmega: Float64Array[] = [];
+  const groupOmega: Doubles[] = [];
   const groupByKey = new Map<string, number>();
-  let previousAt: Int32Array = new Int32Array(0);
-  let previousClassOf: Int32Array = new Int32Array(0);
+  let previousAt: Doubles = zeros(0);
+  let previousClassOf: Doubles = zeros(0);
   let previousGroup = -1;
   for (let i = 0; i < geophones; i++) {
     let count = 0;
@@ -109,16 +110,16 @@ export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): S
       classOf[a] = c;
     }
     const r = classVariance.length;
-    const sizes = new Float64Array(r);
-    const sums = new Float64Array(r);
+    const sizes = zeros(r);
+    const sums = zeros(r);
     const t0 = time[0]; // T+ relative to one pair's: b is unchanged, and cancellation smaller
     for (let a = 0; a < count; a++) {
       sizes[classOf[a]]++;
       sums[classOf[a]] += time[a] - t0;
     }
     // Per class c: S_c = Σ_d n_d·w_cd (diagonal part) and Σ_d w_cd·T_d (right-hand side). O(R_i²).
-    const rowWeight = new Float64Array(r);
-    const rowSum = new Float64Array(r);
+    const rowWeight = zeros(r);
+    const rowSum = zeros(r);
     for (let c = 0; c < r; c++) {
       for (let d = 0; d < r; d++) {
         const w = 1 / (classVariance[c] + classVariance[d]);
@@ -150,7 +151,7 @@ export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): S
         const members: number[][] = Array.from({ length: r }, () => []);
         for (let a = 0; a < count; a++) members[classOf[a]].push(at[a]);
         groupMembers.push(members);
-        groupOmega.push(new Float64Array(r * r));
+        groupOmega.push(zeros(r * r));
       }
       previousAt = at.slice(0, count);
       previousClassOf = classOf.slice(0, count);
@@ -178,7 +179,7 @@ export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): S
 }
 
 /** Lower Cholesky factor of a small dense symmetric matrix in place (row-major n×n); false when not positive definite. */
-function factorInPlace(a: Float64Array, n: number): boolean {
+function factorInPlace(a: Doubles, n: number): boolean {
   for (let j = 0; j < n; j++) {
     let d = a[j * n + j];
     for (let c = 0; c < j; c++) d -= a[j * n + c] * a[j * n + c];
@@ -199,8 +200,8 @@ function factorInPlace(a: Float64Array, n: number): boolean {
  * M ← Lᵀ·M·L (lowerFromRight) or L·M·Lᵀ for L block-diagonal (blocks `factors` at `offset`), M dense R×R row-major, in
  * place. Cost O(R·Σ_g R_g²).
  */
-function congruenceByBlocks(mat: Float64Array, size: number, factors: Float64Array[], offset: number[], lowerFromRight: boolean): void {
-  const column = new Float64Array(size);
+function congruenceByBlocks(mat: Doubles, size: number, factors: Doubles[], offset: number[], lowerFromRight: boolean): void {
+  const column = zeros(size);
   factors.forEach((l, g) => {
     const r = Math.sqrt(l.length);
     const o = offset[g];
@@ -230,9 +231,9 @@ function congruenceByBlocks(mat: Float64Array, size: number, factors: Float64Arr
 }
 
 function solveStructured(
-  delta: Float64Array,
-  rhs: Float64Array,
-  omegas: Float64Array[],
+  delta: Doubles,
+  rhs: Doubles,
+  omegas: Doubles[],
   groupMembers: number[][][],
   offset: number[],
   pairColumns: number[][],
@@ -243,7 +244,7 @@ function solveStructured(
   const factors = omegas.map((o) => o.slice());
   for (let g = 0; g < factors.length; g++) if (!factorInPlace(factors[g], groupMembers[g].length)) return 'not-positive-definite';
   // Uᵀ·Δ⁻¹·U: O(Σ_p n_p²).
-  const c = new Float64Array(size * size);
+  const c = zeros(size * size);
   for (let p = 0; p < k; p++) {
     const cols = pairColumns[p];
     const w = 1 / delta[p];
@@ -259,7 +260,7 @@ function solveStructured(
   // Cholesky of C (R³/6), then C⁻¹ = L_C⁻ᵀ·L_C⁻¹ (R³/3).
   if (!factorInPlace(c, size)) return 'not-positive-definite';
   const inverse = lowerInverse(c, size);
-  const cInverse = new Float64Array(size * size);
+  const cInverse = zeros(size * size);
   for (let a = 0; a < size; a++) {
     for (let b = 0; b <= a; b++) {
       let s = 0;
@@ -272,20 +273,20 @@ function solveStructured(
   congruenceByBlocks(cInverse, size, factors, offset, false);
   const y = cInverse;
   // Shifts: s = Δ⁻¹b + Δ⁻¹·U·Y·Uᵀ·Δ⁻¹b. O(Σ_p n_p + R²).
-  const z = new Float64Array(size);
-  const base = new Float64Array(k);
+  const z = zeros(size);
+  const base = zeros(k);
   for (let p = 0; p < k; p++) {
     base[p] = rhs[p] / delta[p];
     for (const col of pairColumns[p]) z[col] += base[p];
   }
-  const yz = new Float64Array(size);
+  const yz = zeros(size);
   for (let a = 0; a < size; a++) {
     let s = 0;
     for (let b = 0; b < size; b++) s += y[a * size + b] * z[b];
     yz[a] = s;
   }
-  const shifts = new Float64Array(k);
-  const inverseDiagonal = new Float64Array(k);
+  const shifts = zeros(k);
+  const inverseDiagonal = zeros(k);
   for (let p = 0; p < k; p++) {
     const cols = pairColumns[p];
     let s = 0;
@@ -302,8 +303,8 @@ function solveStructured(
 }
 
 /** Inverse of a lower-triangular matrix (row-major n×n), column by column: n³/6 multiply-adds. */
-function lowerInverse(l: Float64Array, n: number): Float64Array {
-  const inv = new Float64Array(n * n);
+function lowerInverse(l: Doubles, n: number): Doubles {
+  const inv = zeros(n * n);
   for (let m = 0; m < n; m++) {
     inv[m * n + m] = 1 / l[m * n + m];
     for (let r = m + 1; r < n; r++) {

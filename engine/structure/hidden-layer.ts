@@ -22,6 +22,7 @@
  */
 import type { Warning } from '../output/interpretation.js';
 import { StructureInputError } from './structure-input.js';
+import { zeros } from '../shared/zeros.js';
 
 export interface HiddenLayerInput {
   /** Top-layer velocity and thickness. */
@@ -60,16 +61,23 @@ function checkOrder(v1: number, v2: number, v3: number): void {
   }
 }
 
+function checkOffsets(offsetsM: unknown): void {
+  if (!Array.isArray(offsetsM)) throw new StructureInputError('offsetsM', 'must be an array of offsets in m');
+  offsetsM.forEach((o, i) => {
+    if (typeof o !== 'number' || !Number.isFinite(o)) throw new StructureInputError(`offsetsM[${i}]`, `must be a finite offset in m, got ${String(o)}`);
+  });
+}
+
 /** |offset| of every geophone, increasing. O(n log n), once per spread. */
-function sortedDistances(offsetsM: readonly number[]): Float64Array {
-  return Float64Array.from(offsetsM, Math.abs).sort();
+function sortedDistances(offsetsM: readonly number[]): number[] {
+  return offsetsM.map(Math.abs).sort((a, b) => a - b);
 }
 
 /**
  * The limit offset X for given crossover x12: x12 itself, or the k-th offset beyond it.
  * The offsets beyond x12 start at the first sorted distance > x12 (bisection): O(log n).
  */
-function limitOffset(x12: number, distances: Float64Array | undefined, minPicks: number): number | null {
+function limitOffset(x12: number, distances: number[] | undefined, minPicks: number): number | null {
   if (!distances) return x12;
   let a = 0;
   let b = distances.length;
@@ -92,17 +100,50 @@ export function maxHiddenLayerThickness(input: HiddenLayerInput): HiddenLayerBou
   checkOrder(v1, v2, v3);
   const minPicks = input.minFirstArrivalPicks ?? 3;
   if (!Number.isInteger(minPicks) || minPicks < 1) throw new StructureInputError('minFirstArrivalPicks', `must be an integer ≥ 1, got ${String(minPicks)}`);
-  if (input.offsetsM !== undefined) {
-    if (!Array.isArray(input.offsetsM)) throw new StructureInputError('offsetsM', 'must be an array of offsets in m');
-    input.offsetsM.forEach((o, i) => {
-      if (typeof o !== 'number' || !Number.isFinite(o)) throw new StructureInputError(`offsetsM[${i}]`, `must be a finite offset in m, got ${String(o)}`);
-    });
-  }
+  if (input.offsetsM !== undefined) checkOffsets(input.offsetsM);
   return hiddenBound(v1, v2, v3, h1, input.offsetsM ? sortedDistances(input.offsetsM) : undefined, minPicks);
 }
 
+/**
+ * The smallest limit offset over all spreads as a function of x12 (Infinity where no spread
+ * has one): limitOffset of each spread only changes where x12 passes one of its distances,
+ * so the minimum is tabulated once on the merged distances, O(B·S·log n) for B distinct
+ * distances, and read by one bisection, O(log B), instead of S bisections per test.
+ */
+function nearestLimitOffset(distances: number[][], minPicks: number): (x12: number) => number {
+  const breaks = [...new Set(distances.flat())].sort((a, b) => a - b);
+  // minLimit[j] holds for x12 with exactly j breaks ≤ x12 (x12 in [breaks[j−1], breaks[j])).
+  // Each spread's first distance > x12 only moves forward as x12 grows: one pointer per
+  // spread, O(B·S) for the table.
+  const minLimit = zeros(breaks.length + 1);
+  const next = zeros(distances.length);
+  for (let j = 0; j <= breaks.length; j++) {
+    const x12 = j === 0 ? -Infinity : breaks[j - 1];
+    let min = Infinity;
+    for (let k = 0; k < distances.length; k++) {
+      const d = distances[k];
+      let i = next[k];
+      while (i < d.length && !(d[i] > x12)) i++;
+      next[k] = i;
+      const at = i + minPicks - 1;
+      if (at < d.length && d[at] < min) min = d[at];
+    }
+    minLimit[j] = min;
+  }
+  return (x12: number): number => {
+    let a = 0;
+    let b = breaks.length;
+    while (a < b) {
+      const mid = (a + b) >> 1;
+      if (breaks[mid] > x12) b = mid;
+      else a = mid + 1;
+    }
+    return minLimit[a];
+  };
+}
+
 /** maxHiddenLayerThickness on checked input, the spread as sorted distances. O(log n). */
-function hiddenBound(v1: number, v2: number, v3: number, h1: number, distances: Float64Array | undefined, minPicks: number): HiddenLayerBound {
+function hiddenBound(v1: number, v2: number, v3: number, h1: number, distances: number[] | undefined, minPicks: number): HiddenLayerBound {
   const c12 = cosCritical(v1, v2);
   const c13 = cosCritical(v1, v3);
   const c23 = cosCritical(v2, v3);
@@ -199,22 +240,28 @@ export function hiddenLayerAllowances(input: HiddenLayerWarningInput, depthsM: r
   const spreads = input.spreadsM ?? (input.offsetsM ? [input.offsetsM] : null);
   if (!spreads || spreads.length === 0) throw new StructureInputError('spreadsM', 'must give the offsets of at least one spread (or offsetsM)');
   const minPicks = input.minFirstArrivalPicks ?? 3;
+  if (!Number.isInteger(minPicks) || minPicks < 1) throw new StructureInputError('minFirstArrivalPicks', `must be an integer ≥ 1, got ${String(minPicks)}`);
   const distances = spreads.map((offsetsM) => {
-    maxHiddenLayerThickness({ v1MPerS: v1, topThicknessM: 0, hiddenVelocityMPerS: v2, refractorVelocityMPerS: v3, offsetsM, minFirstArrivalPicks: minPicks });
+    checkOffsets(offsetsM);
     return sortedDistances(offsetsM);
   });
+  const nearestLimit = nearestLimitOffset(distances, minPicks);
+  const c12 = cosCritical(v1, v2);
   const c13 = cosCritical(v1, v3);
   const c23 = cosCritical(v2, v3);
   return depthsM.map((depthM) => {
     const delayS = (depthM * c13) / v1;
     const h1Of = (h2: number): number => ((delayS - (h2 * c23) / v2) * v1) / c13;
     const h2AtZeroTop = (delayS * v2) / c23;
+    // hiddenBound's arithmetic for every spread at once: the bound grows with the limit
+    // offset, so the spread with the nearest limit is the binding one (nearestLimitOffset).
     const hidden = (h2: number): boolean => {
       const h1 = Math.max(0, h1Of(h2));
-      return distances.every((d) => {
-        const bound = hiddenBound(v1, v2, v3, h1, d, minPicks);
-        return bound.maxThicknessM === null || h2 <= bound.maxThicknessM;
-      });
+      const x12 = ((2 * h1 * c12) / v1) / (1 / v1 - 1 / v2);
+      const limit = nearestLimit(x12);
+      if (limit === Infinity) return true;
+      const bound = Math.max(0, (v2 * (limit * (1 / v2 - 1 / v3) - (2 * h1 * (c13 - c12)) / v1)) / (2 * c23));
+      return h2 <= bound;
     };
     // Scan upward for the first visible thickness, then bisect the boundary.
     const n = 200;
@@ -248,7 +295,11 @@ export function hiddenLayerAllowances(input: HiddenLayerWarningInput, depthsM: r
  */
 export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | null {
   const allowance = hiddenLayerAllowance(input);
-  if (allowance === null) return null;
+  return allowance === null ? null : hiddenLayerWarningFor(input, allowance);
+}
+
+/** The warning's words for an allowance already computed (hiddenLayerAllowances). */
+export function hiddenLayerWarningFor(input: HiddenLayerWarningInput, allowance: HiddenLayerAllowance): Warning {
   const r = (v: number): string => (Math.abs(v) >= 10 ? v.toFixed(0) : v.toFixed(1));
   const where = input.spreadsM && input.spreadsM.length > 1 ? 'on any shot of this line' : 'on this spread';
   return {

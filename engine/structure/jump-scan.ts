@@ -24,7 +24,7 @@
  * smeared vertical step; a wider one is two changes of dip, not a step.
  */
 import { leastSquares } from './least-squares.js';
-import { addColumn, bestKinkRss, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from './window-fits.js';
+import { addColumn, bestKinkRss, fitLineAndColumn, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from './window-fits.js';
 import { normalQuantile } from './quantiles.js';
 
 export interface JumpDetection {
@@ -47,9 +47,14 @@ export interface JumpScanOptions {
   sidePoints: number;
   minSidePoints: number;
   falseAlarmProbability: number;
-  /** Multiples of rampWidthAt(c) tried at each centre (default [1, 1.5, 2, 3]). */
-  widthFactors?: readonly number[];
 }
+
+/**
+ * Multiples f of W0 = rampWidthAt(c) tried at each centre (see the file comment). Their
+ * ramps share one exponential per point: e^(−4u/(W0·f)) = a^p with a = e^(−2u/(3·W0)) and
+ * p = 6/f = 6, 4, 3, 2 (fillRampColumns), the exponential being most of a trial's cost.
+ */
+const WIDTH_FACTORS = [1, 1.5, 2, 3] as const;
 
 /**
  * Smooth ramp from 0 to 1 with its steepest slope 1/width at u = 0: the logistic
@@ -60,30 +65,100 @@ function ramp(u: number, width: number): number {
   return 1 / (1 + Math.exp((-4 * u) / width));
 }
 
-/** Work space of one scan, allocated once: O(n) memory for n points. */
+/**
+ * Work space of a scan: O(n) memory for n points. Typed arrays are dear to allocate for
+ * short profiles (a demo line's scans spent more time creating them than fitting), so one
+ * work space is kept for the module and grown when a longer profile comes; a scan
+ * overwrites every entry it reads, so no result depends on an earlier call.
+ */
 interface Scratch {
+  /** Points it holds room for. */
+  capacity: number;
   line: WindowLine;
   /** Window of the last stepFit, x[lo..hi−1]. */
   lo: number;
   hi: number;
   column: Float64Array;
+  /** The ramps of the current centre for each width factor at x[columnsStart..columnsEnd − 1]. */
+  columns: Float64Array[];
+  columnsStart: number;
+  columnsEnd: number;
   fit: ColumnFit;
+  /** Per trial (2n − 1 centres × the width factors): centre, W0, factor index, bound, statistic, half-width. */
+  centres: Float64Array;
+  baseWidths: Float64Array;
+  factorOf: Uint8Array;
+  bounds: Float64Array;
+  statistics: Float64Array;
+  halfWidths: Float64Array;
 }
 
-function newScratch(n: number): Scratch {
-  return {
+let shared: Scratch | null = null;
+
+/** The module's work space, with room for n points. */
+function scratchFor(n: number): Scratch {
+  if (shared && shared.capacity >= n) return shared;
+  const capacity = Math.max(n, 2 * (shared?.capacity ?? 32));
+  const slots = 2 * capacity * WIDTH_FACTORS.length;
+  shared = {
+    capacity,
     line: { n: 0, uMean: 0, yMean: 0, sxx: 0, slope: 0, rss: 0, sumU2: 0 },
     lo: 0,
     hi: 0,
-    column: new Float64Array(n),
+    column: new Float64Array(capacity),
+    columns: WIDTH_FACTORS.map(() => new Float64Array(capacity)),
+    columnsStart: 0,
+    columnsEnd: 0,
     fit: { rss: 0, coefficient: 0, unscaledVariance: 0 },
+    centres: new Float64Array(slots),
+    baseWidths: new Float64Array(slots),
+    factorOf: new Uint8Array(slots),
+    bounds: new Float64Array(slots),
+    statistics: new Float64Array(slots),
+    halfWidths: new Float64Array(slots),
   };
+  return shared;
 }
 
-/** Index of the first x ≥ bound (x increasing); binary search, O(log n). */
-function firstAtOrAbove(x: readonly number[], bound: number): number {
-  let a = 0;
-  let b = x.length;
+/**
+ * The ramps R(u/(W0·f)) of centre c for every width factor at the points x[lo..hi−1], into
+ * s.columns (WIDTH_POWERS: one exponential per point); unit steps when W0 = 0. The values
+ * depend only on x_i, c and W0, so both passes of the scan see the same numbers. O(m).
+ */
+function fillRampColumns(x: readonly number[], c: number, w0: number, lo: number, hi: number, s: Scratch): void {
+  s.columnsStart = lo;
+  s.columnsEnd = hi;
+  const [c1, c15, c2, c3] = s.columns;
+  for (let i = lo; i < hi; i++) {
+    const u = x[i] - c;
+    const j = i - lo;
+    if (!(w0 > 0)) {
+      const step = u >= 0 ? 1 : 0;
+      c1[j] = step;
+      c15[j] = step;
+      c2[j] = step;
+      c3[j] = step;
+      continue;
+    }
+    const a = Math.exp((-2 * u) / (3 * w0));
+    const a2 = a * a;
+    const a3 = a2 * a;
+    c1[j] = 1 / (1 + a3 * a3);
+    c15[j] = 1 / (1 + a2 * a2);
+    c2[j] = 1 / (1 + a3);
+    c3[j] = 1 / (1 + a2);
+  }
+}
+
+/** Half-width of the window of a ramp of width W: W/2 and sidePoints spacings beyond. */
+function windowReach(width: number, opts: JumpScanOptions, spacing: number): number {
+  return width / 2 + opts.sidePoints * spacing;
+}
+
+/** Index of the first x ≥ bound within x[from..to−1] (x increasing; `to` if none); binary search. */
+function firstAtOrAbove(x: readonly number[], bound: number, from: number, to: number): number {
+  let a = from;
+  let b = to;
   while (a < b) {
     const mid = (a + b) >> 1;
     if (x[mid] < bound) a = mid + 1;
@@ -92,10 +167,10 @@ function firstAtOrAbove(x: readonly number[], bound: number): number {
   return a;
 }
 
-/** Index of the first x > bound (x increasing); binary search, O(log n). */
-function firstAbove(x: readonly number[], bound: number): number {
-  let a = 0;
-  let b = x.length;
+/** Index of the first x > bound within x[from..to−1] (x increasing; `to` if none); binary search. */
+function firstAbove(x: readonly number[], bound: number, from: number, to: number): number {
+  let a = from;
+  let b = to;
   while (a < b) {
     const mid = (a + b) >> 1;
     if (x[mid] <= bound) a = mid + 1;
@@ -105,24 +180,28 @@ function firstAbove(x: readonly number[], bound: number): number {
 }
 
 /**
- * The window of centre c and ramp width W, and its step fit: writes the window's line
- * into s.line and returns RSS_step, or NaN when the window has too few points on a side
- * or a fit is singular. Cost O(m) for the m points within W/2 + sidePoints spacings of c:
- * one line fit and one ramp column (the logistic depends on c, so it is evaluated per
- * point); the points beyond each end of the ramp are counted by bisection.
+ * The window of centre c and width factor k (ramp width W = W0·f_k), and its step fit,
+ * with the ramp taken from s.columns (fillRampColumns of c over a window containing this
+ * one): writes the window's line into s.line and returns RSS_step, or NaN when the window
+ * has too few points on a side or a fit is singular. Cost O(m) for the m points within
+ * W/2 + sidePoints spacings of c (one pass, fitLineAndColumn); the points beyond each end
+ * of the ramp are counted by bisection.
  */
-function stepFit(x: readonly number[], y: readonly number[], c: number, width: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
-  const reach = width / 2 + opts.sidePoints * spacing;
-  const lo = windowStart(x, c, reach);
-  const hi = windowEnd(x, c, reach);
-  const nLeft = Math.max(0, Math.min(hi, firstAbove(x, c - width / 2)) - lo);
-  const nRight = Math.max(0, hi - Math.max(lo, firstAtOrAbove(x, c + width / 2)));
+function stepFit(x: readonly number[], y: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
+  const width = w0 * WIDTH_FACTORS[k];
+  const reach = windowReach(width, opts, spacing);
+  // Every search within the widest window (s.columnsStart..s.columnsEnd − 1), which holds
+  // this one: the same indices as over all of x, in O(log m).
+  const from = s.columnsStart;
+  const to = s.columnsEnd;
+  const lo = windowStart(x, c, reach, from, to);
+  const hi = windowEnd(x, c, reach, from, to);
+  const nLeft = Math.max(0, Math.min(hi, firstAbove(x, c - width / 2, from, to)) - lo);
+  const nRight = Math.max(0, hi - Math.max(lo, firstAtOrAbove(x, c + width / 2, from, to)));
   if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return NaN;
-  if (!fitWindowLine(x, y, lo, hi, c, s.line)) return NaN;
   s.lo = lo;
   s.hi = hi;
-  for (let i = lo; i < hi; i++) s.column[i - lo] = ramp(x[i] - c, width);
-  if (!addColumn(x, y, lo, c, s.line, s.column, s.fit)) return NaN;
+  if (!fitLineAndColumn(x, y, lo, hi, c, s.columns[k], s.columnsStart, s.line, s.fit)) return NaN;
   return s.fit.rss;
 }
 
@@ -136,8 +215,8 @@ function stepFit(x: readonly number[], y: readonly number[], c: number, width: n
  * is fitted once and each (c, W) adds its ramp column (addColumn): O(m) per trial, O(T·m)
  * for T trials.
  */
-function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: number, sigma: number, sidePoints: number, spacing: number, factors: readonly number[], s: Scratch): Pick<JumpDetection, 'centreM' | 'jump' | 'standardError' | 'rampWidthM'> {
-  const wMax = Math.max(w0, spacing) * Math.max(...factors);
+function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: number, sigma: number, sidePoints: number, spacing: number, s: Scratch): Pick<JumpDetection, 'centreM' | 'jump' | 'standardError' | 'rampWidthM'> {
+  const wMax = Math.max(w0, spacing) * WIDTH_FACTORS[WIDTH_FACTORS.length - 1];
   const reach = wMax / 2 + w0 + sidePoints * spacing;
   const lo = windowStart(x, c0, reach);
   const hi = windowEnd(x, c0, reach);
@@ -189,27 +268,28 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
  */
 export function scanForJumps(x: readonly number[], y: readonly number[], opts: JumpScanOptions): JumpDetection[] {
   if (x.length < 2 * opts.minSidePoints) return [];
-  const factors = opts.widthFactors ?? [1, 1.5, 2, 3];
+  const factorCount = WIDTH_FACTORS.length;
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
-  const s = newScratch(x.length);
+  const s = scratchFor(x.length);
   const sigma2 = opts.sigma * opts.sigma;
-  // Every trial (centre, width) with a line and a step fit, in scan order: centre, width,
-  // the statistic's upper bound (RSS_line − RSS_step)/σ².
-  const slots = (2 * x.length - 1) * factors.length;
-  const centres = new Float64Array(slots);
-  const widths = new Float64Array(slots);
-  const bounds = new Float64Array(slots);
+  // Every trial (centre, width) with a line and a step fit, in scan order: centre, W0,
+  // width factor, the statistic's upper bound (RSS_line − RSS_step)/σ².
+  const { centres, baseWidths, factorOf, bounds, statistics, halfWidths } = s;
   let evaluated = 0;
   for (let i = 0; i < x.length; i++) {
     for (let half = 0; half < 2; half++) {
       if (half === 1 && i + 1 >= x.length) break;
       const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
       const w0 = Math.max(0, opts.rampWidthAt(c));
-      for (const f of factors) {
-        const stepRss = stepFit(x, y, c, w0 * f, opts, spacing, s);
+      // The widest ramp's window holds every narrower one's.
+      const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
+      fillRampColumns(x, c, w0, windowStart(x, c, widest), windowEnd(x, c, widest), s);
+      for (let k = 0; k < factorCount; k++) {
+        const stepRss = stepFit(x, y, c, w0, k, opts, spacing, s);
         if (Number.isNaN(stepRss)) continue;
         centres[evaluated] = c;
-        widths[evaluated] = w0 * f;
+        baseWidths[evaluated] = w0;
+        factorOf[evaluated] = k;
         bounds[evaluated] = (s.line.rss - stepRss) / sigma2;
         evaluated++;
       }
@@ -218,13 +298,14 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   if (!evaluated) return [];
   const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
   const threshold = z * z;
-  const statistics = new Float64Array(evaluated);
-  const halfWidths = new Float64Array(evaluated);
   const passing: number[] = [];
   for (let r = 0; r < evaluated; r++) {
-    halfWidths[r] = widths[r] / 2;
+    const w0 = baseWidths[r];
+    halfWidths[r] = (w0 * WIDTH_FACTORS[factorOf[r]]) / 2;
     if (!(bounds[r] > threshold)) continue;
-    const stepRss = stepFit(x, y, centres[r], widths[r], opts, spacing, s);
+    const reach = windowReach(w0 * WIDTH_FACTORS[factorOf[r]], opts, spacing);
+    fillRampColumns(x, centres[r], w0, windowStart(x, centres[r], reach), windowEnd(x, centres[r], reach), s);
+    const stepRss = stepFit(x, y, centres[r], w0, factorOf[r], opts, spacing, s);
     const kinkRss = bestKinkRss(x, y, s.lo, s.hi, centres[r], s.line);
     if (!Number.isFinite(kinkRss)) continue;
     statistics[r] = (kinkRss - stepRss) / sigma2;
@@ -239,5 +320,5 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   }
   return kept
     .sort((a, b) => centres[a] - centres[b])
-    .map((k) => ({ ...refineRamp(x, y, centres[k], opts.rampWidthAt(centres[k]), opts.sigma, opts.sidePoints, spacing, factors, s), statistic: statistics[k], threshold }));
+    .map((k) => ({ ...refineRamp(x, y, centres[k], opts.rampWidthAt(centres[k]), opts.sigma, opts.sidePoints, spacing, s), statistic: statistics[k], threshold }));
 }

@@ -3,6 +3,7 @@
  */
 import type { PairPlusMinus } from '../plus-minus/refractor-plus-times.js';
 import { isSome } from '../shared/nan-none.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 /**
  * Per-pick noise of the combined T−, ms. Pairs share shots, so averaging K pairs does not
@@ -16,8 +17,8 @@ export function minusTimeNoiseMs(pairs: PairPlusMinus[], geophoneCount: number, 
   // number (no set or filtered list per geophone). O(K) to number, O(N·K) to count.
   const leftIndex = shotNumbers(pairs.map((p) => p.left.id));
   const rightIndex = shotNumbers(pairs.map((p) => p.right.id));
-  const leftSeen = new Int32Array(pairs.length).fill(-1);
-  const rightSeen = new Int32Array(pairs.length).fill(-1);
+  const leftSeen = zeros(pairs.length).fill(-1);
+  const rightSeen = zeros(pairs.length).fill(-1);
   const sigmas: number[] = [];
   for (let i = 0; i < geophoneCount; i++) {
     let forward = 0;
@@ -43,9 +44,9 @@ export function minusTimeNoiseMs(pairs: PairPlusMinus[], geophoneCount: number, 
 }
 
 /** Each id's number in order of first appearance, per position. O(n). */
-function shotNumbers(ids: string[]): Int32Array {
+function shotNumbers(ids: string[]): Doubles {
   const numbers = new Map<string, number>();
-  const out = new Int32Array(ids.length);
+  const out = zeros(ids.length);
   ids.forEach((id, k) => {
     let n = numbers.get(id);
     if (n === undefined) {

@@ -31,6 +31,7 @@ import {
 } from './index.js';
 import { minusTimeVelocity, type MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
 import { medianSpacing } from './steps.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 /** A refracted branch of one shot on one side of it (its own picks only, never phantomed). */
 export interface RefractedBranch {
@@ -332,29 +333,26 @@ export function segmentMinusVelocity(
   abscissaM: (number | null)[],
   use: boolean[],
 ): MinusTimeVelocityResult {
-  // The used points of every pair into two typed arrays shared by all pairs, one view per
-  // pair (the former per-pair number arrays were boxed garbage, K of them per segment and
-  // pass). Two passes: count, then fill. O(K·N).
-  let total = 0;
+  // The used points of every pair, counted and then copied into arrays of doubles sized
+  // by shared/zeros.ts (boxed number arrays, K of them per segment and pass, were garbage
+  // the collector copied). O(K·N).
+  const series: { xM: Doubles; minusTimeMs: Doubles }[] = [];
   for (const t of pairMinusTimesMs) {
-    for (let i = 0; i < t.length; i++) if (use[i] && t[i] === t[i] && abscissaM[i] !== null) total++;
-  }
-  const xs = new Float64Array(total);
-  const ts = new Float64Array(total);
-  const series: { xM: Float64Array; minusTimeMs: Float64Array }[] = [];
-  let at = 0;
-  for (const t of pairMinusTimesMs) {
-    const start = at;
+    let count = 0;
+    for (let i = 0; i < t.length; i++) if (use[i] && t[i] === t[i] && abscissaM[i] !== null) count++;
+    const xM = zeros(count);
+    const minusTimeMs = zeros(count);
+    let at = 0;
     for (let i = 0; i < t.length; i++) {
       const ti = t[i];
       const xi = abscissaM[i];
       if (use[i] && ti === ti && xi !== null) { // ti NaN: none (shared/nan-none.ts)
-        xs[at] = xi;
-        ts[at] = ti;
+        xM[at] = xi;
+        minusTimeMs[at] = ti;
         at++;
       }
     }
-    series.push({ xM: xs.subarray(start, at), minusTimeMs: ts.subarray(start, at) });
+    series.push({ xM, minusTimeMs });
   }
   return minusTimeVelocity(series);
 }

@@ -38,6 +38,7 @@ import { combinationVariance, leastSquares, type LeastSquaresFit } from './least
 import { robustNoiseSigma } from './noise-level.js';
 import { normalQuantile } from './quantiles.js';
 import { checkPositions, checkPositive, checkValues, presentPoints, StructureInputError } from './structure-input.js';
+import { zeros, type Doubles } from '../shared/zeros.js';
 
 export interface VelocitySegment {
   /** Extent along the line, m. */
@@ -178,15 +179,15 @@ function bestWith(x: readonly number[], y: readonly number[], knots: readonly nu
  * candidate that could be the least is still made. null when the base design is
  * singular (then every candidate is fitted densely). Cost O(n·p² + m·(p + log n)).
  */
-export function screenCandidates(x: readonly number[], y: readonly number[], base: readonly number[], xMean: number, candidates: readonly number[]): { rss: Float64Array; cutoff: number } | null {
+export function screenCandidates(x: readonly number[], y: readonly number[], base: readonly number[], xMean: number, candidates: readonly number[]): { rss: Doubles; cutoff: number } | null {
   const knots = [...base].sort((a, b) => a - b);
   const n = x.length;
   const p = 2 + knots.length;
   if (n <= p) return null;
   // Orthonormal basis of [1, u, (x − k)₊ …], column by column.
-  const q: Float64Array[] = [];
+  const q: Doubles[] = [];
   for (let j = 0; j < p; j++) {
-    const v = new Float64Array(n);
+    const v = zeros(n);
     for (let i = 0; i < n; i++) v[i] = j === 0 ? 1 : j === 1 ? x[i] - xMean : Math.max(0, x[i] - knots[j - 2]);
     let original = 0;
     for (let i = 0; i < n; i++) original += v[i] * v[i];
@@ -205,7 +206,7 @@ export function screenCandidates(x: readonly number[], y: readonly number[], bas
     for (let i = 0; i < n; i++) v[i] /= norm;
     q.push(v);
   }
-  const e = Float64Array.from(y);
+  const e = y.slice();
   for (let pass = 0; pass < 2; pass++) {
     for (const w of q) {
       let d = 0;
@@ -218,9 +219,9 @@ export function screenCandidates(x: readonly number[], y: readonly number[], bas
   // Running sums, row i: [1, u, u², e, u·e, q_0, q_0·u, …] over the points from i to the
   // end (suffix, row n = 0) and over the points before i (prefix, row 0 = 0).
   const width = 5 + 2 * p;
-  const suffix = new Float64Array((n + 1) * width);
-  const prefix = new Float64Array((n + 1) * width);
-  const accumulate = (table: Float64Array, row: number, from: number, i: number): void => {
+  const suffix = zeros((n + 1) * width);
+  const prefix = zeros((n + 1) * width);
+  const accumulate = (table: Doubles, row: number, from: number, i: number): void => {
     const u = x[i] - xMean;
     table[row] = table[from] + 1;
     table[row + 1] = table[from + 1] + u;
@@ -234,7 +235,7 @@ export function screenCandidates(x: readonly number[], y: readonly number[], bas
   };
   for (let i = n - 1; i >= 0; i--) accumulate(suffix, i * width, (i + 1) * width, i);
   for (let i = 0; i < n; i++) accumulate(prefix, (i + 1) * width, i * width, i);
-  const rss = new Float64Array(candidates.length);
+  const rss = zeros(candidates.length);
   let least = Infinity;
   for (let m = 0; m < candidates.length; m++) {
     const c = candidates[m] - xMean;

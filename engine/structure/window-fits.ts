@@ -103,6 +103,73 @@ export function addColumn(x: readonly number[], y: readonly number[], lo: number
   return true;
 }
 
+/**
+ * The line and the line plus one column g (g_i = column[i − columnStart]) over the window
+ * x[lo..hi−1], u = x − origin, in one pass: what fitWindowLine and addColumn give, with
+ * one loop instead of five. y is measured from the window's chord (the line through its
+ * end points) before summing; the fit is unchanged by subtracting a line, and the sums are
+ * then of residual-sized numbers, so the RSS keeps its precision (sums of raw values would
+ * cancel). With the sums Σu, Σu², Σv, Σuv, Σv², Σg, Σg², Σgu, Σgv (v = y − chord):
+ *   Sxx = Σu² − (Σu)²/n, b = (Σuv − ΣuΣv/n)/Sxx, RSS_line = Σv² − (Σv)²/n − b·(Σuv − ΣuΣv/n),
+ *   ⟨g̃, g̃⟩ = Σg² − (Σg)²/n − (Σgu − ΣgΣu/n)²/Sxx,  ⟨g̃, e⟩ = Σg·e = Σgv − v̄Σg − b·(Σgu − ūΣg)
+ * (e, the line's residuals, is orthogonal to 1 and u), then addColumn's Frisch–Waugh–Lovell
+ * step. Writes `line` and `out`; false when the line or the column cannot be fitted (the
+ * same tests as fitWindowLine and addColumn). Cost O(m), no allocation.
+ */
+export function fitLineAndColumn(x: readonly number[], y: readonly number[], lo: number, hi: number, origin: number, column: Float64Array, columnStart: number, line: WindowLine, out: ColumnFit): boolean {
+  const n = hi - lo;
+  if (n < 3) return false;
+  const x0 = x[lo] - origin;
+  const span = x[hi - 1] - x[lo];
+  if (!(span > 0)) return false;
+  const chordSlope = (y[hi - 1] - y[lo]) / span;
+  const y0 = y[lo];
+  let su = 0;
+  let suu = 0;
+  let sv = 0;
+  let suv = 0;
+  let svv = 0;
+  let sg = 0;
+  let sgg = 0;
+  let sgu = 0;
+  let sgv = 0;
+  for (let i = lo; i < hi; i++) {
+    const u = x[i] - origin;
+    const v = y[i] - y0 - chordSlope * (u - x0);
+    const g = column[i - columnStart];
+    su += u;
+    suu += u * u;
+    sv += v;
+    suv += u * v;
+    svv += v * v;
+    sg += g;
+    sgg += g * g;
+    sgu += g * u;
+    sgv += g * v;
+  }
+  const uMean = su / n;
+  const vMean = sv / n;
+  const sxx = suu - su * uMean;
+  if (!(sxx > 0)) return false;
+  const sxv = suv - su * vMean;
+  const vSlope = sxv / sxx;
+  line.n = n;
+  line.uMean = uMean;
+  line.yMean = y0 + chordSlope * (uMean - x0) + vMean;
+  line.sxx = sxx;
+  line.slope = chordSlope + vSlope;
+  line.rss = Math.max(0, svv - sv * vMean - vSlope * sxv);
+  line.sumU2 = suu;
+  const sxg = sgu - sg * uMean;
+  const q = sgg - sg * (sg / n) - (sxg * sxg) / sxx;
+  if (!(q > SINGULAR_RELATIVE * Math.max(n, suu, sgg))) return false;
+  const p = sgv - vMean * sg - vSlope * sxg;
+  out.rss = Math.max(0, line.rss - (p * p) / q);
+  out.coefficient = p / q;
+  out.unscaledVariance = 1 / q;
+  return true;
+}
+
 export interface ColumnFit {
   rss: number;
   coefficient: number;
@@ -155,10 +222,14 @@ export function bestKinkRss(x: readonly number[], y: readonly number[], lo: numb
   return best;
 }
 
-/** First index with |x_i − c| ≤ reach (x increasing); binary search, O(log n). */
-export function windowStart(x: readonly number[], c: number, reach: number): number {
-  let a = 0;
-  let b = x.length;
+/**
+ * First index with |x_i − c| ≤ reach (x increasing); binary search over x[from..to−1]
+ * (default all of x; a caller that knows the window lies within a range searches only
+ * that), O(log(to − from)).
+ */
+export function windowStart(x: readonly number[], c: number, reach: number, from = 0, to = x.length): number {
+  let a = from;
+  let b = to;
   while (a < b) {
     const mid = (a + b) >> 1;
     if (x[mid] < c && c - x[mid] > reach) a = mid + 1;
@@ -167,10 +238,10 @@ export function windowStart(x: readonly number[], c: number, reach: number): num
   return a;
 }
 
-/** One past the last index with |x_i − c| ≤ reach; binary search, O(log n). */
-export function windowEnd(x: readonly number[], c: number, reach: number): number {
-  let a = 0;
-  let b = x.length;
+/** One past the last index with |x_i − c| ≤ reach; binary search over x[from..to−1], O(log(to − from)). */
+export function windowEnd(x: readonly number[], c: number, reach: number, from = 0, to = x.length): number {
+  let a = from;
+  let b = to;
   while (a < b) {
     const mid = (a + b) >> 1;
     if (x[mid] > c && x[mid] - c > reach) b = mid;
@@ -178,4 +249,3 @@ export function windowEnd(x: readonly number[], c: number, reach: number): numbe
   }
   return a;
 }
-

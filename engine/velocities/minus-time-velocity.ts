@@ -19,6 +19,7 @@
  * found is the refractor velocity divided by cos θ (0.4 % high at 5°, 1 % at 8°). It is
  * reported as measured; the caller documents the bias.
  */
+import { zeros } from '../shared/zeros.js';
 export interface MinusTimeSeries {
   /** Geophone positions, m. */
   xM: ArrayLike<number>;
@@ -59,8 +60,8 @@ export function minusTimeVelocity(series: MinusTimeSeries[]): MinusTimeVelocityR
   // pass over every pair's T−, and the tuples were most of the garbage). O(n) for n points.
   let capacity = 0;
   for (const s of series) capacity += Math.min(s.xM.length, s.minusTimeMs.length);
-  const cx = new Float64Array(capacity);
-  const ct = new Float64Array(capacity);
+  const cx = zeros(capacity);
+  const ct = zeros(capacity);
   let count = 0;
   let groups = 0;
   for (const s of series) {

@@ -11,10 +11,10 @@
  */
 export class RunningMedian {
   /** Max-heap of the lower half. */
-  private lower: Float64Array = new Float64Array(16);
+  private lower: number[] = [];
   private lowerSize = 0;
   /** Min-heap of the upper half. */
-  private upper: Float64Array = new Float64Array(16);
+  private upper: number[] = [];
   private upperSize = 0;
 
   get size(): number {
@@ -41,11 +41,11 @@ export class RunningMedian {
 
   // Both heaps store keys so that the root is the smallest: lower stores −value.
   private pushLower(value: number): void {
-    this.lower = siftUp(grow(this.lower, this.lowerSize), this.lowerSize++, -value);
+    siftUp(this.lower, this.lowerSize++, -value);
   }
 
   private pushUpper(value: number): void {
-    this.upper = siftUp(grow(this.upper, this.upperSize), this.upperSize++, value);
+    siftUp(this.upper, this.upperSize++, value);
   }
 
   private popLower(): number {
@@ -57,15 +57,12 @@ export class RunningMedian {
   }
 }
 
-function grow(heap: Float64Array, size: number): Float64Array {
-  if (size < heap.length) return heap;
-  const bigger = new Float64Array(heap.length * 2);
-  bigger.set(heap);
-  return bigger;
-}
-
-/** Inserts key at position `at` of a min-heap and restores the order. O(log n). */
-function siftUp(heap: Float64Array, at: number, key: number): Float64Array {
+/**
+ * Inserts key at position `at` (≤ heap.length: a plain array grows by one when at equals
+ * its length; a typed array would cost more to allocate, shared/zeros.ts) of a min-heap and
+ * restores the order. O(log n).
+ */
+function siftUp(heap: number[], at: number, key: number): void {
   let i = at;
   while (i > 0) {
     const parent = (i - 1) >> 1;
@@ -74,11 +71,10 @@ function siftUp(heap: Float64Array, at: number, key: number): Float64Array {
     i = parent;
   }
   heap[i] = key;
-  return heap;
 }
 
 /** Removes and returns the root of a min-heap of `size` keys. O(log n). */
-function popMin(heap: Float64Array, size: number): number {
+function popMin(heap: number[], size: number): number {
   const root = heap[0];
   const last = heap[size - 1];
   const n = size - 1;

@@ -20,7 +20,7 @@ import { fromNullable } from '../../engine/shared/nan-none.js';
 
 describe('combineWeighted (inverse-variance mean; Bevington & Robinson 2003, ch. 4)', () => {
   it('weights each pair by 1/variance and gives σ = 1/√Σw and the χ² of the pairs', () => {
-    const r = combineWeighted([fromNullable([10, null]), Float64Array.of(13, 7)], [fromNullable([1, null]), Float64Array.of(4, 2)], 2);
+    const r = combineWeighted([fromNullable([10, null]), [13, 7]], [fromNullable([1, null]), [4, 2]], 2);
     // (10/1 + 13/4)/(1 + 1/4) = 10.6; σ = 1/√1.25; χ² = (10 − 10.6)² + (13 − 10.6)²/4 = 1.8.
     expect(r.valueMs[0]).toBeCloseTo(10.6, 12);
     expect(r.sigmaMs[0]).toBeCloseTo(1 / Math.sqrt(1.25), 12);
@@ -31,7 +31,7 @@ describe('combineWeighted (inverse-variance mean; Bevington & Robinson 2003, ch.
   });
 
   it('leaves out values without a usable variance', () => {
-    const r = combineWeighted([Float64Array.of(5), Float64Array.of(9)], [Float64Array.of(0), fromNullable([null])], 1);
+    const r = combineWeighted([[5], [9]], [[0], fromNullable([null])], 1);
     expect(r.valueMs).toEqual([null]);
     expect(r.pairCount).toEqual([0]);
   });
@@ -41,7 +41,7 @@ describe('combineMinusTimes (pairs differ by a constant: Hagedoorn 1959)', () =>
   it('puts every pair on the datum of the pair that covers most geophones', () => {
     const reference = [0, 1, 2, 3, 4, 5];
     const other = [null, null, 11.5, 12.5, 13.5, null]; // same slope, constant +9.5
-    const r = combineMinusTimes([fromNullable(other), Float64Array.from(reference)], [fromNullable(other.map((t) => (t === null ? null : 1))), Float64Array.from(reference, () => 1)], 6);
+    const r = combineMinusTimes([fromNullable(other), [...reference]], [fromNullable(other.map((t) => (t === null ? null : 1))), reference.map(() => 1)], 6);
     r.valueMs.forEach((t, i) => expect(t).toBeCloseTo(reference[i], 12));
     expect(r.pairCount).toEqual([1, 1, 2, 2, 2, 1]);
   });

@@ -16,8 +16,8 @@ describe('plusMinus', () => {
     leftShotXM: shotA.x,
     rightShotXM: shotB.x,
     geophoneXM: xs,
-    leftTimesMs: Float64Array.from(xs, (_, i) => t(shotA, i)),
-    rightTimesMs: Float64Array.from(xs, (_, i) => t(shotB, i)),
+    leftTimesMs: Array.from(xs, (_, i) => t(shotA, i)),
+    rightTimesMs: Array.from(xs, (_, i) => t(shotB, i)),
     reciprocalTimeMs: tAB,
   });
 

@@ -3,6 +3,7 @@ import { adjustReciprocalTimes, choleskyFactor, choleskyInverseDiagonal, cholesk
 import { planStructuredAdjustment } from '../../engine/reciprocal/structured-adjustment.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
 import { fromNullable } from '../../engine/shared/nan-none.js';
+import type { Doubles } from '../../engine/shared/zeros.js';
 
 /**
  * The delay time at a geophone is the same whichever opposing pair measures it (Hagedoorn,
@@ -81,7 +82,7 @@ function solveDense(matrix: number[][], rhs: number[]): number[] | null {
   return x;
 }
 
-function denseAdjustment(pairs: AdjustablePair[]): { shifts: number[]; inverseDiagonal: number[] } {
+function denseAdjustment(pairs: AdjustablePair[]): { shifts: Doubles; inverseDiagonal: Doubles } {
   const k = pairs.length;
   const a = Array.from({ length: k }, () => new Array<number>(k).fill(0));
   const b = new Array<number>(k).fill(0);
@@ -141,7 +142,7 @@ describe('adjustReciprocalTimes by one Cholesky factorisation', () => {
       expect(factor).not.toBeNull();
       const shifts = choleskySolve(factor!, k, system!.rhs);
       const diagonal = choleskyInverseDiagonal(factor!, k);
-      const scale = Math.max(...dense.shifts.map(Math.abs));
+      const scale = Math.max(...Array.from(dense.shifts, Math.abs));
       for (let m = 0; m < k; m++) {
         expect(Math.abs(shifts[m] - dense.shifts[m])).toBeLessThanOrEqual(1e-9 * scale);
         expect(Math.abs(diagonal[m] - dense.inverseDiagonal[m])).toBeLessThanOrEqual(1e-9 * dense.inverseDiagonal[m]);
@@ -157,7 +158,7 @@ describe('adjustReciprocalTimes by one Cholesky factorisation', () => {
   });
 
   it('refuses a matrix that is not positive definite', () => {
-    expect(choleskyFactor(Float64Array.from([1, 2, 2, 1]), 2)).toBeNull();
+    expect(choleskyFactor([1, 2, 2, 1], 2)).toBeNull();
   });
 });
 
@@ -191,12 +192,12 @@ function linePairs(rng: () => number, shots: number, g: number, classes: number[
 
 describe('the structured adjustment (N = Δ − U·Ω·Uᵀ, Woodbury)', () => {
   const expectSame = (
-    fast: { shifts: Float64Array; inverseDiagonal: Float64Array },
-    dense: { shifts: Float64Array; inverseDiagonal: Float64Array },
+    fast: { shifts: Doubles; inverseDiagonal: Doubles },
+    dense: { shifts: Doubles; inverseDiagonal: Doubles },
     varianceTolerance = 1e-9,
   ): void => {
-    const scale = Math.max(...dense.shifts.map(Math.abs));
-    dense.shifts.forEach((s, m) => {
+    const scale = Math.max(...Array.from(dense.shifts, Math.abs));
+    Array.from(dense.shifts).forEach((s, m) => {
       expect(Math.abs(fast.shifts[m] - s)).toBeLessThanOrEqual(1e-9 * scale);
       expect(Math.abs(fast.inverseDiagonal[m] - dense.inverseDiagonal[m])).toBeLessThanOrEqual(varianceTolerance * dense.inverseDiagonal[m]);
     });

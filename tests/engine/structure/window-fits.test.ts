@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { leastSquares } from '../../../engine/structure/least-squares.js';
-import { addColumn, bestKinkRss, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from '../../../engine/structure/window-fits.js';
+import { addColumn, bestKinkRss, fitLineAndColumn, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from '../../../engine/structure/window-fits.js';
 import { gaussian, mulberry32 } from '../../helpers/random.js';
 
 /** Agreement asked of the running-sum fits against the dense solve, relative. */
@@ -69,6 +69,32 @@ describe('window fits against the dense least-squares fit', () => {
       expect(addColumn(x, y, lo, c, line, column, fit)).toBe(true);
       const dense = leastSquares(x.slice(lo, hi).map((xi) => [1, xi - c, ramp(xi - c)]), y.slice(lo, hi));
       expect(dense).not.toBeNull();
+      expectClose(fit.coefficient, dense!.coefficients[2]);
+      expectClose(fit.unscaledVariance, dense!.unscaledCovariance[2][2]);
+      expectClose(fit.rss, dense!.rss);
+    }
+  });
+
+  it('fitLineAndColumn: line and line + ramp column in one pass equal the normal equations (300 random windows, unit steps included)', () => {
+    const rng = mulberry32(903);
+    const fit: ColumnFit = { rss: 0, coefficient: 0, unscaledVariance: 0 };
+    for (let trial = 0; trial < 300; trial++) {
+      const { x, y } = randomProfile(rng, 8 + Math.floor(60 * rng()));
+      const lo = Math.floor(rng() * (x.length - 6));
+      const hi = Math.min(x.length, lo + 6 + Math.floor(rng() * 40));
+      const c = x[lo] + (0.2 + 0.6 * rng()) * (x[hi - 1] - x[lo]);
+      const width = trial % 10 === 0 ? 0 : 1 + 20 * rng();
+      const ramp = (u: number): number => (width > 0 ? 1 / (1 + Math.exp((-4 * u) / width)) : u >= 0 ? 1 : 0);
+      const line = newLine();
+      const column = Float64Array.from({ length: hi - lo + 3 }, (_, j) => (j < 3 ? NaN : ramp(x[lo + j - 3] - c)));
+      expect(fitLineAndColumn(x, y, lo, hi, c, column, lo - 3, line, fit)).toBe(true);
+      const lineDense = leastSquares(x.slice(lo, hi).map((xi) => [1, xi - c]), y.slice(lo, hi));
+      const dense = leastSquares(x.slice(lo, hi).map((xi) => [1, xi - c, ramp(xi - c)]), y.slice(lo, hi));
+      expect(lineDense).not.toBeNull();
+      expect(dense).not.toBeNull();
+      expectClose(line.slope, lineDense!.coefficients[1]);
+      expectClose(line.yMean + line.slope * (0 - line.uMean), lineDense!.coefficients[0]);
+      expectClose(line.rss, lineDense!.rss);
       expectClose(fit.coefficient, dense!.coefficients[2]);
       expectClose(fit.unscaledVariance, dense!.unscaledCovariance[2][2]);
       expectClose(fit.rss, dense!.rss);
