@@ -24,7 +24,7 @@
  * smeared vertical step; a wider one is two changes of dip, not a step.
  */
 import { leastSquares } from './least-squares.js';
-import { addColumn, bestKinkRss, fitLineAndColumn, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from './window-fits.js';
+import { addColumn, addColumnOnePass, bestKinkRss, fitWindowLine, fitWindowLineOnePass, windowEnd, windowStart, type ColumnFit, type WindowLine } from './window-fits.js';
 import { normalQuantile } from './quantiles.js';
 
 export interface JumpDetection {
@@ -84,7 +84,7 @@ interface Scratch {
   columnsStart: number;
   columnsEnd: number;
   fit: ColumnFit;
-  /** Per trial (2n − 1 centres × the width factors): centre, W0, factor index, bound, statistic, half-width. */
+  /** Per trial (2n − 1 centres × the width factors): centre, W0, factor index, RSS_line/σ², statistic, half-width. */
   centres: Float64Array;
   baseWidths: Float64Array;
   factorOf: Uint8Array;
@@ -180,29 +180,34 @@ function firstAbove(x: readonly number[], bound: number, from: number, to: numbe
 }
 
 /**
- * The window of centre c and width factor k (ramp width W = W0·f_k), and its step fit,
- * with the ramp taken from s.columns (fillRampColumns of c over a window containing this
- * one): writes the window's line into s.line and returns RSS_step, or NaN when the window
- * has too few points on a side or a fit is singular. Cost O(m) for the m points within
- * W/2 + sidePoints spacings of c (one pass, fitLineAndColumn); the points beyond each end
- * of the ramp are counted by bisection.
+ * The window of centre c and width factor k (ramp width W = W0·f_k), searched within
+ * x[from..to−1] (a range known to hold it; the same indices as over all of x, in O(log m)),
+ * and its line fit: sets s.lo, s.hi and s.line and returns true, or false when the window
+ * has fewer than minSidePoints points beyond either end of the ramp or the line cannot be
+ * fitted. Cost O(m) for the m points within W/2 + sidePoints spacings of c (one pass); the
+ * points beyond each end of the ramp are counted by bisection.
  */
-function stepFit(x: readonly number[], y: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, s: Scratch): number {
+function lineFit(x: readonly number[], y: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, from: number, to: number, s: Scratch): boolean {
   const width = w0 * WIDTH_FACTORS[k];
   const reach = windowReach(width, opts, spacing);
-  // Every search within the widest window (s.columnsStart..s.columnsEnd − 1), which holds
-  // this one: the same indices as over all of x, in O(log m).
-  const from = s.columnsStart;
-  const to = s.columnsEnd;
   const lo = windowStart(x, c, reach, from, to);
   const hi = windowEnd(x, c, reach, from, to);
   const nLeft = Math.max(0, Math.min(hi, firstAbove(x, c - width / 2, from, to)) - lo);
   const nRight = Math.max(0, hi - Math.max(lo, firstAtOrAbove(x, c + width / 2, from, to)));
-  if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return NaN;
+  if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return false;
   s.lo = lo;
   s.hi = hi;
-  if (!fitLineAndColumn(x, y, lo, hi, c, s.columns[k], s.columnsStart, s.line, s.fit)) return NaN;
-  return s.fit.rss;
+  return fitWindowLineOnePass(x, y, lo, hi, c, s.line);
+}
+
+/**
+ * The step fit of a trial whose line lineFit has just fitted (s.lo, s.hi, s.line): its
+ * ramp computed over the window (fillRampColumns) and added to the line. RSS_step, or NaN
+ * when the ramp is (numerically) a line over the window. O(m).
+ */
+function stepFit(x: readonly number[], y: readonly number[], c: number, w0: number, k: number, s: Scratch): number {
+  fillRampColumns(x, c, w0, s.lo, s.hi, s);
+  return addColumnOnePass(x, y, s.lo, c, s.line, s.columns[k], s.columnsStart, s.fit) ? s.fit.rss : NaN;
 }
 
 /**
@@ -259,12 +264,16 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
  * widths and m points per window (m grows with the ramp width, i.e. the depth, not with
  * the line length), plus O(D·T·m) to refine D detections; O(n) memory.
  *
- * Two passes. The first fits the line and the step in every window and counts the trials
- * (the Bonferroni m). RSS_kink ≤ RSS_line (the kink model nests the line), so
- * (RSS_line − RSS_step)/σ² bounds the statistic from above; the second pass fits the kink
- * only where that bound exceeds the threshold, for there alone can the statistic pass.
- * A trial whose kink cannot be fitted (no hinge with two points either side, which the
- * side counts already rule out) counts as a trial that did not pass.
+ * Two passes. The first fits the line in every window and counts the trials (the
+ * Bonferroni m): a trial is a centre and width with enough points beyond each end of the
+ * ramp and a line that can be fitted. Both models nest the line, so
+ * RSS_kink − RSS_step ≤ RSS_line − RSS_step ≤ RSS_line, and the statistic cannot pass
+ * where RSS_line/σ² does not: the second pass fits the step (and, where
+ * (RSS_line − RSS_step)/σ² still passes, the kink) only there. On a profile as smooth as
+ * its noise that is almost nowhere, so a scan costs about a line fit per trial. A trial
+ * whose step or kink cannot be fitted (the ramp or hinge numerically a line over the
+ * window, which points beyond both ramp ends rule out in practice) counts as a trial that
+ * did not pass.
  */
 export function scanForJumps(x: readonly number[], y: readonly number[], opts: JumpScanOptions): JumpDetection[] {
   if (x.length < 2 * opts.minSidePoints) return [];
@@ -272,8 +281,8 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
   const s = scratchFor(x.length);
   const sigma2 = opts.sigma * opts.sigma;
-  // Every trial (centre, width) with a line and a step fit, in scan order: centre, W0,
-  // width factor, the statistic's upper bound (RSS_line − RSS_step)/σ².
+  // Every trial (centre, width) with a line fit, in scan order: centre, W0, width factor,
+  // RSS_line/σ² (the statistic's upper bound).
   const { centres, baseWidths, factorOf, bounds, statistics, halfWidths } = s;
   let evaluated = 0;
   for (let i = 0; i < x.length; i++) {
@@ -283,14 +292,14 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
       const w0 = Math.max(0, opts.rampWidthAt(c));
       // The widest ramp's window holds every narrower one's.
       const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
-      fillRampColumns(x, c, w0, windowStart(x, c, widest), windowEnd(x, c, widest), s);
+      const from = windowStart(x, c, widest);
+      const to = windowEnd(x, c, widest);
       for (let k = 0; k < factorCount; k++) {
-        const stepRss = stepFit(x, y, c, w0, k, opts, spacing, s);
-        if (Number.isNaN(stepRss)) continue;
+        if (!lineFit(x, y, c, w0, k, opts, spacing, from, to, s)) continue;
         centres[evaluated] = c;
         baseWidths[evaluated] = w0;
         factorOf[evaluated] = k;
-        bounds[evaluated] = (s.line.rss - stepRss) / sigma2;
+        bounds[evaluated] = s.line.rss / sigma2;
         evaluated++;
       }
     }
@@ -301,11 +310,12 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   const passing: number[] = [];
   for (let r = 0; r < evaluated; r++) {
     const w0 = baseWidths[r];
-    halfWidths[r] = (w0 * WIDTH_FACTORS[factorOf[r]]) / 2;
+    const k = factorOf[r];
+    halfWidths[r] = (w0 * WIDTH_FACTORS[k]) / 2;
     if (!(bounds[r] > threshold)) continue;
-    const reach = windowReach(w0 * WIDTH_FACTORS[factorOf[r]], opts, spacing);
-    fillRampColumns(x, centres[r], w0, windowStart(x, centres[r], reach), windowEnd(x, centres[r], reach), s);
-    const stepRss = stepFit(x, y, centres[r], w0, factorOf[r], opts, spacing, s);
+    lineFit(x, y, centres[r], w0, k, opts, spacing, 0, x.length, s);
+    const stepRss = stepFit(x, y, centres[r], w0, k, s);
+    if (!((s.line.rss - stepRss) / sigma2 > threshold)) continue;
     const kinkRss = bestKinkRss(x, y, s.lo, s.hi, centres[r], s.line);
     if (!Number.isFinite(kinkRss)) continue;
     statistics[r] = (kinkRss - stepRss) / sigma2;

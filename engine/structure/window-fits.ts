@@ -104,19 +104,14 @@ export function addColumn(x: readonly number[], y: readonly number[], lo: number
 }
 
 /**
- * The line and the line plus one column g (g_i = column[i − columnStart]) over the window
- * x[lo..hi−1], u = x − origin, in one pass: what fitWindowLine and addColumn give, with
- * one loop instead of five. y is measured from the window's chord (the line through its
- * end points) before summing; the fit is unchanged by subtracting a line, and the sums are
- * then of residual-sized numbers, so the RSS keeps its precision (sums of raw values would
- * cancel). With the sums Σu, Σu², Σv, Σuv, Σv², Σg, Σg², Σgu, Σgv (v = y − chord):
- *   Sxx = Σu² − (Σu)²/n, b = (Σuv − ΣuΣv/n)/Sxx, RSS_line = Σv² − (Σv)²/n − b·(Σuv − ΣuΣv/n),
- *   ⟨g̃, g̃⟩ = Σg² − (Σg)²/n − (Σgu − ΣgΣu/n)²/Sxx,  ⟨g̃, e⟩ = Σg·e = Σgv − v̄Σg − b·(Σgu − ūΣg)
- * (e, the line's residuals, is orthogonal to 1 and u), then addColumn's Frisch–Waugh–Lovell
- * step. Writes `line` and `out`; false when the line or the column cannot be fitted (the
- * same tests as fitWindowLine and addColumn). Cost O(m), no allocation.
+ * fitWindowLine in one pass instead of three. y is measured from the window's chord (the
+ * line through its end points) before summing: the fit is unchanged by subtracting a line,
+ * and the sums are then of residual-sized numbers, so the RSS keeps its precision (sums of
+ * raw values would cancel). With the sums Σu, Σu², Σv, Σuv, Σv² (v = y − chord):
+ *   Sxx = Σu² − (Σu)²/n,  b = (Σuv − ΣuΣv/n)/Sxx,  RSS = Σv² − (Σv)²/n − b·(Σuv − ΣuΣv/n).
+ * Same refusals as fitWindowLine. Cost O(m), no allocation.
  */
-export function fitLineAndColumn(x: readonly number[], y: readonly number[], lo: number, hi: number, origin: number, column: Float64Array, columnStart: number, line: WindowLine, out: ColumnFit): boolean {
+export function fitWindowLineOnePass(x: readonly number[], y: readonly number[], lo: number, hi: number, origin: number, out: WindowLine): boolean {
   const n = hi - lo;
   if (n < 3) return false;
   const x0 = x[lo] - origin;
@@ -129,23 +124,14 @@ export function fitLineAndColumn(x: readonly number[], y: readonly number[], lo:
   let sv = 0;
   let suv = 0;
   let svv = 0;
-  let sg = 0;
-  let sgg = 0;
-  let sgu = 0;
-  let sgv = 0;
   for (let i = lo; i < hi; i++) {
     const u = x[i] - origin;
     const v = y[i] - y0 - chordSlope * (u - x0);
-    const g = column[i - columnStart];
     su += u;
     suu += u * u;
     sv += v;
     suv += u * v;
     svv += v * v;
-    sg += g;
-    sgg += g * g;
-    sgu += g * u;
-    sgv += g * v;
   }
   const uMean = su / n;
   const vMean = sv / n;
@@ -153,19 +139,41 @@ export function fitLineAndColumn(x: readonly number[], y: readonly number[], lo:
   if (!(sxx > 0)) return false;
   const sxv = suv - su * vMean;
   const vSlope = sxv / sxx;
-  line.n = n;
-  line.uMean = uMean;
-  line.yMean = y0 + chordSlope * (uMean - x0) + vMean;
-  line.sxx = sxx;
-  line.slope = chordSlope + vSlope;
-  line.rss = Math.max(0, svv - sv * vMean - vSlope * sxv);
-  line.sumU2 = suu;
-  const sxg = sgu - sg * uMean;
-  const q = sgg - sg * (sg / n) - (sxg * sxg) / sxx;
-  if (!(q > SINGULAR_RELATIVE * Math.max(n, suu, sgg))) return false;
-  const p = sgv - vMean * sg - vSlope * sxg;
-  out.rss = Math.max(0, line.rss - (p * p) / q);
-  out.coefficient = p / q;
+  out.n = n;
+  out.uMean = uMean;
+  out.yMean = y0 + chordSlope * (uMean - x0) + vMean;
+  out.sxx = sxx;
+  out.slope = chordSlope + vSlope;
+  out.rss = Math.max(0, svv - sv * vMean - vSlope * sxv);
+  out.sumU2 = suu;
+  return true;
+}
+
+/**
+ * addColumn in one pass instead of three, the column read from column[i − columnStart]:
+ * with ũ = u − ū and the line's residuals e (orthogonal to 1 and ũ),
+ *   ⟨g̃, g̃⟩ = Σg² − (Σg)²/n − (Σgũ)²/Sxx,  ⟨g̃, e⟩ = Σg·e.
+ * Same refusal as addColumn. Cost O(m), no allocation.
+ */
+export function addColumnOnePass(x: readonly number[], y: readonly number[], lo: number, origin: number, line: WindowLine, column: Float64Array, columnStart: number, out: ColumnFit): boolean {
+  const n = line.n;
+  let sg = 0;
+  let sgg = 0;
+  let sgu = 0;
+  let sge = 0;
+  for (let i = lo; i < lo + n; i++) {
+    const du = x[i] - origin - line.uMean;
+    const e = y[i] - line.yMean - line.slope * du;
+    const g = column[i - columnStart];
+    sg += g;
+    sgg += g * g;
+    sgu += g * du;
+    sge += g * e;
+  }
+  const q = sgg - sg * (sg / n) - (sgu * sgu) / line.sxx;
+  if (!(q > SINGULAR_RELATIVE * Math.max(n, line.sumU2, sgg))) return false;
+  out.rss = Math.max(0, line.rss - (sge * sge) / q);
+  out.coefficient = sge / q;
   out.unscaledVariance = 1 / q;
   return true;
 }

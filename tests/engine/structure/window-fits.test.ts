@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { leastSquares } from '../../../engine/structure/least-squares.js';
-import { addColumn, bestKinkRss, fitLineAndColumn, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from '../../../engine/structure/window-fits.js';
+import { addColumn, bestKinkRss, addColumnOnePass, fitWindowLineOnePass, fitWindowLine, windowEnd, windowStart, type ColumnFit, type WindowLine } from '../../../engine/structure/window-fits.js';
 import { gaussian, mulberry32 } from '../../helpers/random.js';
 
 /** Agreement asked of the running-sum fits against the dense solve, relative. */
@@ -75,7 +75,7 @@ describe('window fits against the dense least-squares fit', () => {
     }
   });
 
-  it('fitLineAndColumn: line and line + ramp column in one pass equal the normal equations (300 random windows, unit steps included)', () => {
+  it('fitWindowLineOnePass and addColumnOnePass: line and line + ramp column in one pass each equal the normal equations (300 random windows, unit steps included)', () => {
     const rng = mulberry32(903);
     const fit: ColumnFit = { rss: 0, coefficient: 0, unscaledVariance: 0 };
     for (let trial = 0; trial < 300; trial++) {
@@ -87,7 +87,8 @@ describe('window fits against the dense least-squares fit', () => {
       const ramp = (u: number): number => (width > 0 ? 1 / (1 + Math.exp((-4 * u) / width)) : u >= 0 ? 1 : 0);
       const line = newLine();
       const column = Float64Array.from({ length: hi - lo + 3 }, (_, j) => (j < 3 ? NaN : ramp(x[lo + j - 3] - c)));
-      expect(fitLineAndColumn(x, y, lo, hi, c, column, lo - 3, line, fit)).toBe(true);
+      expect(fitWindowLineOnePass(x, y, lo, hi, c, line)).toBe(true);
+      expect(addColumnOnePass(x, y, lo, c, line, column, lo - 3, fit)).toBe(true);
       const lineDense = leastSquares(x.slice(lo, hi).map((xi) => [1, xi - c]), y.slice(lo, hi));
       const dense = leastSquares(x.slice(lo, hi).map((xi) => [1, xi - c, ramp(xi - c)]), y.slice(lo, hi));
       expect(lineDense).not.toBeNull();
