@@ -130,32 +130,36 @@ class PrefixSums {
       syy[i + 1] = syy[i] + y * y;
     }
   }
-  /** Slope and SSE of the least-squares line over [i, j); null when the offsets do not vary. */
-  line(i: number, j: number): { slope: number; sse: number } | null {
+  /** Slope of the last successful fit. */
+  slope = 0;
+  /** SSE of the last successful fit. */
+  sse = 0;
+  /**
+   * Least-squares line over [i, j) into this.slope and this.sse; false when the offsets do
+   * not vary. Fields, not a returned object: this runs O(n²) times for three segments.
+   */
+  fit(i: number, j: number): boolean {
     const n = j - i;
     const c = this.c;
-    // Written out (no array map): this runs O(n²) times for three segments.
     const sx = c[0][j] - c[0][i];
     const sy = c[1][j] - c[1][i];
     const sxx = c[2][j] - c[2][i];
     const sxy = c[3][j] - c[3][i];
     const syy = c[4][j] - c[4][i];
     const dxx = sxx - (sx * sx) / n;
-    if (!(dxx > 1e-12)) return null;
+    if (!(dxx > 1e-12)) return false;
     const dxy = sxy - (sx * sy) / n;
     const dyy = syy - (sy * sy) / n;
     const slope = dxy / dxx;
-    return { slope, sse: Math.max(0, dyy - slope * dxy) };
+    this.slope = slope;
+    this.sse = Math.max(0, dyy - slope * dxy);
+    return true;
   }
 }
 
-function slopesIncrease(slopes: number[]): boolean {
-  if (slopes.some((s) => !(s > 0))) return false;
-  for (let k = 1; k < slopes.length; k++) {
-    // velocity ratio v_k / v_{k-1} = s_{k-1} / s_k
-    if (slopes[k - 1] / slopes[k] < MIN_VELOCITY_RATIO) return false;
-  }
-  return true;
+/** Both slownesses positive and the velocity rising by MIN_VELOCITY_RATIO from a to b (v_b / v_a = s_a / s_b). */
+function slopesIncrease(a: number, b: number): boolean {
+  return a > 0 && b > 0 && a / b >= MIN_VELOCITY_RATIO;
 }
 
 /**
@@ -169,34 +173,44 @@ export function bestBreakpoints(points: FitPoint[], segmentCount: 1 | 2 | 3): nu
   if (n < min.reduce((s, v) => s + v, 0)) return null;
   const sums = new PrefixSums(points.map((p) => p.offsetM), points.map((p) => p.timeMs));
   if (segmentCount === 1) {
-    const l = sums.line(0, n);
-    return l && l.slope > 0 ? [0] : null;
+    return sums.fit(0, n) && sums.slope > 0 ? [0] : null;
   }
   let best: number[] | null = null;
   let bestSse = Infinity;
   if (segmentCount === 2) {
     for (let k = min[0]; k <= n - min[1]; k++) {
-      const a = sums.line(0, k);
-      const b = sums.line(k, n);
-      if (!a || !b || !slopesIncrease([a.slope, b.slope])) continue;
-      if (a.sse + b.sse < bestSse) {
-        bestSse = a.sse + b.sse;
+      if (!sums.fit(0, k)) continue;
+      const aSlope = sums.slope;
+      const aSse = sums.sse;
+      if (!sums.fit(k, n) || !slopesIncrease(aSlope, sums.slope)) continue;
+      if (aSse + sums.sse < bestSse) {
+        bestSse = aSse + sums.sse;
         best = [0, k];
       }
     }
     return best;
   }
-  const tails = Array.from({ length: n + 1 }, (_, k) => (k <= n - min[2] ? sums.line(k, n) : null));
+  // The last segment's line for every start k (NaN slope: none), O(n).
+  const tailSlope = zeros(n + 1).fill(Number.NaN);
+  const tailSse = zeros(n + 1);
+  for (let k = 0; k <= n - min[2]; k++) {
+    if (sums.fit(k, n)) {
+      tailSlope[k] = sums.slope;
+      tailSse[k] = sums.sse;
+    }
+  }
   for (let k1 = min[0]; k1 <= n - min[1] - min[2]; k1++) {
-    const a = sums.line(0, k1);
-    if (!a || !(a.slope > 0)) continue;
+    if (!sums.fit(0, k1)) continue;
+    const aSlope = sums.slope;
+    const aSse = sums.sse;
+    if (!(aSlope > 0)) continue;
     for (let k2 = k1 + min[1]; k2 <= n - min[2]; k2++) {
-      const c = tails[k2];
-      if (!c || !(c.slope > 0) || a.slope / c.slope < MIN_VELOCITY_RATIO * MIN_VELOCITY_RATIO) continue;
-      const b = sums.line(k1, k2);
-      if (!b || !c || !slopesIncrease([a.slope, b.slope, c.slope])) continue;
-      if (a.sse + b.sse + c.sse < bestSse) {
-        bestSse = a.sse + b.sse + c.sse;
+      const cSlope = tailSlope[k2];
+      if (!(cSlope > 0) || aSlope / cSlope < MIN_VELOCITY_RATIO * MIN_VELOCITY_RATIO) continue;
+      if (!sums.fit(k1, k2) || !slopesIncrease(aSlope, sums.slope) || !slopesIncrease(sums.slope, cSlope)) continue;
+      const sse = aSse + sums.sse + tailSse[k2];
+      if (sse < bestSse) {
+        bestSse = sse;
         best = [0, k1, k2];
       }
     }

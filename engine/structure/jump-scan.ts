@@ -91,6 +91,8 @@ interface Scratch {
   bounds: Float64Array;
   statistics: Float64Array;
   halfWidths: Float64Array;
+  /** Prefix sums over the profile of u, u², v, uv, v² (u = x − x̄, v = y − the profile's chord), n + 1 each. */
+  prefix: Float64Array[];
 }
 
 let shared: Scratch | null = null;
@@ -116,6 +118,7 @@ function scratchFor(n: number): Scratch {
     bounds: new Float64Array(slots),
     statistics: new Float64Array(slots),
     halfWidths: new Float64Array(slots),
+    prefix: [0, 1, 2, 3, 4].map(() => new Float64Array(capacity + 1)),
   };
   return shared;
 }
@@ -181,13 +184,12 @@ function firstAbove(x: readonly number[], bound: number, from: number, to: numbe
 
 /**
  * The window of centre c and width factor k (ramp width W = W0·f_k), searched within
- * x[from..to−1] (a range known to hold it; the same indices as over all of x, in O(log m)),
- * and its line fit: sets s.lo, s.hi and s.line and returns true, or false when the window
- * has fewer than minSidePoints points beyond either end of the ramp or the line cannot be
- * fitted. Cost O(m) for the m points within W/2 + sidePoints spacings of c (one pass); the
- * points beyond each end of the ramp are counted by bisection.
+ * x[from..to−1] (a range known to hold it; the same indices as over all of x, in O(log m)):
+ * sets s.lo and s.hi and returns true, or false when it has fewer than minSidePoints points
+ * beyond either end of the ramp (counted by bisection). A window that passes has at least
+ * two such points on each side, hence distinct positions and a line that can be fitted.
  */
-function lineFit(x: readonly number[], y: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, from: number, to: number, s: Scratch): boolean {
+function trialWindow(x: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, from: number, to: number, s: Scratch): boolean {
   const width = w0 * WIDTH_FACTORS[k];
   const reach = windowReach(width, opts, spacing);
   const lo = windowStart(x, c, reach, from, to);
@@ -197,11 +199,50 @@ function lineFit(x: readonly number[], y: readonly number[], c: number, w0: numb
   if (nLeft < opts.minSidePoints || nRight < opts.minSidePoints) return false;
   s.lo = lo;
   s.hi = hi;
-  return fitWindowLineOnePass(x, y, lo, hi, c, s.line);
+  return true;
 }
 
 /**
- * The step fit of a trial whose line lineFit has just fitted (s.lo, s.hi, s.line): its
+ * Running sums for screenLineRss: u = x − x̄ and v = y less the chord through the
+ * profile's end points, so that the sums stay of the size of the profile's departures
+ * from a line and window differences keep their precision. O(n).
+ */
+function fillPrefixSums(x: readonly number[], y: readonly number[], s: Scratch): void {
+  const n = x.length;
+  let xMean = 0;
+  for (let i = 0; i < n; i++) xMean += x[i];
+  xMean /= n;
+  const chordSlope = (y[n - 1] - y[0]) / (x[n - 1] - x[0]);
+  const [pu, puu, pv, puv, pvv] = s.prefix;
+  for (let i = 0; i < n; i++) {
+    const u = x[i] - xMean;
+    const v = y[i] - y[0] - chordSlope * (x[i] - x[0]);
+    pu[i + 1] = pu[i] + u;
+    puu[i + 1] = puu[i] + u * u;
+    pv[i + 1] = pv[i] + v;
+    puv[i + 1] = puv[i] + u * v;
+    pvv[i + 1] = pvv[i] + v * v;
+  }
+}
+
+/**
+ * RSS of the straight line over x[lo..hi−1] from the running sums, O(1): the first pass's
+ * screen. It only decides whether a trial is worth its exact fits (lineFit, stepFit), which
+ * the second pass then makes, so its rounding never reaches a result.
+ */
+function screenLineRss(lo: number, hi: number, s: Scratch): number {
+  const [pu, puu, pv, puv, pvv] = s.prefix;
+  const n = hi - lo;
+  const su = pu[hi] - pu[lo];
+  const sv = pv[hi] - pv[lo];
+  const sxx = puu[hi] - puu[lo] - (su * su) / n;
+  const sxv = puv[hi] - puv[lo] - (su * sv) / n;
+  const svv = pvv[hi] - pvv[lo] - (sv * sv) / n;
+  return sxx > 0 ? Math.max(0, svv - (sxv * sxv) / sxx) : 0;
+}
+
+/**
+ * The step fit of a trial whose window and line are set (s.lo, s.hi, s.line): its
  * ramp computed over the window (fillRampColumns) and added to the line. RSS_step, or NaN
  * when the ramp is (numerically) a line over the window. O(m).
  */
@@ -260,13 +301,14 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
 }
 
 /**
- * Finds jumps in y(x); x strictly increasing, no nulls. Cost O(n·F·m) for n points, F
- * widths and m points per window (m grows with the ramp width, i.e. the depth, not with
- * the line length), plus O(D·T·m) to refine D detections; O(n) memory.
+ * Finds jumps in y(x); x strictly increasing, no nulls. Cost O(n·F·log m) to screen n
+ * points at F widths (m points per window, growing with the ramp width, i.e. the depth,
+ * not with the line length), O(m) more for each trial the screen passes, and O(D·T·m) to
+ * refine D detections; O(n) memory.
  *
- * Two passes. The first fits the line in every window and counts the trials (the
- * Bonferroni m): a trial is a centre and width with enough points beyond each end of the
- * ramp and a line that can be fitted. Both models nest the line, so
+ * Two passes. The first screens every window by its line's RSS from running sums (O(1)
+ * per trial) and counts the trials (the Bonferroni m): a trial is a centre and width with
+ * enough points beyond each end of the ramp. Both models nest the line, so
  * RSS_kink − RSS_step ≤ RSS_line − RSS_step ≤ RSS_line, and the statistic cannot pass
  * where RSS_line/σ² does not: the second pass fits the step (and, where
  * (RSS_line − RSS_step)/σ² still passes, the kink) only there. On a profile as smooth as
@@ -284,6 +326,7 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   // Every trial (centre, width) with a line fit, in scan order: centre, W0, width factor,
   // RSS_line/σ² (the statistic's upper bound).
   const { centres, baseWidths, factorOf, bounds, statistics, halfWidths } = s;
+  fillPrefixSums(x, y, s);
   let evaluated = 0;
   for (let i = 0; i < x.length; i++) {
     for (let half = 0; half < 2; half++) {
@@ -295,11 +338,11 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
       const from = windowStart(x, c, widest);
       const to = windowEnd(x, c, widest);
       for (let k = 0; k < factorCount; k++) {
-        if (!lineFit(x, y, c, w0, k, opts, spacing, from, to, s)) continue;
+        if (!trialWindow(x, c, w0, k, opts, spacing, from, to, s)) continue;
         centres[evaluated] = c;
         baseWidths[evaluated] = w0;
         factorOf[evaluated] = k;
-        bounds[evaluated] = s.line.rss / sigma2;
+        bounds[evaluated] = screenLineRss(s.lo, s.hi, s) / sigma2;
         evaluated++;
       }
     }
@@ -307,13 +350,17 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   if (!evaluated) return [];
   const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
   const threshold = z * z;
+  // The screen's rounding is a few ulps of the largest running sum (Σv² over the profile):
+  // a margin thousands of times that keeps every trial the exact fit could pass.
+  const screen = threshold - (1e-12 * s.prefix[4][x.length]) / sigma2;
   const passing: number[] = [];
   for (let r = 0; r < evaluated; r++) {
     const w0 = baseWidths[r];
     const k = factorOf[r];
     halfWidths[r] = (w0 * WIDTH_FACTORS[k]) / 2;
-    if (!(bounds[r] > threshold)) continue;
-    lineFit(x, y, centres[r], w0, k, opts, spacing, 0, x.length, s);
+    if (!(bounds[r] > screen)) continue;
+    trialWindow(x, centres[r], w0, k, opts, spacing, 0, x.length, s);
+    if (!fitWindowLineOnePass(x, y, s.lo, s.hi, centres[r], s.line)) continue;
     const stepRss = stepFit(x, y, centres[r], w0, k, s);
     if (!((s.line.rss - stepRss) / sigma2 > threshold)) continue;
     const kinkRss = bestKinkRss(x, y, s.lo, s.hi, centres[r], s.line);
