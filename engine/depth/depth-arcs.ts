@@ -131,8 +131,12 @@ export function envelopeElevationsM(arcs: DepthArc[], xsM: readonly number[]): (
 function envelopeAt(circles: Circle[], pieces: TangentPiece[], xM: number): number | null {
   let lowest: number | null = null;
   for (const c of circles) {
-    const y = lowerArcElevationM({ xM: c.x, elevationM: c.y, normalDepthM: c.r }, xM);
-    if (y !== null && (lowest === null || y < lowest)) lowest = y;
+    // lowerArcElevationM's arithmetic on the circle itself (its radius is a valid depth),
+    // without an arc object per circle and position: this runs n² times per section.
+    const dx = xM - c.x;
+    if (Math.abs(dx) > c.r) continue;
+    const y = c.y - Math.sqrt(Math.max(0, c.r * c.r - dx * dx));
+    if (lowest === null || y < lowest) lowest = y;
   }
   for (const p of pieces) {
     const y = pieceElevation(p, xM);

@@ -231,7 +231,13 @@ function fillPrefixSums(x: readonly number[], y: readonly number[], s: Scratch):
  * the second pass then makes, so its rounding never reaches a result.
  */
 function screenLineRss(lo: number, hi: number, s: Scratch): number {
-  const [pu, puu, pv, puv, pvv] = s.prefix;
+  // Indexed, not destructured: destructuring allocates an iterator, and this runs per trial.
+  const p = s.prefix;
+  const pu = p[0];
+  const puu = p[1];
+  const pv = p[2];
+  const puv = p[3];
+  const pvv = p[4];
   const n = hi - lo;
   const su = pu[hi] - pu[lo];
   const sv = pv[hi] - pv[lo];
