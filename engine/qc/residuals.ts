@@ -15,6 +15,8 @@
  * or to picks on the wrong branch.
  *
  * A pick at a geophone that coincides with its shot (0 ms by definition) is left out.
+ * Modelled times are given over the stretch each shot was recorded on (recordedSpread),
+ * null beyond it.
  * When the overall RMS exceeds RESIDUALS_HIGH_FACTOR × the pick uncertainty
  * (options.pickUncertaintyMs, resolved in options.ts), a "residuals-high" warning
  * names the worst shots. An interpretation with no depths, or with no V1 or V2, gets no
@@ -77,6 +79,26 @@ export interface ResidualsNotComputed {
 }
 
 /**
+ * The stretch of the line a shot was recorded on: from its first to its last geophone with
+ * a pick (dead traces inside it included). Times are modelled there only: beyond it there
+ * is no pick to compare with, and on a rolling line a shot's march would otherwise run on
+ * under every geophone of the line (a 240-geophone line with 48 live per shot cost 5.8× its
+ * interpretation). O(G).
+ */
+function recordedSpread(survey: Survey, times: readonly (number | null)[]): { covers: (x: number) => boolean } {
+  let lo = Infinity;
+  let hi = -Infinity;
+  survey.geophones.forEach((g, i) => {
+    const t = times[i];
+    if (typeof t === 'number' && Number.isFinite(t)) {
+      lo = Math.min(lo, g.x);
+      hi = Math.max(hi, g.x);
+    }
+  });
+  return { covers: (x) => x >= lo - 1e-6 && x <= hi + 1e-6 };
+}
+
+/**
  * Modelled first arrivals and residuals of every shot (see the file comment). Pure,
  * deterministic, unrounded; never throws.
  */
@@ -86,19 +108,22 @@ export function computeResiduals(survey: Survey, interpretation: Interpretation)
     if (!built.ok) return { ok: false, reason: built.reason };
     const { extent, nodes } = residualGridExtent(built, survey);
     const grid = buildVelocityGrid(built.model, extent);
-    // One workspace for every shot, and the nodes the geophones are read from: each
-    // shot's march stops once those are accepted (their times are then final; eikonal.ts).
+    // One workspace for every shot, and the nodes each geophone is read from: each shot's
+    // march stops once the nodes of the geophones it recorded are accepted (their times are
+    // then final; eikonal.ts).
     const workspace = new MarchWorkspace(grid);
-    const receiverNodes: number[] = [];
-    survey.geophones.forEach((g, i) => {
-      for (const k of samplingNodes(grid, g.x, interpretation.stations[i]?.elevation ?? g.elevation ?? 0)) receiverNodes.push(k);
-    });
+    const geophoneNodes = survey.geophones.map((g, i) => samplingNodes(grid, g.x, interpretation.stations[i]?.elevation ?? g.elevation ?? 0));
     const failedShots: { shot: string; reason: string }[] = [];
     let sumSq = 0;
     let count = 0;
     const shots = survey.shots.map((shot): ShotResiduals => {
       const z = shotSourceElevation(survey, interpretation, shot.id, shot.x, built.model.surface);
       const source = { x: shot.x, z };
+      const recorded = recordedSpread(survey, shot.times);
+      const receiverNodes: number[] = [];
+      survey.geophones.forEach((g, i) => {
+        if (recorded.covers(g.x)) for (const k of geophoneNodes[i]) receiverNodes.push(k);
+      });
       let times: Float64Array;
       try {
         times = solveOnWorkspace(workspace, source, {}, receiverNodes);
@@ -110,6 +135,7 @@ export function computeResiduals(survey: Survey, interpretation: Interpretation)
       const modelledMs = survey.geophones.map((g, i) => {
         const ge = interpretation.stations[i]?.elevation ?? g.elevation ?? 0;
         if (Math.abs(g.x - shot.x) < 1e-6) return 0;
+        if (!recorded.covers(g.x)) return null;
         const t = sampleTime(grid, times, g.x, ge, source);
         return Number.isFinite(t) ? t : null;
       });

@@ -65,6 +65,28 @@ describe('withResiduals through interpret', () => {
   });
 });
 
+describe('a shot recorded on part of the line (a rolling spread)', () => {
+  it('models the stretch it was recorded on, with the same times as when every geophone recorded it, and gives null beyond', () => {
+    // Shot 0 keeps its picks on the first half of the spread only (the rest dead): a shot of
+    // a rolling line. The interpretation is the same; only what is modelled differs.
+    const shot = flat.shots[0];
+    const half = Math.floor(flat.geophones.length / 2);
+    const partial: Survey = { ...flat, shots: flat.shots.map((s, k) => (k === 0 ? { ...s, times: s.times.map((t, i) => (i < half ? t : null)) } : s)) };
+    const full = computeResiduals(flat, flatResult);
+    const part = computeResiduals(partial, flatResult);
+    expect(full.ok && part.ok).toBe(true);
+    if (!full.ok || !part.ok) return;
+    const lastPicked = Math.max(...shot.times.slice(0, half).map((t, i) => (t === null ? -1 : i)));
+    part.shots[0].modelledMs.forEach((t, i) => {
+      // Inside the recorded stretch the march has accepted these nodes, so their times are final and equal.
+      if (i <= lastPicked) expect(t).toBe(full.shots[0].modelledMs[i]);
+      else expect(t).toBeNull();
+    });
+    // The other shots are untouched.
+    expect(part.shots[1].modelledMs).toEqual(full.shots[1].modelledMs);
+  });
+});
+
 describe('residual warnings', () => {
   it('warns "residuals-high" naming the worst shots when the section is 2 m too deep', () => {
     const plain = interpret({ ...flat, options: { residuals: false } });
