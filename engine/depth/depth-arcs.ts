@@ -71,11 +71,17 @@ function lowerCommonTangent(a: Circle, b: Circle): { nx: number; ny: number; k: 
   if (Math.abs(cosOffset) > 1) return null;
   const phi = Math.atan2(dy, dx);
   const beta = Math.acos(cosOffset);
-  const candidates = [phi + beta, phi - beta].map((alpha) => ({ nx: Math.cos(alpha), ny: Math.sin(alpha) }));
-  const n = candidates[0].ny >= candidates[1].ny ? candidates[0] : candidates[1];
-  if (!(n.ny > 0)) return null;
-  const k = n.nx * a.x + n.ny * a.y - a.r;
-  return { nx: n.nx, ny: n.ny, k, xA: a.x - a.r * n.nx, xB: b.x - b.r * n.nx };
+  // The two tangent directions φ ± β; the lower common tangent has the upward normal.
+  const nx1 = Math.cos(phi + beta);
+  const ny1 = Math.sin(phi + beta);
+  const nx2 = Math.cos(phi - beta);
+  const ny2 = Math.sin(phi - beta);
+  const first = ny1 >= ny2;
+  const nx = first ? nx1 : nx2;
+  const ny = first ? ny1 : ny2;
+  if (!(ny > 0)) return null;
+  const k = nx * a.x + ny * a.y - a.r;
+  return { nx, ny, k, xA: a.x - a.r * nx, xB: b.x - b.r * nx };
 }
 
 function pieceElevation(piece: TangentPiece, xM: number): number | null {
@@ -180,10 +186,10 @@ export function arcFootPointsM(arcs: DepthArc[]): ({ xM: number; elevationM: num
   for (let k = 0; k + 1 < circles.length; k++) {
     const t = lowerCommonTangent(circles[k], circles[k + 1]);
     if (!t || t.xA > t.xB) continue;
-    for (const j of [k, k + 1]) {
-      normals[j].nx += t.nx;
-      normals[j].ny += t.ny;
-    }
+    normals[k].nx += t.nx;
+    normals[k].ny += t.ny;
+    normals[k + 1].nx += t.nx;
+    normals[k + 1].ny += t.ny;
   }
   const feet: ({ xM: number; elevationM: number } | null)[] = arcs.map(() => null);
   order.forEach(({ i }, k) => {

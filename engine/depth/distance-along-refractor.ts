@@ -13,15 +13,30 @@
  */
 export function distanceAlongRefractorM(feet: ({ xM: number; elevationM: number } | null)[], xsM: number[], stepXsM: number[]): (number | null)[] {
   let s = 0;
-  let previous: { xM: number; elevationM: number; x: number } | null = null;
-  return feet.map((f, i) => {
-    if (f === null) return null;
-    if (previous) {
-      const across = stepXsM.some((x) => (previous!.x - x) * (xsM[i] - x) <= 0);
-      const dz = across ? 0 : f.elevationM - previous.elevationM;
-      s += Math.sign(f.xM - previous.xM || 1) * Math.hypot(f.xM - previous.xM, dz);
+  // The previous foot and its geophone's x, as numbers (no object per geophone).
+  let havePrevious = false;
+  let previousFootX = 0;
+  let previousFootZ = 0;
+  let previousX = 0;
+  const out: (number | null)[] = new Array<number | null>(feet.length);
+  for (let i = 0; i < feet.length; i++) {
+    const f = feet[i];
+    if (f === null) {
+      out[i] = null;
+      continue;
     }
-    previous = { ...f, x: xsM[i] };
-    return s;
-  });
+    if (havePrevious) {
+      let across = false;
+      for (const x of stepXsM) if ((previousX - x) * (xsM[i] - x) <= 0) across = true;
+      const dx = f.xM - previousFootX;
+      const dz = across ? 0 : f.elevationM - previousFootZ;
+      s += Math.sign(dx || 1) * Math.hypot(dx, dz);
+    }
+    havePrevious = true;
+    previousFootX = f.xM;
+    previousFootZ = f.elevationM;
+    previousX = xsM[i];
+    out[i] = s;
+  }
+  return out;
 }
