@@ -6,7 +6,7 @@ import {
   cellData, cellText, columnHeading, DECLARED_STATION_FIELDS, stationColumns, UNIT_DECIMALS,
 } from '../../web/station-columns.js';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { DISPLAY_PRECISION } from '../../web/display-precision.js';
+import { DISPLAY_PRECISION } from '../../engine/output/display-precision.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
