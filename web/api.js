@@ -24,6 +24,8 @@
  * @property {string} message A sentence for the status line or the error box.
  * @property {string} path JSON pointer of the offending value, or ''.
  * @property {Problem[]} problems
+ * @property {string} [layoutChange] On a 409 layout_changed: the service's own sentence saying
+ *   what changes (error.layoutChange.description), which the page shows as it is.
  */
 
 /**
@@ -181,13 +183,16 @@ export function failureFromBody(status, body) {
     message: typeof p.message === 'string' ? p.message : String(p.message ?? ''),
   }));
   if (isRecord(error)) {
-    return failure(
+    const found = failure(
       status,
       typeof error.code === 'string' ? error.code : 'error',
       typeof error.message === 'string' && error.message ? error.message : statusWords(status),
       typeof error.path === 'string' ? error.path : '',
       problems,
     );
+    const change = isRecord(error.layoutChange) ? error.layoutChange.description : undefined;
+    if (typeof change === 'string' && change) found.layoutChange = change;
+    return found;
   }
   return failure(status, 'http-' + status, statusWords(status), '', problems);
 }

@@ -5,7 +5,6 @@ import {
   LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
-import { layoutChange } from './layout-change.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
 } from './view.js';
@@ -91,16 +90,15 @@ const input = { fileName: '' };
  */
 let openLineId = null;
 /**
- * The stored line opened last ({ id, name } of its latest revision, and the geophone positions
- * of the revision on show), still known while a newly loaded line is interpreted: that line
- * can then be stored as its next revision, after a question if its layout differs.
- * @type {{ id: string, name: string, geophoneXs: number[] } | null}
+ * The stored line opened last ({ id, name } of its latest revision), still known while a newly
+ * loaded line is interpreted: that line can then be stored as its next revision, after a
+ * question if the service finds another geophone layout.
+ * @type {{ id: string, name: string } | null}
  */
 let revisionBase = null;
 /**
- * Exactly what was interpreted last, until the input is changed, with its geophone positions
- * (one station per geophone, in order).
- * @type {{ bodyText: string, format: BodyFormat, geophoneXs: number[] } | null}
+ * Exactly what was interpreted last, until the input is changed.
+ * @type {{ bodyText: string, format: BodyFormat } | null}
  */
 let interpreted = null;
 /** Counts stored-line openings, so an answer for an earlier one (a quick change of revision) is dropped. */
@@ -408,8 +406,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   const latest = integerOr(result.data?.latestRevision, shown);
   const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
   const latestName = revisions.find((r) => r?.revision === latest)?.name;
-  const geophoneXs = Array.isArray(survey?.geophones) ? survey.geophones.map((g) => g.x) : interpretation.stations.map((s) => s.x);
-  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name, geophoneXs };
+  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name };
   interpreted = null;
   updateReviseButton();
   const stationCount = interpretation.stations.length;
@@ -551,7 +548,7 @@ async function interpretInput() {
   const name = lineName(parsedSurvey(), fromTable || input.fileName || 'Pasted line');
   openLineId = null;
   // Offered for storing as a revision only while the input still holds what was interpreted.
-  interpreted = ui.text.value === bodyText ? { bodyText, format, geophoneXs: interpretation.stations.map((s) => s.x) } : null;
+  interpreted = ui.text.value === bodyText ? { bodyText, format } : null;
   markOpenInList();
   const stationCount = interpretation.stations.length;
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + formatLabel(format));
@@ -606,7 +603,7 @@ async function storeNewLine(bodyText, format, words) {
  * Asks what to do with a file whose geophone layout differs from the stored line's: store it
  * as a new line, store it as a revision anyway (the service is then told the change is meant),
  * or nothing. Esc and Cancel answer 'cancel'.
- * @param {string} change What changes, in words.
+ * @param {string} change What changes: the service's own sentence, shown as it is.
  * @param {string} baseName
  * @returns {Promise<'new-line' | 'confirm' | 'cancel'>}
  */
@@ -634,35 +631,22 @@ function askAboutLayout(change, baseName) {
 
 /**
  * Stores exactly the text that was interpreted as the next revision of the line opened
- * before. When its geophone layout differs from that line's (checked here, and by the
- * service, which answers 409), the user is asked first; the service is told the change is
- * meant only when the user says so, and a new line is offered instead.
+ * before. The service judges whether the geophone layout is the line's (api-v1.md): another
+ * layout answers 409 layout_changed and stores nothing. The page then asks, showing the
+ * service's own description of the change (one text, from one place), and tells the service
+ * the change is meant only when the user says so; a new line is offered instead.
  */
 async function reviseInput() {
   const base = revisionBase;
   const sent = interpreted;
   if (!base || !sent) return;
-  const change = layoutChange(base.geophoneXs, sent.geophoneXs);
-  let confirmed = false;
-  if (change !== null) {
-    const choice = await askAboutLayout(change, base.name);
-    if (choice === 'cancel') {
-      setStatus('Nothing stored.');
-      return;
-    }
-    if (choice === 'new-line') {
-      await storeAsNewLine(sent);
-      return;
-    }
-    confirmed = true;
-  }
   setBusy(true);
   setStatus('Storing as a revision of “' + base.name + '”…');
-  let result = await storeRevision(base.id, sent.bodyText, sent.format, confirmed);
+  let result = await storeRevision(base.id, sent.bodyText, sent.format, false);
   setBusy(false);
-  if (!result.ok && result.failure.status === LAYOUT_CHANGED_STATUS && !confirmed) {
-    // The service sees a layout change the page did not: ask with its words.
-    const choice = await askAboutLayout(result.failure.message, base.name);
+  if (!result.ok && result.failure.status === LAYOUT_CHANGED_STATUS) {
+    setStatus('Nothing stored yet: this file has another geophone layout.');
+    const choice = await askAboutLayout(result.failure.layoutChange ?? result.failure.message, base.name);
     if (choice === 'cancel') {
       setStatus('Nothing stored.');
       return;
@@ -672,6 +656,7 @@ async function reviseInput() {
       return;
     }
     setBusy(true);
+    setStatus('Storing as a revision of “' + base.name + '”…');
     result = await storeRevision(base.id, sent.bodyText, sent.format, true);
     setBusy(false);
   }
