@@ -2,7 +2,8 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision, withSheetQuery,
+  LAYOUT_CHANGED_STATUS, fetchLine, fetchSectionSheets, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, sectionSheetUrl,
+  storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import {
@@ -61,6 +62,10 @@ const ui = {
   warningList: $('warning-list', HTMLElement),
   figures: $('figures', HTMLElement),
   sectionImage: $('section-image', HTMLImageElement),
+  sectionFrame: $('section-frame', HTMLElement),
+  sheetChooser: $('sheet-chooser', HTMLElement),
+  sheetLabel: $('sheet-label', HTMLElement),
+  sheetButtons: $('sheet-buttons', HTMLElement),
   travelTimesImage: $('traveltimes-image', HTMLImageElement),
   unsavedNote: $('unsaved-note', HTMLElement),
   summary: $('summary', HTMLElement),
@@ -225,6 +230,7 @@ function releasePreviewUrls() {
 
 function hideStoredParts() {
   newFigureRound();
+  removeExtraSheets();
   ui.figures.hidden = true;
   ui.filesPanel.hidden = true;
   ui.sharePanel.hidden = true;
@@ -313,7 +319,15 @@ function showPreviews(bundle, name) {
     urls.push(url);
     showFigure(image, url, altText);
   };
-  place(bundle.sectionSvg, ui.sectionImage, 'Preview, not stored: depth section of ' + name);
+  removeExtraSheets();
+  const sheets = bundle.sectionSheets.length > 0 ? bundle.sectionSheets : [bundle.sectionSvg];
+  if (sheets.every((svg) => svg.trim() !== '')) {
+    const sheetUrls = sheets.map((svg) => URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' })));
+    urls.push(...sheetUrls);
+    placeSectionSheets(sheetUrls, 'Preview, not stored: depth section of ' + name);
+  } else {
+    showFigureFailed(ui.sectionImage);
+  }
   place(bundle.travelTimesSvg, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name);
   releasePreviewUrls();
   figures.blobUrls = urls;
@@ -332,6 +346,105 @@ function showFigure(image, url, altText) {
   image.hidden = false;
   image.alt = altText;
   image.src = url;
+}
+
+/** The section's images after the first (#section-image is sheet 1), in sheet order. */
+function extraSheetImages() {
+  return Array.from(ui.sectionFrame.querySelectorAll('img.section-sheet'));
+}
+
+/** Back to one sheet: the images of sheets 2…n go, the chooser hides. */
+function removeExtraSheets() {
+  for (const image of extraSheetImages()) image.remove();
+  ui.sectionImage.classList.remove('sheet-off');
+  ui.sheetButtons.replaceChildren();
+  ui.sheetChooser.hidden = true;
+}
+
+/**
+ * Shows every sheet of the depth section: sheet 1 in #section-image, sheets 2…n as images
+ * beside it (one in view at a time, chosen by the sheet buttons; printing gives them all).
+ * A line that fits one sheet shows that sheet and no chooser.
+ * @param {string[]} urls One per sheet, in order along the line.
+ * @param {string} altText
+ */
+function placeSectionSheets(urls, altText) {
+  removeExtraSheets();
+  const n = urls.length;
+  const alt = (/** @type {number} */ k) => altText + (n > 1 ? ', sheet ' + k + ' of ' + n : '');
+  // Sheet 1 may be on show already (a stored line): not loaded again.
+  if (ui.sectionImage.getAttribute('src') !== urls[0]) showFigure(ui.sectionImage, urls[0], alt(1));
+  else ui.sectionImage.alt = alt(1);
+  const failedNote = failedNoteOf(ui.sectionImage);
+  for (let k = 2; k <= n; k++) {
+    const image = el('img', 'section-sheet');
+    image.dataset.sheet = String(k);
+    image.alt = alt(k);
+    image.src = urls[k - 1];
+    ui.sectionFrame.insertBefore(image, failedNote);
+  }
+  if (n > 1) {
+    ui.sheetButtons.replaceChildren(...urls.map((_, i) => {
+      const button = el('button', 'button small sheet-button', String(i + 1));
+      button.type = 'button';
+      button.dataset.sheet = String(i + 1);
+      button.setAttribute('aria-label', 'Sheet ' + (i + 1) + ' of ' + n);
+      button.addEventListener('click', () => chooseSheet(i + 1));
+      return button;
+    }));
+    ui.sheetChooser.hidden = false;
+  }
+  chooseSheet(1);
+}
+
+/**
+ * Puts sheet k of the section in view (the others stay on the page for printing).
+ * @param {number} k 1-based
+ */
+function chooseSheet(k) {
+  const images = [ui.sectionImage, ...extraSheetImages()];
+  const n = images.length;
+  images.forEach((image, i) => image.classList.toggle('sheet-off', i + 1 !== k));
+  ui.sheetLabel.textContent = 'Sheet ' + k + ' of ' + n;
+  for (const button of ui.sheetButtons.querySelectorAll('button')) {
+    if (button instanceof HTMLElement) button.setAttribute('aria-pressed', String(button.dataset.sheet === String(k)));
+  }
+}
+
+/**
+ * A stored line's section may run over several sheets: asks the service how many, then shows
+ * them all (sheet 1 is on show already). Dropped when other figures took over meanwhile.
+ * @param {string} sectionUrl
+ * @param {string} sheetsUrl
+ * @param {string} altText
+ * @param {number} round
+ */
+async function showStoredSheets(sectionUrl, sheetsUrl, altText, round) {
+  const result = await fetchSectionSheets(sheetsUrl);
+  if (round !== figures.round || !result.ok) return;
+  const count = Number(result.data?.sheetCount);
+  if (!Number.isInteger(count) || count <= 1) return;
+  placeSectionSheets(Array.from({ length: count }, (_, i) => sectionSheetUrl(sectionUrl, i + 1)), altText);
+}
+
+/**
+ * Figures first: side by side on a wide screen (style.css), so both are in view under the
+ * line's title; Enlarge gives one figure the whole width, above the other.
+ * @param {HTMLButtonElement} button
+ */
+function toggleEnlarged(button) {
+  const figure = document.getElementById(button.dataset.enlarge ?? '');
+  if (!figure) return;
+  const enlarge = !figure.classList.contains('enlarged');
+  for (const other of ui.figures.querySelectorAll('button.enlarge')) {
+    if (!(other instanceof HTMLButtonElement)) continue;
+    const target = document.getElementById(other.dataset.enlarge ?? '');
+    const on = enlarge && other === button;
+    target?.classList.toggle('enlarged', on);
+    other.setAttribute('aria-pressed', String(on));
+    other.textContent = on ? 'Side by side' : 'Enlarge';
+  }
+  if (enlarge) figure.scrollIntoView({ block: 'nearest' });
 }
 
 /** @param {unknown} shareUrl */
@@ -423,12 +536,14 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   // stored meanwhile cannot swap the figures under the header.
   const several = latest > 1;
   const urls = lineFileUrls(id, several ? shown : undefined);
-  newFigureRound();
+  const figureRound = newFigureRound();
+  removeExtraSheets();
   showFigure(ui.sectionImage, urls.section, 'Depth section of ' + name);
   showFigure(ui.travelTimesImage, urls.travelTimes, 'Time–distance plot of ' + name);
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
+  void showStoredSheets(urls.section, urls.sectionSheets, 'Depth section of ' + name, figureRound);
 
   const stem = fileStem(name) + (several ? '-r' + shown : '');
   setDownload('download-section', urls.section, stem + '-section.svg');
@@ -770,6 +885,9 @@ function wire() {
   ui.token.value = readWriteToken();
   ui.token.addEventListener('input', () => saveWriteToken(ui.token.value.trim()));
   ui.sectionImage.addEventListener('error', imageFailed);
+  for (const button of ui.figures.querySelectorAll('button.enlarge')) {
+    if (button instanceof HTMLButtonElement) button.addEventListener('click', () => toggleEnlarged(button));
+  }
   ui.travelTimesImage.addEventListener('error', imageFailed);
   updateFormatHint();
 }

@@ -31,7 +31,7 @@ function svgTexts(svg: string): string[] {
 function sharePage(s: Survey, interpretation: Interpretation, section = '<svg></svg>', plot = '<svg></svg>'): string {
   return renderSharePage({
     survey: s, interpretation, name: 'Check', revision: 1, storedAt: '2026-12-05T05:07:09.000Z', timeZone: 'UTC',
-    sectionSvg: section, travelTimesSvg: plot, cautions: CAUTIONS, stationsCsvUrl: 'stations.csv',
+    sectionSheets: [section], travelTimesSvg: plot, cautions: CAUTIONS, stationsCsvUrl: 'stations.csv',
   });
 }
 

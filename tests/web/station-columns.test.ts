@@ -30,7 +30,7 @@ const THREE_REFRACTORS = [
 
 function sharePageTable(interpretation: Interpretation): { head: string[]; rows: string[][] } {
   const html = renderSharePage({
-    survey, interpretation, name: 'Check', revision: 1, storedAt: '2024-01-01', sectionSvg: '<svg></svg>',
+    survey, interpretation, name: 'Check', revision: 1, storedAt: '2024-01-01', sectionSheets: ['<svg></svg>'],
     travelTimesSvg: '<svg></svg>', cautions: [], stationsCsvUrl: 'stations.csv',
   });
   const table = /<table>([\s\S]*?)<\/table>/.exec(html)![1];
