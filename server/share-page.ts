@@ -12,6 +12,7 @@ import type { Survey } from '../engine/survey/survey.js';
 import { cellText, columnHeading, stationColumns, type StationColumn } from '../web/station-columns.js';
 import { metres, refractorDepthRanges, velocity } from '../web/describe.js';
 import { hiddenLayerNote, otherWarnings } from '../web/hidden-layer-note.js';
+import { surveyDateText } from '../engine/render/describe.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -78,14 +79,11 @@ export function readableTime(iso: string, timeZone?: string): string {
 
 /**
  * The survey's free-text date line (site, date of shooting, crew): a bare ISO date
- * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it.
+ * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it; the
+ * drawings' title blocks say the same (engine/render/describe.ts, surveyDateText).
  */
 export function readableSurveyDate(text: string): string {
-  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text.trim());
-  if (!match) return text;
-  const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])));
-  if (Number.isNaN(date.getTime()) || date.getUTCDate() !== Number(match[3])) return text;
-  return `shot on ${new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(date)}`;
+  return surveyDateText(text);
 }
 
 /** Words (coverage) read from the left, numbers from the right, as on the page. */

@@ -406,6 +406,8 @@ function chooseSheet(k) {
   const n = images.length;
   images.forEach((image, i) => image.classList.toggle('sheet-off', i + 1 !== k));
   ui.sheetLabel.textContent = 'Sheet ' + k + ' of ' + n;
+  // A stored line's SVG download is the sheet in view (the PDF holds them all).
+  if (!ui.filesPanel.hidden) setSectionDownload(k, n);
   for (const button of ui.sheetButtons.querySelectorAll('button')) {
     if (button instanceof HTMLElement) button.setAttribute('aria-pressed', String(button.dataset.sheet === String(k)));
   }
@@ -546,11 +548,11 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   void showStoredSheets(urls.section, urls.sectionSheets, 'Depth section of ' + name, figureRound);
 
   const stem = fileStem(name) + (several ? '-r' + shown : '');
-  setDownload('download-section', urls.section, stem + '-section.svg');
+  exportFiles = { urls, stem };
+  setSectionDownload(1, 1);
   setDownload('download-traveltimes', urls.travelTimes, stem + '-traveltimes.svg');
   setDownload('download-stations', urls.stations, stem + '-stations.csv');
   setDownload('download-interpretation', urls.interpretation, stem + '-interpretation.json');
-  exportFiles = { urls, stem };
   setExportDownloads();
   ui.filesPanel.hidden = false;
 
@@ -582,6 +584,18 @@ function setExportDownloads() {
   setDownload('download-section-png', withSheetQuery(urls.sectionPng, sheet, true), stem + '-section.png');
   setDownload('download-traveltimes-pdf', withSheetQuery(urls.travelTimesPdf, sheet, false), stem + '-traveltimes.pdf');
   setDownload('download-traveltimes-png', urls.travelTimesPng, stem + '-traveltimes.png');
+}
+
+/**
+ * The section's SVG download: sheet k of n of the open stored line, named so.
+ * @param {number} k
+ * @param {number} n
+ */
+function setSectionDownload(k, n) {
+  if (!exportFiles) return;
+  const { urls, stem } = exportFiles;
+  setDownload('download-section', sectionSheetUrl(urls.section, k), stem + (n > 1 ? '-section-sheet' + k : '-section') + '.svg');
+  $('download-section', HTMLAnchorElement).textContent = n > 1 ? 'Depth section (SVG, sheet ' + k + ' of ' + n + ')' : 'Depth section (SVG)';
 }
 
 /**

@@ -31,7 +31,7 @@ import { stepMarkers, velocityChangeMarkers, layerLabel } from './section-featur
 import { LabelPlacer } from './label-placer.js';
 import { fixed, formatMs, formatVelocity, groupThousands, round3 } from './format.js';
 import { addText, wrapText } from './text.js';
-import { describeMethod, lineName, shotPlacements } from './describe.js';
+import { describeMethod, lineName, shotPlacements, surveyDateText } from './describe.js';
 import { parseSectionSheetOptions, SectionSheetError, type ResolvedSheetOptions, type SectionSheetOptions } from './sheet-options.js';
 import { planSheets, type SheetPlan, type SheetWindow } from './sheet-plan.js';
 import { drawSourceRuns, sourceRuns, stationSource, uncertaintyBand, uncertaintyRange } from './refractor-sources.js';
@@ -260,7 +260,7 @@ function sheetLayout(page: PageSize, content: SectionContent, survey: Survey, in
   const subtitle = sectionSubtitle(survey, interpretation, paged ? 'sheet 10 of 10' : null);
   const leftWidth = titleLeftWidthMm({ notes, page });
   const remarks = wrapText(warningSummary(interpretation.qc?.warnings ?? []), leftWidth, REMARK_MM).map((text) => ({ text, role: 'warning-summary' }));
-  const titleContent = { title: content.name, subtitle, dateLine: survey.date, notes, remarks, page };
+  const titleContent = { title: content.name, subtitle, dateLine: survey.date === undefined ? undefined : surveyDateText(survey.date), notes, remarks, page };
   const range = uncertaintyRange(content.stations);
   const legendItems = sectionLegend({ ...content.needs, matchLines: paged }, range);
   const cautionTop = page.heightMm - page.marginMm + 1 - cautionNoteHeightMm(content.cautions, contentWidth);

@@ -98,6 +98,9 @@ describe.skipIf(!browserTestsRun)('A long line\'s section, sheet by sheet', () =
       // The drawing on show is that sheet: its own title block says so.
       const svg = await page.evaluate(async (src) => (await fetch(src)).text(), shown[0].src);
       expect(svg, `sheet ${k}`).toContain(`sheet ${k} of ${n}`);
+      // The SVG download is the sheet in view, and says so.
+      expect(await page.textContent('#download-section')).toBe(`Depth section (SVG, sheet ${k} of ${n})`);
+      expect(await page.getAttribute('#download-section', 'href')).toBe(`api/v1/surveys/${encodeURIComponent(id)}/section.svg${k === 1 ? '' : `?sheet=${k}`}`);
       if (k === 2) await page.screenshot({ path: join(SCREENSHOTS, 'long-line-sheet-2.png') });
     }
 
