@@ -7,9 +7,13 @@
  *    puts that sheet in view, and the SVG it shows says "sheet k of n" itself; printing gives
  *    every sheet;
  *  - the page, preview of the line not stored: the same chooser over the preview's sheets;
- *  - the share page (no script): every sheet on the page, captioned "sheet k of n".
+ *  - the share page (no script): every sheet on the page, captioned "sheet k of n";
+ *  - issue 11's "done means": A3 at 1:2,500 chosen on the page, the PDF from its link read
+ *    back with pdf.js: one A3 page (ISO 216) per sheet, the title, the scale and the depths
+ *    as text, and 500 m of chainage 200 mm on paper.
  * The sheet count is the service's own (GET …/section-sheets.json), and more than one.
  */
+import { readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
@@ -17,6 +21,9 @@ import { serveDemoLine, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
 import { longLine } from '../helpers/long-lines.js';
 import type { Survey } from '../../engine/survey/survey.js';
+import type { Interpretation } from '../../engine/output/interpretation.js';
+import { readPdf } from '../helpers/read-export.js';
+import { metres } from '../../web/describe.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
 
@@ -108,6 +115,44 @@ describe.skipIf(!browserTestsRun)('A long line\'s section, sheet by sheet', () =
     const printed = await shownSheets(page);
     expect(printed.map((s) => s.sheet)).toEqual(Array.from({ length: n }, (_, i) => String(i + 1)));
     expect(await page.isVisible('#sheet-chooser')).toBe(false);
+    expectNoTrouble(trouble);
+    await context.close();
+  });
+
+  it('done means: A3 at 1:2,500 chosen on the page, the PDF downloaded from its link is one true-scale A3 page per sheet, with title and depths as text', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    const context = await launched.browser.newContext({ viewport: { width: 1600, height: 1000 }, acceptDownloads: true });
+    const page = await context.newPage();
+    const trouble = await watchPage(page);
+    await page.goto(`${baseUrl}#line=${encodeURIComponent(id)}`);
+    await page.waitForSelector('body[data-ready="true"]');
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(line.name);
+    await page.selectOption('#export-paper', 'A3');
+    await page.fill('#export-scale', '2500');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.click('#download-section-pdf')]);
+    expect(download.suggestedFilename()).toMatch(/-section\.pdf$/);
+    const pdf = await readPdf(await readFile((await download.path())!));
+    const pages = pdf.pages.length;
+    expect(pages).toBeGreaterThan(1);
+    expect(pdf.title).toContain(line.name);
+    const stations = ((await (await fetch(new URL(`api/v1/surveys/${id}`, baseUrl))).json()) as { interpretation: Interpretation }).interpretation.stations;
+    pdf.pages.forEach((p, i) => {
+      // ISO 216 A3 landscape, 420 × 297 mm, in points (72 per inch, 25.4 mm per inch).
+      expect(p.widthPt).toBeCloseTo((420 * 72) / 25.4, 1);
+      expect(p.heightPt).toBeCloseTo((297 * 72) / 25.4, 1);
+      const text = p.items.map((item) => item.str).join(' ');
+      expect(text).toContain(line.name);
+      expect(text).toContain('1:2,500');
+      expect(text).toContain(`sheet ${i + 1} of ${pages}`);
+    });
+    // The depth under geophone 1, as the page's table writes it, is on the first sheet.
+    const first = pdf.pages[0].items.map((item) => item.str);
+    expect(first.some((str) => str.replace(/[()~]/g, '') === metres(stations[0].depth))).toBe(true);
+    // True scale: 500 m of chainage is 200 mm on paper at 1:2,500 (tick label centres on the axis).
+    const at = (str: string, y?: number) => pdf.pages[0].items.find((item) => item.str === str && (y === undefined || Math.abs(item.y - y) < 0.5))!;
+    const tick500 = at('500');
+    const tick0 = at('0', tick500.y);
+    const mm = ((tick500.x + tick500.width / 2 - (tick0.x + tick0.width / 2)) * 25.4) / 72;
+    expect(mm).toBeCloseTo(200, 0);
     expectNoTrouble(trouble);
     await context.close();
   });
