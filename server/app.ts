@@ -14,6 +14,7 @@ import { SurveyStore } from './store.js';
 import { isLoopbackHost, writeGuard } from './write-auth.js';
 import { seedDemoLine } from './seed.js';
 import { findWebRoot } from './web-root.js';
+import { displayRulesRoute } from './display-rules-route.js';
 import { healthRoutes } from './routes/health.js';
 import { interpretationRoutes } from './routes/interpretations.js';
 import { surveyRoutes } from './routes/surveys.js';
@@ -213,6 +214,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {
       await app.register(fastifyStatic, { root: webRoot, prefix: '/', index: ['index.html'] });
+      // The page imports the display rules from the engine (one copy for every reader).
+      await app.register(displayRulesRoute);
     }
 
     if (checked.seedDemo) {

@@ -36,7 +36,7 @@ export interface LayoutChange {
   largestShiftM: number | null;
   /** The query string that stores the revision anyway. */
   confirmWith: string;
-  /** The change in words. */
+  /** The change in words, one sentence: quoted by the 409 message and shown by the page as it is. */
   description: string;
 }
 
@@ -44,18 +44,30 @@ function spread(geophones: readonly Geophone[]): SpreadSummary {
   return { geophones: geophones.length, fromX: geophones[0]?.x ?? 0, toX: geophones[geophones.length - 1]?.x ?? 0 };
 }
 
-/** Numbers as a field sheet writes them: at most 3 decimals, no trailing zeros. */
+/**
+ * Positions as a field sheet writes them: at most 3 decimals, no trailing zeros. Not the
+ * display rules' 0.1 m on purpose: a geophone moved by a few millimetres (more than the 1 mm
+ * tolerance) must not read as "from 12.0 m to 12.0 m".
+ */
 function metres(value: number): string {
   return `${Number(value.toFixed(3))} m`;
 }
 
-function describeSpread(s: SpreadSummary): string {
-  return `${s.geophones} geophones from x = ${metres(s.fromX)} to ${metres(s.toX)}`;
+/** "24 geophones from x = 0 m to 69 m, every 3 m" (the spacing named only when it is regular). O(n). */
+function describeSpread(geophones: readonly Geophone[]): string {
+  const s = spread(geophones);
+  if (s.geophones < 2) return s.geophones === 1 ? `1 geophone at x = ${metres(s.fromX)}` : 'no geophones';
+  const spacing = (s.toX - s.fromX) / (s.geophones - 1);
+  const regular = geophones.every((g, i) => Math.abs(g.x - (s.fromX + i * spacing)) <= SAME_POSITION_TOLERANCE_M);
+  return `${s.geophones} geophones from x = ${metres(s.fromX)} to ${metres(s.toX)}, ${regular ? `every ${metres(spacing)}` : 'irregularly spaced'}`;
 }
 
 /**
  * The layout change from the stored geophones to the sent ones, or null when they are the
  * same line (same count, every position within SAME_POSITION_TOLERANCE_M). O(n).
+ *
+ * `description` is the one text that says what changes: the 409's message quotes it and the
+ * page's question before storing shows it as it is (web/app.js), so the two never differ.
  */
 export function layoutChange(
   stored: { revision: number; name: string; geophones: readonly Geophone[] },
@@ -64,14 +76,9 @@ export function layoutChange(
   const before = spread(stored.geophones);
   const after = spread(sentGeophones);
   const base = { stored: { ...before, revision: stored.revision, name: stored.name }, sent: after, confirmWith: `${LAYOUT_CHANGE_PARAMETER}=${LAYOUT_CHANGE_CONFIRM}` };
+  const both = `The new revision has ${describeSpread(sentGeophones)}; revision ${stored.revision} of the stored line has ${describeSpread(stored.geophones)}`;
   if (before.geophones !== after.geophones) {
-    return {
-      ...base,
-      movedGeophones: null,
-      firstMoved: null,
-      largestShiftM: null,
-      description: `it has ${describeSpread(after)}; the stored line has ${describeSpread(before)}.`,
-    };
+    return { ...base, movedGeophones: null, firstMoved: null, largestShiftM: null, description: `${both}.` };
   }
   let moved = 0;
   let largest = 0;
@@ -87,18 +94,20 @@ export function layoutChange(
   });
   if (first === null) return null;
   const { geophone, storedX, sentX } = first as NonNullable<LayoutChange['firstMoved']>;
-  const words =
+  const detail =
     moved === before.geophones && shifts.size === 1
-      ? `all ${moved} geophones are moved by ${sentX - storedX > 0 ? '+' : ''}${metres(sentX - storedX)} (now ${describeSpread(after)}; stored ${describeSpread(before)}).`
-      : `${moved} of its ${after.geophones} geophones are at other positions than on the stored line, first geophone ${geophone} at x = ${metres(sentX)} (stored: ${metres(storedX)}); the largest move is ${metres(largest)}.`;
-  return { ...base, movedGeophones: moved, firstMoved: first, largestShiftM: Number(largest.toFixed(3)), description: words };
+      ? `all ${moved} geophones are moved by ${sentX - storedX > 0 ? '+' : ''}${metres(sentX - storedX)}`
+      : `${moved === 1 ? 'one' : moved} of the ${after.geophones} geophones ${moved === 1 ? 'is at another position' : 'are at other positions'}: ` +
+        `geophone ${geophone} at x = ${metres(sentX)} (stored: ${metres(storedX)})` +
+        (moved > 1 ? `, and the largest move is ${metres(largest)}` : '');
+  return { ...base, movedGeophones: moved, firstMoved: first, largestShiftM: Number(largest.toFixed(3)), description: `${both}: ${detail}.` };
 }
 
-/** The 409 message: which line, what changes, and the two ways on. */
+/** The 409 message: what changes (the description, word for word), which line, and the two ways on. */
 export function layoutChangeMessage(change: LayoutChange): string {
   return (
-    `This is not the same geophone layout as revision ${change.stored.revision} of "${change.stored.name}": ${change.description} ` +
-    `Nothing was stored. If this is another line, store it as a new line (POST /api/v1/surveys); ` +
+    `${change.description} That is not the same geophone layout as revision ${change.stored.revision} of "${change.stored.name}", so nothing was stored. ` +
+    `If this is another line, store it as a new line (POST /api/v1/surveys); ` +
     `if the layout is meant to change, send the revision again with ?${change.confirmWith}.`
   );
 }

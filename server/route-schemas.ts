@@ -88,6 +88,26 @@ export const revisionQuerySchema = Type.Object(
   { revision: Type.Optional(Type.Integer({ minimum: 1, description: 'A revision number; absent: the latest.' })) },
 );
 
+/** The answer header giving how many sheets the drawing has (the section's SVG, PNG and PDF routes alike). */
+export const SHEET_COUNT_HEADER = 'Arcline-Sheet-Count';
+
+/** `?sheet=k` of the section's SVG routes. */
+export const sheetQuery = Type.Optional(
+  Type.Integer({ minimum: 1, description: `Which sheet of a section paged over several (default 1, the first); the answer's ${SHEET_COUNT_HEADER} header gives how many.` }),
+);
+
+/** GET …/section-sheets.json: how many sheets the section has, and where each is. */
+export const SectionSheetsSchema = Type.Object(
+  {
+    sheetCount: Type.Integer({ minimum: 1, description: 'How many sheets the depth section has at the default paper and scale (1 when the line fits one sheet).' }),
+    sheets: Type.Array(Type.String(), { description: 'The SVG of each sheet, in order along the line (…/section.svg?sheet=k).' }),
+  },
+  { additionalProperties: false, title: 'SectionSheets' },
+);
+
+/** GET …/section.svg: a revision and one sheet of a section paged over several. */
+export const sectionSvgQuerySchema = Type.Object({ revision: revisionQuerySchema.properties.revision, sheet: sheetQuery });
+
 /** POST /api/v1/surveys/:id/revisions: `?layoutChange=confirm` says a new geophone layout is meant. */
 export const revisionWriteQuerySchema = Type.Object({
   layoutChange: Type.Optional(

@@ -12,6 +12,7 @@ import type { Survey } from '../engine/survey/survey.js';
 import { cellText, columnHeading, stationColumns, type StationColumn } from '../web/station-columns.js';
 import { metres, refractorDepthRanges, velocity } from '../web/describe.js';
 import { hiddenLayerNote, otherWarnings } from '../web/hidden-layer-note.js';
+import { surveyDateText } from '../engine/render/describe.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -28,9 +29,39 @@ export function escapeHtml(text: unknown): string {
   return String(text ?? '').replace(/[&<>"']/g, (c) => HTML_ESCAPES[c]);
 }
 
-/** Drops an XML declaration or doctype so the SVG can sit inside HTML. */
-function inlineSvg(svg: string): string {
-  return svg.replace(/^\s*<\?xml[^>]*\?>\s*/i, '').replace(/^\s*<!DOCTYPE[^>]*>\s*/i, '');
+/**
+ * Drops an XML declaration or doctype so the SVG can sit inside HTML. With `idPrefix`, the
+ * drawing's own ids (clip path, hatch: "arcline-…") and the references to them get that
+ * prefix: ids are document-wide in HTML, and every sheet of a paged section uses the same
+ * ones, so without it sheet 2 would be clipped by sheet 1's clip path.
+ */
+function inlineSvg(svg: string, idPrefix = ''): string {
+  const bare = svg.replace(/^\s*<\?xml[^>]*\?>\s*/i, '').replace(/^\s*<!DOCTYPE[^>]*>\s*/i, '');
+  return idPrefix === '' ? bare : bare.replace(/(id="|url\(#|href="#)arcline-/g, `$1${idPrefix}arcline-`);
+}
+
+/**
+ * The depth section: one figure, or on a line paged over several sheets a line naming how
+ * many, links to each, and every sheet as its own figure ("sheet k of n"), in order along the
+ * line (no script on this page, so every sheet is on it rather than behind a chooser).
+ */
+function sectionFigures(sheets: readonly string[]): string {
+  if (sheets.length <= 1) {
+    return `<figure class="section-sheet" id="section-sheet-1">
+<figcaption>Depth section</figcaption>
+${inlineSvg(sheets[0] ?? '')}
+</figure>`;
+  }
+  const n = sheets.length;
+  const links = sheets.map((_, i) => `<a href="#section-sheet-${i + 1}">sheet ${i + 1} of ${n}</a>`).join(' · ');
+  const figures = sheets.map(
+    (svg, i) => `<figure class="section-sheet" id="section-sheet-${i + 1}">
+<figcaption>Depth section — sheet ${i + 1} of ${n}</figcaption>
+${inlineSvg(svg, `s${i + 1}-`)}
+</figure>`,
+  );
+  return `<p class="sheets-note">This line is drawn on ${n} sheets at one scale; they meet at match lines. All ${n} follow: ${links}.</p>
+${figures.join('\n')}`;
 }
 
 /**
@@ -48,14 +79,11 @@ export function readableTime(iso: string, timeZone?: string): string {
 
 /**
  * The survey's free-text date line (site, date of shooting, crew): a bare ISO date
- * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it.
+ * ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives it; the
+ * drawings' title blocks say the same (engine/render/describe.ts, surveyDateText).
  */
 export function readableSurveyDate(text: string): string {
-  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text.trim());
-  if (!match) return text;
-  const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])));
-  if (Number.isNaN(date.getTime()) || date.getUTCDate() !== Number(match[3])) return text;
-  return `shot on ${new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(date)}`;
+  return surveyDateText(text);
 }
 
 /** Words (coverage) read from the left, numbers from the right, as on the page. */
@@ -79,7 +107,8 @@ export interface SharePageInput {
   storedAt: string;
   /** IANA time zone for the stored time (tests fix it); the service's own zone by default. */
   timeZone?: string;
-  sectionSvg: string;
+  /** Every sheet of the depth section, in order (one for a line that fits a sheet). */
+  sectionSheets: readonly string[];
   travelTimesSvg: string;
   cautions: readonly string[];
   stationsCsvUrl: string;
@@ -102,6 +131,7 @@ h2{font-size:1.1rem}
 .allowance p{margin:.2rem 0}
 .allowance h2{font-size:1rem;margin:.1rem 0 .3rem}
 .allowance .why{color:#444;font-size:.85rem}
+.sheets-note{margin:.8rem 0 0;font-weight:600}
 figure{margin:1rem 0}
 figure svg{max-width:100%;height:auto;border:1px solid #ddd}
 figcaption{font-weight:600;margin-bottom:.3rem}
@@ -119,6 +149,7 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
   a[download]{display:none}
   .cautions,.allowance{break-inside:avoid}
   figure{break-inside:avoid;page-break-inside:avoid}
+  .sheets-note a{color:inherit;text-decoration:none}
   figure svg{width:100%;max-height:170mm;border:none}
   .table-wrap{overflow:visible}
   table{width:100%;font-size:8pt}
@@ -175,10 +206,7 @@ export function renderSharePage(input: SharePageInput): string {
 ${input.cautions.map((c) => `<p>${escapeHtml(c)}</p>`).join('\n')}
 </section>
 ${summaryList(interpretation)}
-<figure>
-<figcaption>Depth section</figcaption>
-${inlineSvg(input.sectionSvg)}
-</figure>
+${sectionFigures(input.sectionSheets)}
 <figure>
 <figcaption>Time–distance plot</figcaption>
 ${inlineSvg(input.travelTimesSvg)}

@@ -24,6 +24,8 @@
  * @property {string} message A sentence for the status line or the error box.
  * @property {string} path JSON pointer of the offending value, or ''.
  * @property {Problem[]} problems
+ * @property {string} [layoutChange] On a 409 layout_changed: the service's own sentence saying
+ *   what changes (error.layoutChange.description), which the page shows as it is.
  */
 
 /**
@@ -51,9 +53,12 @@
 /** POST /api/v1/surveys and …/revisions. @typedef {{ id: string, shareUrl?: string, revision?: number }} StoreAnswer */
 
 /**
- * POST /api/v1/previews: one interpretation and both drawings of it, as SVG text.
- * @typedef {{ interpretation: Interpretation, sectionSvg: string, travelTimesSvg: string }} PreviewBundle
+ * POST /api/v1/previews: one interpretation and both drawings of it, as SVG text; every sheet
+ * of the section (a long line is paged; sectionSvg is the first).
+ * @typedef {{ interpretation: Interpretation, sectionSvg: string, sectionSheets: string[], travelTimesSvg: string }} PreviewBundle
  */
+
+/** GET /api/v1/surveys/:id/section-sheets.json. @typedef {{ sheetCount: number, sheets?: string[] }} SectionSheets */
 
 /**
  * What fetch() is given: always a method and headers, a body for writes.
@@ -181,13 +186,16 @@ export function failureFromBody(status, body) {
     message: typeof p.message === 'string' ? p.message : String(p.message ?? ''),
   }));
   if (isRecord(error)) {
-    return failure(
+    const found = failure(
       status,
       typeof error.code === 'string' ? error.code : 'error',
       typeof error.message === 'string' && error.message ? error.message : statusWords(status),
       typeof error.path === 'string' ? error.path : '',
       problems,
     );
+    const change = isRecord(error.layoutChange) ? error.layoutChange.description : undefined;
+    if (typeof change === 'string' && change) found.layoutChange = change;
+    return found;
   }
   return failure(status, 'http-' + status, statusWords(status), '', problems);
 }
@@ -215,7 +223,10 @@ export function statusWords(status) {
 export function readPreviewBundle(data) {
   if (!isRecord(data) || !isRecord(data.interpretation) || !Array.isArray(data.interpretation.stations)) return null;
   if (typeof data.sectionSvg !== 'string' || typeof data.travelTimesSvg !== 'string') return null;
-  return /** @type {PreviewBundle} */ (data);
+  // An answer without the sheets (an older service) is one sheet: the section it sent.
+  const listed = Array.isArray(data.sectionSheets) ? data.sectionSheets.filter((s) => typeof s === 'string') : [];
+  const sectionSheets = listed.length > 0 ? listed : [data.sectionSvg];
+  return /** @type {PreviewBundle} */ ({ ...data, sectionSheets });
 }
 
 /**
@@ -288,6 +299,26 @@ export function listLines() {
 }
 
 /**
+ * GET /api/v1/surveys/:id/section-sheets.json — how many sheets the stored section is paged over.
+ * @param {string} url  lineFileUrls(…).sectionSheets
+ * @returns {Promise<Result<SectionSheets>>}
+ */
+export function fetchSectionSheets(url) {
+  return request(url, GET);
+}
+
+/**
+ * The URL of sheet k (1-based) of a section: the first sheet is the section's own URL.
+ * @param {string} sectionUrl  lineFileUrls(…).section
+ * @param {number} sheet
+ * @returns {string}
+ */
+export function sectionSheetUrl(sectionUrl, sheet) {
+  if (sheet <= 1) return sectionUrl;
+  return sectionUrl + (sectionUrl.includes('?') ? '&' : '?') + 'sheet=' + sheet;
+}
+
+/**
  * `?revision=N` for a revision number, '' for the latest.
  * @param {number | undefined} revision
  * @returns {string}
@@ -327,7 +358,7 @@ export function withSheetQuery(url, sheet, withScale) {
  * Relative URLs of the files of a stored line; of one revision when `revision` is given.
  * @param {string} id
  * @param {number} [revision]
- * @returns {{ section: string, travelTimes: string, stations: string, interpretation: string,
+ * @returns {{ section: string, sectionSheets: string, travelTimes: string, stations: string, interpretation: string,
  *   sectionPdf: string, sectionPng: string, travelTimesPdf: string, travelTimesPng: string }}
  */
 export function lineFileUrls(id, revision) {
@@ -335,6 +366,7 @@ export function lineFileUrls(id, revision) {
   const query = revisionQuery(revision);
   return {
     section: base + 'section.svg' + query,
+    sectionSheets: base + 'section-sheets.json' + query,
     travelTimes: base + 'traveltimes.svg' + query,
     stations: base + 'stations.csv' + query,
     interpretation: base + 'interpretation.json' + query,

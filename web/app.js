@@ -2,10 +2,10 @@
 // Wiring only; requests live in api.js, words in describe.js, DOM building in view.js.
 
 import {
-  LAYOUT_CHANGED_STATUS, fetchLine, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, storeLine, storeRevision, withSheetQuery,
+  LAYOUT_CHANGED_STATUS, fetchLine, fetchSectionSheets, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, sectionSheetUrl,
+  storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
-import { layoutChange } from './layout-change.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
 } from './view.js';
@@ -62,6 +62,10 @@ const ui = {
   warningList: $('warning-list', HTMLElement),
   figures: $('figures', HTMLElement),
   sectionImage: $('section-image', HTMLImageElement),
+  sectionFrame: $('section-frame', HTMLElement),
+  sheetChooser: $('sheet-chooser', HTMLElement),
+  sheetLabel: $('sheet-label', HTMLElement),
+  sheetButtons: $('sheet-buttons', HTMLElement),
   travelTimesImage: $('traveltimes-image', HTMLImageElement),
   unsavedNote: $('unsaved-note', HTMLElement),
   summary: $('summary', HTMLElement),
@@ -91,16 +95,15 @@ const input = { fileName: '' };
  */
 let openLineId = null;
 /**
- * The stored line opened last ({ id, name } of its latest revision, and the geophone positions
- * of the revision on show), still known while a newly loaded line is interpreted: that line
- * can then be stored as its next revision, after a question if its layout differs.
- * @type {{ id: string, name: string, geophoneXs: number[] } | null}
+ * The stored line opened last ({ id, name } of its latest revision), still known while a newly
+ * loaded line is interpreted: that line can then be stored as its next revision, after a
+ * question if the service finds another geophone layout.
+ * @type {{ id: string, name: string } | null}
  */
 let revisionBase = null;
 /**
- * Exactly what was interpreted last, until the input is changed, with its geophone positions
- * (one station per geophone, in order).
- * @type {{ bodyText: string, format: BodyFormat, geophoneXs: number[] } | null}
+ * Exactly what was interpreted last, until the input is changed.
+ * @type {{ bodyText: string, format: BodyFormat } | null}
  */
 let interpreted = null;
 /** Counts stored-line openings, so an answer for an earlier one (a quick change of revision) is dropped. */
@@ -227,6 +230,7 @@ function releasePreviewUrls() {
 
 function hideStoredParts() {
   newFigureRound();
+  removeExtraSheets();
   ui.figures.hidden = true;
   ui.filesPanel.hidden = true;
   ui.sharePanel.hidden = true;
@@ -315,7 +319,15 @@ function showPreviews(bundle, name) {
     urls.push(url);
     showFigure(image, url, altText);
   };
-  place(bundle.sectionSvg, ui.sectionImage, 'Preview, not stored: depth section of ' + name);
+  removeExtraSheets();
+  const sheets = bundle.sectionSheets.length > 0 ? bundle.sectionSheets : [bundle.sectionSvg];
+  if (sheets.every((svg) => svg.trim() !== '')) {
+    const sheetUrls = sheets.map((svg) => URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' })));
+    urls.push(...sheetUrls);
+    placeSectionSheets(sheetUrls, 'Preview, not stored: depth section of ' + name);
+  } else {
+    showFigureFailed(ui.sectionImage);
+  }
   place(bundle.travelTimesSvg, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name);
   releasePreviewUrls();
   figures.blobUrls = urls;
@@ -334,6 +346,107 @@ function showFigure(image, url, altText) {
   image.hidden = false;
   image.alt = altText;
   image.src = url;
+}
+
+/** The section's images after the first (#section-image is sheet 1), in sheet order. */
+function extraSheetImages() {
+  return Array.from(ui.sectionFrame.querySelectorAll('img.section-sheet'));
+}
+
+/** Back to one sheet: the images of sheets 2…n go, the chooser hides. */
+function removeExtraSheets() {
+  for (const image of extraSheetImages()) image.remove();
+  ui.sectionImage.classList.remove('sheet-off');
+  ui.sheetButtons.replaceChildren();
+  ui.sheetChooser.hidden = true;
+}
+
+/**
+ * Shows every sheet of the depth section: sheet 1 in #section-image, sheets 2…n as images
+ * beside it (one in view at a time, chosen by the sheet buttons; printing gives them all).
+ * A line that fits one sheet shows that sheet and no chooser.
+ * @param {string[]} urls One per sheet, in order along the line.
+ * @param {string} altText
+ */
+function placeSectionSheets(urls, altText) {
+  removeExtraSheets();
+  const n = urls.length;
+  const alt = (/** @type {number} */ k) => altText + (n > 1 ? ', sheet ' + k + ' of ' + n : '');
+  // Sheet 1 may be on show already (a stored line): not loaded again.
+  if (ui.sectionImage.getAttribute('src') !== urls[0]) showFigure(ui.sectionImage, urls[0], alt(1));
+  else ui.sectionImage.alt = alt(1);
+  const failedNote = failedNoteOf(ui.sectionImage);
+  for (let k = 2; k <= n; k++) {
+    const image = el('img', 'section-sheet');
+    image.dataset.sheet = String(k);
+    image.alt = alt(k);
+    image.src = urls[k - 1];
+    ui.sectionFrame.insertBefore(image, failedNote);
+  }
+  if (n > 1) {
+    ui.sheetButtons.replaceChildren(...urls.map((_, i) => {
+      const button = el('button', 'button small sheet-button', String(i + 1));
+      button.type = 'button';
+      button.dataset.sheet = String(i + 1);
+      button.setAttribute('aria-label', 'Sheet ' + (i + 1) + ' of ' + n);
+      button.addEventListener('click', () => chooseSheet(i + 1));
+      return button;
+    }));
+    ui.sheetChooser.hidden = false;
+  }
+  chooseSheet(1);
+}
+
+/**
+ * Puts sheet k of the section in view (the others stay on the page for printing).
+ * @param {number} k 1-based
+ */
+function chooseSheet(k) {
+  const images = [ui.sectionImage, ...extraSheetImages()];
+  const n = images.length;
+  images.forEach((image, i) => image.classList.toggle('sheet-off', i + 1 !== k));
+  ui.sheetLabel.textContent = 'Sheet ' + k + ' of ' + n;
+  // A stored line's SVG download is the sheet in view (the PDF holds them all).
+  if (!ui.filesPanel.hidden) setSectionDownload(k, n);
+  for (const button of ui.sheetButtons.querySelectorAll('button')) {
+    if (button instanceof HTMLElement) button.setAttribute('aria-pressed', String(button.dataset.sheet === String(k)));
+  }
+}
+
+/**
+ * A stored line's section may run over several sheets: asks the service how many, then shows
+ * them all (sheet 1 is on show already). Dropped when other figures took over meanwhile.
+ * @param {string} sectionUrl
+ * @param {string} sheetsUrl
+ * @param {string} altText
+ * @param {number} round
+ */
+async function showStoredSheets(sectionUrl, sheetsUrl, altText, round) {
+  const result = await fetchSectionSheets(sheetsUrl);
+  if (round !== figures.round || !result.ok) return;
+  const count = Number(result.data?.sheetCount);
+  if (!Number.isInteger(count) || count <= 1) return;
+  placeSectionSheets(Array.from({ length: count }, (_, i) => sectionSheetUrl(sectionUrl, i + 1)), altText);
+}
+
+/**
+ * Figures first: side by side on a wide screen (style.css), so both are in view under the
+ * line's title; Enlarge gives one figure the whole width, above the other.
+ * @param {HTMLButtonElement} button
+ */
+function toggleEnlarged(button) {
+  const figure = document.getElementById(button.dataset.enlarge ?? '');
+  if (!figure) return;
+  const enlarge = !figure.classList.contains('enlarged');
+  for (const other of ui.figures.querySelectorAll('button.enlarge')) {
+    if (!(other instanceof HTMLButtonElement)) continue;
+    const target = document.getElementById(other.dataset.enlarge ?? '');
+    const on = enlarge && other === button;
+    target?.classList.toggle('enlarged', on);
+    other.setAttribute('aria-pressed', String(on));
+    other.textContent = on ? 'Side by side' : 'Enlarge';
+  }
+  if (enlarge) figure.scrollIntoView({ block: 'nearest' });
 }
 
 /** @param {unknown} shareUrl */
@@ -408,8 +521,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   const latest = integerOr(result.data?.latestRevision, shown);
   const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
   const latestName = revisions.find((r) => r?.revision === latest)?.name;
-  const geophoneXs = Array.isArray(survey?.geophones) ? survey.geophones.map((g) => g.x) : interpretation.stations.map((s) => s.x);
-  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name, geophoneXs };
+  revisionBase = { id, name: typeof latestName === 'string' && latestName.trim() ? latestName.trim() : name };
   interpreted = null;
   updateReviseButton();
   const stationCount = interpretation.stations.length;
@@ -426,19 +538,21 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   // stored meanwhile cannot swap the figures under the header.
   const several = latest > 1;
   const urls = lineFileUrls(id, several ? shown : undefined);
-  newFigureRound();
+  const figureRound = newFigureRound();
+  removeExtraSheets();
   showFigure(ui.sectionImage, urls.section, 'Depth section of ' + name);
   showFigure(ui.travelTimesImage, urls.travelTimes, 'Time–distance plot of ' + name);
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
+  void showStoredSheets(urls.section, urls.sectionSheets, 'Depth section of ' + name, figureRound);
 
   const stem = fileStem(name) + (several ? '-r' + shown : '');
-  setDownload('download-section', urls.section, stem + '-section.svg');
+  exportFiles = { urls, stem };
+  setSectionDownload(1, 1);
   setDownload('download-traveltimes', urls.travelTimes, stem + '-traveltimes.svg');
   setDownload('download-stations', urls.stations, stem + '-stations.csv');
   setDownload('download-interpretation', urls.interpretation, stem + '-interpretation.json');
-  exportFiles = { urls, stem };
   setExportDownloads();
   ui.filesPanel.hidden = false;
 
@@ -470,6 +584,18 @@ function setExportDownloads() {
   setDownload('download-section-png', withSheetQuery(urls.sectionPng, sheet, true), stem + '-section.png');
   setDownload('download-traveltimes-pdf', withSheetQuery(urls.travelTimesPdf, sheet, false), stem + '-traveltimes.pdf');
   setDownload('download-traveltimes-png', urls.travelTimesPng, stem + '-traveltimes.png');
+}
+
+/**
+ * The section's SVG download: sheet k of n of the open stored line, named so.
+ * @param {number} k
+ * @param {number} n
+ */
+function setSectionDownload(k, n) {
+  if (!exportFiles) return;
+  const { urls, stem } = exportFiles;
+  setDownload('download-section', sectionSheetUrl(urls.section, k), stem + (n > 1 ? '-section-sheet' + k : '-section') + '.svg');
+  $('download-section', HTMLAnchorElement).textContent = n > 1 ? 'Depth section (SVG, sheet ' + k + ' of ' + n + ')' : 'Depth section (SVG)';
 }
 
 /**
@@ -551,7 +677,7 @@ async function interpretInput() {
   const name = lineName(parsedSurvey(), fromTable || input.fileName || 'Pasted line');
   openLineId = null;
   // Offered for storing as a revision only while the input still holds what was interpreted.
-  interpreted = ui.text.value === bodyText ? { bodyText, format, geophoneXs: interpretation.stations.map((s) => s.x) } : null;
+  interpreted = ui.text.value === bodyText ? { bodyText, format } : null;
   markOpenInList();
   const stationCount = interpretation.stations.length;
   showInterpretation(name, interpretation, stationCount + ' geophones · ' + formatLabel(format));
@@ -606,7 +732,7 @@ async function storeNewLine(bodyText, format, words) {
  * Asks what to do with a file whose geophone layout differs from the stored line's: store it
  * as a new line, store it as a revision anyway (the service is then told the change is meant),
  * or nothing. Esc and Cancel answer 'cancel'.
- * @param {string} change What changes, in words.
+ * @param {string} change What changes: the service's own sentence, shown as it is.
  * @param {string} baseName
  * @returns {Promise<'new-line' | 'confirm' | 'cancel'>}
  */
@@ -634,35 +760,22 @@ function askAboutLayout(change, baseName) {
 
 /**
  * Stores exactly the text that was interpreted as the next revision of the line opened
- * before. When its geophone layout differs from that line's (checked here, and by the
- * service, which answers 409), the user is asked first; the service is told the change is
- * meant only when the user says so, and a new line is offered instead.
+ * before. The service judges whether the geophone layout is the line's (api-v1.md): another
+ * layout answers 409 layout_changed and stores nothing. The page then asks, showing the
+ * service's own description of the change (one text, from one place), and tells the service
+ * the change is meant only when the user says so; a new line is offered instead.
  */
 async function reviseInput() {
   const base = revisionBase;
   const sent = interpreted;
   if (!base || !sent) return;
-  const change = layoutChange(base.geophoneXs, sent.geophoneXs);
-  let confirmed = false;
-  if (change !== null) {
-    const choice = await askAboutLayout(change, base.name);
-    if (choice === 'cancel') {
-      setStatus('Nothing stored.');
-      return;
-    }
-    if (choice === 'new-line') {
-      await storeAsNewLine(sent);
-      return;
-    }
-    confirmed = true;
-  }
   setBusy(true);
   setStatus('Storing as a revision of “' + base.name + '”…');
-  let result = await storeRevision(base.id, sent.bodyText, sent.format, confirmed);
+  let result = await storeRevision(base.id, sent.bodyText, sent.format, false);
   setBusy(false);
-  if (!result.ok && result.failure.status === LAYOUT_CHANGED_STATUS && !confirmed) {
-    // The service sees a layout change the page did not: ask with its words.
-    const choice = await askAboutLayout(result.failure.message, base.name);
+  if (!result.ok && result.failure.status === LAYOUT_CHANGED_STATUS) {
+    setStatus('Nothing stored yet: this file has another geophone layout.');
+    const choice = await askAboutLayout(result.failure.layoutChange ?? result.failure.message, base.name);
     if (choice === 'cancel') {
       setStatus('Nothing stored.');
       return;
@@ -672,6 +785,7 @@ async function reviseInput() {
       return;
     }
     setBusy(true);
+    setStatus('Storing as a revision of “' + base.name + '”…');
     result = await storeRevision(base.id, sent.bodyText, sent.format, true);
     setBusy(false);
   }
@@ -785,6 +899,9 @@ function wire() {
   ui.token.value = readWriteToken();
   ui.token.addEventListener('input', () => saveWriteToken(ui.token.value.trim()));
   ui.sectionImage.addEventListener('error', imageFailed);
+  for (const button of ui.figures.querySelectorAll('button.enlarge')) {
+    if (button instanceof HTMLButtonElement) button.addEventListener('click', () => toggleEnlarged(button));
+  }
   ui.travelTimesImage.addEventListener('error', imageFailed);
   updateFormatHint();
 }

@@ -1,7 +1,7 @@
 // Pure helpers that turn values into the words and numbers the page shows.
 // No DOM here, so each can be reasoned about on its own.
 
-import { degreesText, fixedDecimals, metresText, millisecondsText, velocityText } from './display-precision.js';
+import { degreesText, fixedDecimals, metresText, millisecondsText, velocityText } from '../engine/output/display-precision.js';
 
 /** @typedef {'json' | 'csv'} BodyFormat */
 

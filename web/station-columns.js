@@ -3,12 +3,12 @@
 // (server/stations-csv.ts). The server imports this file too, so it stays plain ES with
 // JSDoc types: no DOM, no browser globals, nothing from node.
 //
-// Numbers follow the shown precision declared once in display-precision.js (0.1 m, 0.1 ms,
+// Numbers follow the shown precision declared once in engine/output/display-precision.js (0.1 m, 0.1 ms,
 // velocities to 10 m/s), the same the drawings use, so a depth or a velocity reads the same on
 // the section, on the page, on the share page and in stations.csv.
 
 import { coverageWords, fixed } from './describe.js';
-import { DISPLAY_PRECISION, roundVelocity, velocityText } from './display-precision.js';
+import { DISPLAY_PRECISION, roundVelocity, velocityText } from '../engine/output/display-precision.js';
 
 /** @typedef {import('../engine/output/interpretation.js').Station} Station */
 

@@ -27,7 +27,7 @@ import type { Survey } from '../survey/survey.js';
 import type { ShotAnalysis, Warning } from '../output/interpretation.js';
 import type { ResolvedOptions } from '../survey/options.js';
 import { isFiniteNumber as isNum } from '../shared/numbers.js';
-import { positionsTextShort as describeXs } from '../qc/wording.js';
+import { positionsTextShort as describeXs, velocityWords } from '../qc/wording.js';
 import { refractorDelays, type RefractorDelays } from './refractor-delays.js';
 import { stripLayers } from './layer-stripping.js';
 import { arcFootPointsM, envelopeElevationsM, verticalDepthsFromArcsM } from './depth-arcs.js';
@@ -161,20 +161,20 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
   if (second.velocitySource === 'one-way-apparent') {
     warnings.push({
       code: 'second-refractor-one-way',
-      message: `The second refractor's arrivals were recorded shooting one way only, so its velocity (${Math.round(v3)} m/s) is an apparent velocity: too high shooting up-dip, too low down-dip. Shoot from the other end to measure it.`,
+      message: `The second refractor's arrivals were recorded shooting one way only, so its velocity (${velocityWords(v3)}) is an apparent velocity: too high shooting up-dip, too low down-dip. Shoot from the other end to measure it.`,
     });
   }
   if (first.velocitySource === 'one-way-apparent') {
     const seenBy = shots.filter((s) => s.branchOfPick.includes(1)).map((s) => s.id);
     warnings.push({
       code: 'middle-layer-one-way',
-      message: `The middle layer's head waves (the first refractor) were recorded shooting one way only${seenBy.length > 0 ? ` (${seenBy.join(', ')})` : ''}, so no opposing pair measures it: its velocity${v2Line !== null ? ` (${Math.round(v2Line)} m/s)` : ''} may be an apparent one (too high shooting up-dip, too low down-dip) and the depths of both refractors rest on one-way delay times. Shoot from the other end, close enough that the middle layer arrives first, to reverse it.`,
+      message: `The middle layer's head waves (the first refractor) were recorded shooting one way only${seenBy.length > 0 ? ` (${seenBy.join(', ')})` : ''}, so no opposing pair measures it: its velocity${v2Line !== null ? ` (${velocityWords(v2Line)})` : ''} may be an apparent one (too high shooting up-dip, too low down-dip) and the depths of both refractors rest on one-way delay times. Shoot from the other end, close enough that the middle layer arrives first, to reverse it.`,
     });
   }
   if (v2Line !== null && !(v3 > v2Line)) {
     warnings.push({
       code: 'velocity-inversion',
-      message: `The second refractor's velocity (${Math.round(v3)} m/s) is not above the first refractor's (${Math.round(v2Line)} m/s). A layer no faster than the one above gives no head wave, so these arrivals are likely a mis-assigned branch; no depths to a second refractor are given (ASTM D5777; USACE EM 1110-1-1802).`,
+      message: `The second refractor's velocity (${velocityWords(v3)}) is not above the first refractor's (${velocityWords(v2Line)}). A layer no faster than the one above gives no head wave, so these arrivals are likely a mis-assigned branch; no depths to a second refractor are given (ASTM D5777; USACE EM 1110-1-1802).`,
     });
     return result(false);
   }

@@ -6,7 +6,7 @@
 import type { Survey } from '../survey/survey.js';
 import type { ShotAnalysis, Warning } from '../output/interpretation.js';
 import { refractedTimes, type Side } from '../branches/refracted-times.js';
-import { fixed } from '../qc/wording.js';
+import { timeText } from '../qc/wording.js';
 import { mergePhantoms, phantomArrivals, type PhantomResult } from './phantom.js';
 
 /**
@@ -82,8 +82,8 @@ export function phantomWarnings(phantoms: EndShotPhantom[], pickSigmaMs: number)
         code: 'phantom-not-parallel',
         message:
           `Refracted arrivals of ${t.from.id} and ${p.shot.id} are not parallel where both were recorded ` +
-          `(RMS ${fixed(t.result.parallelRmsMs, 2)} ms about the ${fixed(t.result.shiftMs, 2)} ms shift, limit ` +
-          `${fixed(PHANTOM_PARALLEL_FACTOR * pickSigmaMs, 2)} ms). A vertical jump in the off-end branch of ${t.from.id} ` +
+          `(RMS ${timeText(t.result.parallelRmsMs)} ms about the ${timeText(t.result.shiftMs)} ms shift, limit ` +
+          `${timeText(PHANTOM_PARALLEL_FACTOR * pickSigmaMs)} ms). A vertical jump in the off-end branch of ${t.from.id} ` +
           `(two parallel pieces offset in time) points to a step in the refractor; a change of slope to a change of refractor velocity. ` +
           (t.used
             ? `No parallel off-end shot was found, so ${t.from.id} was used anyway and the phantomed times near ${p.shot.id} are doubtful.`

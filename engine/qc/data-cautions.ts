@@ -30,6 +30,7 @@ import { median } from 'simple-statistics';
 import { hiddenLayerAllowances, hiddenLayerWarningFor, velocityInversion } from '../structure/hidden-layer.js';
 import { roundM } from '../output/output-decimals.js';
 import { isFiniteNumber as isNum } from '../shared/numbers.js';
+import { positionText, velocityWords } from './wording.js';
 
 /** Fewest picks that show a straight branch (two fix a line, a third tests it). Common practice. */
 export const MIN_PICKS_PER_BRANCH = 3;
@@ -131,7 +132,7 @@ function sideInversions(interp: Interpretation): Warning[] {
         if (isNum(lines[k].v) && isNum(lines[k - 1].v) && !(lines[k].v > lines[k - 1].v)) {
           warnings.push({
             code: 'velocity-inversion',
-            message: `On the ${side.side} side of ${shot.id} the ${lines[k].name} (${Math.round(lines[k].v)} m/s) is not faster than the ${lines[k - 1].name} before it (${Math.round(lines[k - 1].v)} m/s). First arrivals speed up with offset over layers that get faster with depth; a slower branch means a wrong branch split or a velocity inversion, which refraction first arrivals cannot resolve (ASTM D5777; USACE EM 1110-1-1802).`,
+            message: `On the ${side.side} side of ${shot.id} the ${lines[k].name} (${velocityWords(lines[k].v)}) is not faster than the ${lines[k - 1].name} before it (${velocityWords(lines[k - 1].v)}). First arrivals speed up with offset over layers that get faster with depth; a slower branch means a wrong branch split or a velocity inversion, which refraction first arrivals cannot resolve (ASTM D5777; USACE EM 1110-1-1802).`,
             x: shot.x,
           });
         }
@@ -175,7 +176,7 @@ function stationV2NotAboveV1(interp: Interpretation): Warning | null {
   if (xs.length === 0) return null;
   return {
     code: 'v2-not-above-v1',
-    message: `At x = ${xs.slice(0, 6).join(', ')}${xs.length > 6 ? ', …' : ''} m the refractor velocity is not above the top-layer velocity: no head wave could come from such a layer, so the depths there are not meaningful. Check the branch assignment.`,
+    message: `At x = ${xs.slice(0, 6).map(positionText).join(', ')}${xs.length > 6 ? ', …' : ''} m the refractor velocity is not above the top-layer velocity: no head wave could come from such a layer, so the depths there are not meaningful. Check the branch assignment.`,
     x: xs[0],
   };
 }

@@ -20,6 +20,7 @@
 import type { Interpretation, LayerCandidate, LayerChoice, Warning } from '../output/interpretation.js';
 import { RESIDUALS_HIGH_FACTOR } from './residuals.js';
 import { SECOND_REFRACTOR_MIN_CONTRAST } from '../branches/assign-branches.js';
+import { timeText } from './wording.js';
 
 /** BIC of one interpretation, or null without residuals. O(1). */
 export function layerCandidate(label: LayerCandidate['label'], interp: Interpretation, sigmaMs: number): LayerCandidate | null {
@@ -56,11 +57,11 @@ export function chooseLayerCount(auto: Interpretation, others: { label: LayerCan
   let best = all[0];
   for (const c of all) if (c.cand.bic < best.cand.bic) best = c;
   const layerChoice: LayerChoice = { criterion: 'bic', candidates: all.map((c) => c.cand), chosen: best.label };
-  const list = all.map((c) => `${c.label} (${c.cand.layers} layers): RMS ${c.cand.rmsMs} ms, BIC ${c.cand.bic}`).join('; ');
+  const list = all.map((c) => `${c.label} (${c.cand.layers} layers): RMS ${timeText(c.cand.rmsMs)} ms, BIC ${c.cand.bic}`).join('; ');
   const note: Warning = {
     code: 'layer-count-chosen',
     message:
-      `The first interpretation misfit the picks (RMS ${auto.qc.residuals?.rmsMs} ms against a pick uncertainty of ${sigmaMs} ms), so two- and three-layer interpretations were compared by their forward-model misfit, penalised per free parameter (Bayesian information criterion, Schwarz 1978): ${list}. ` +
+      `The first interpretation misfit the picks (RMS ${typeof auto.qc.residuals?.rmsMs === 'number' ? timeText(auto.qc.residuals.rmsMs) : 'unknown'} ms against a pick uncertainty of ${timeText(sigmaMs)} ms), so two- and three-layer interpretations were compared by their forward-model misfit, penalised per free parameter (Bayesian information criterion, Schwarz 1978): ${list}. ` +
       `Taken: ${best.cand.layers} layers (${best.label}). Check the choice against boreholes or test pits; a layer count the picks barely support changes depths to rock.`,
   };
   return { ...best.interp, qc: { ...best.interp.qc, warnings: [...best.interp.qc.warnings, note], layerChoice } };

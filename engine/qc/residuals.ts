@@ -36,6 +36,7 @@ import { modelFromInterpretation, residualGridExtent } from '../forward/interpre
 import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import { roundTo } from '../shared/numbers.js';
 import { roundMs, roundMsOrNull } from '../output/output-decimals.js';
+import { timeText } from './wording.js';
 
 /**
  * Residuals are called high when their RMS exceeds this many pick uncertainties. Common
@@ -260,4 +261,5 @@ function shotSourceElevation(
   return Math.min(z, ground);
 }
 
-const fmtMs = (v: number): string => v.toFixed(2);
+/** A time in a warning, as the page shows it (0.1 ms). */
+const fmtMs = (v: number): string => timeText(v);

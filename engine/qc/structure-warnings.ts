@@ -4,7 +4,7 @@
  */
 import type { Warning } from '../output/interpretation.js';
 import type { FoundStep } from '../structure/structure-features.js';
-import { fixed, positionText } from './wording.js';
+import { lengthText, positionText, velocityNumber } from './wording.js';
 
 export function structureWarnings(steps: FoundStep[], changes: { x: number; left: number; right: number }[], lateralV1: boolean): Warning[] {
   const out: Warning[] = [];
@@ -12,7 +12,7 @@ export function structureWarnings(steps: FoundStep[], changes: { x: number; left
     out.push({
       code: 'refractor-step',
       message:
-        `The refractor steps ${st.throw > 0 ? 'down' : 'up'} by about ${fixed(Math.abs(st.throw), 1)} m toward +x near x = ${positionText(st.x)} m ` +
+        `The refractor steps ${st.throw > 0 ? 'down' : 'up'} by about ${lengthText(Math.abs(st.throw))} m toward +x near x = ${positionText(st.x)} m ` +
         `(seen in ${(st.seenIn ?? []).join(', ')}). Depths within a few metres of it are smoothed by the method.`,
       x: st.x,
     });
@@ -20,7 +20,7 @@ export function structureWarnings(steps: FoundStep[], changes: { x: number; left
   for (const c of changes) {
     out.push({
       code: 'refractor-velocity-change',
-      message: `The refractor velocity changes from about ${Math.round(c.left)} to ${Math.round(c.right)} m/s near x = ${positionText(c.x)} m (a change in rock type or weathering).`,
+      message: `The refractor velocity changes from about ${velocityNumber(c.left)} to ${velocityNumber(c.right)} m/s near x = ${positionText(c.x)} m (a change in rock type or weathering).`,
       x: c.x,
     });
   }

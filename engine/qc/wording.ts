@@ -1,19 +1,37 @@
 /**
- * How warnings write numbers and positions: one style for every stage's messages.
+ * How warnings write numbers and positions: one style for every stage's messages, and the
+ * same rounding as the drawings, the page, the share page and stations.csv (the display
+ * rules of engine/output/display-precision.js: 0.1 m, 0.1 ms, velocities to 10 m/s), so a
+ * warning never says 2801 m/s where the section and the table say 2,800.
  */
-import { roundTo } from '../shared/numbers.js';
+import { metresText, millisecondsText, velocityText } from '../output/display-precision.js';
 
-/** A number with a fixed count of decimals, e.g. a time in a sentence. */
-export function fixed(value: number, decimals: number): string {
-  return value.toFixed(decimals);
+/** A velocity as shown, with its unit: 2801 → "2,800 m/s". */
+export function velocityWords(velocityMPerS: number): string {
+  return `${velocityText(velocityMPerS)} m/s`;
 }
 
-/** A position along the line, m, to 0.01 m without trailing zeros. */
+/** A velocity as shown, without its unit (for "between 700 and 2,800 m/s"). */
+export function velocityNumber(velocityMPerS: number): string {
+  return velocityText(velocityMPerS);
+}
+
+/** A length (depth, thickness, throw, distance) as shown, without its unit: 5.514 → "5.5". */
+export function lengthText(valueM: number): string {
+  return metresText(valueM);
+}
+
+/** A time as shown, without its unit: 1.987 → "2.0". */
+export function timeText(valueMs: number): string {
+  return millisecondsText(valueMs);
+}
+
+/** A position along the line, m, as shown (0.1 m, the station table's decimals). */
 export function positionText(xM: number): string {
-  return String(roundTo(xM, 2));
+  return metresText(xM);
 }
 
-/** "x = 4 m" or "x = 4, 6, 8 m". */
+/** "x = 4.0 m" or "x = 4.0, 6.0, 8.0 m". */
 export function positionsText(xsM: number[]): string {
   return xsM.length === 1 ? `x = ${positionText(xsM[0])} m` : `x = ${xsM.map(positionText).join(', ')} m`;
 }

@@ -36,6 +36,7 @@ import type { ReciprocalCheck, ShotAnalysis, Warning } from '../output/interpret
 import { geophoneSpacingM } from '../branches/shot-geometry.js';
 import { timeOnBranchMs } from '../branches/branch-line.js';
 import type { ResolvedOptions } from '../survey/options.js';
+import { lengthText, timeText } from '../qc/wording.js';
 
 /** A geophone counts as "at" a shot when within this fraction of the spacing. */
 const AT_SHOT_FRACTION_OF_SPACING = 0.25;
@@ -213,14 +214,16 @@ export function extrapolationAllowanceMs(forwardGapM: number, reverseGapM: numbe
   return one(forwardGapM) + one(reverseGapM);
 }
 
-const ms = (v: number): string => v.toFixed(1);
+/** Times (and the extrapolated distance) in a warning, as the page shows them (0.1 ms, 0.1 m). */
+const ms = (v: number): string => timeText(v);
+const metres = (v: number): string => lengthText(v);
 
 /** A sentence for a misfit that rests on a long extrapolation (which can add to it). */
 function longReadingNote(aId: string, bId: string, forwardGapM: number, reverseGapM: number, spacingM: number): string {
   const limit = VERIFIABLE_GAP_SPACINGS * spacingM;
   if (forwardGapM <= limit && reverseGapM <= limit) return '';
   const [who, where, gap] = forwardGapM > reverseGapM ? [aId, bId, forwardGapM] : [bId, aId, reverseGapM];
-  return ` The time of ${who} at ${where}'s position is extrapolated ${ms(gap)} m beyond its picks, which can add to such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
+  return ` The time of ${who} at ${where}'s position is extrapolated ${metres(gap)} m beyond its picks, which can add to such a difference where the branch bends (a step or an undulating refractor); the pair is used only where no agreeing pair reaches.`;
 }
 
 /**

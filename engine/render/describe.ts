@@ -12,6 +12,25 @@ export function lineName(survey: Survey, interpretation: Interpretation): string
   return typeof name === 'string' && name.trim().length > 0 ? name : 'Unnamed line';
 }
 
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
+
+/**
+ * The survey's free-text date line (site, date of shooting, crew) as people read it: a bare
+ * ISO date ("2024-05-14") in words ("shot on 14 May 2024"), anything else as the survey gives
+ * it. Written by hand (no Intl), so every render is the same on every machine; the drawings'
+ * title blocks and the share page both use it.
+ */
+export function surveyDateText(text: string): string {
+  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text.trim());
+  if (!match) return text;
+  const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
+  // Gregorian leap years: every 4th, not every 100th, every 400th.
+  const leap = (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+  const days = [31, leap ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+  if (month < 1 || month > 12 || day < 1 || day > days[month - 1]) return text;
+  return `shot on ${day} ${MONTHS[month - 1]} ${year}`;
+}
+
 export function describeMethod(method: MethodName | undefined): string {
   switch (method) {
     case 'plus-minus':
@@ -50,15 +69,15 @@ export function shotPlacements(survey: Survey, interpretation: Interpretation): 
   });
 }
 
-/** Notes for the title block: warnings count, residual RMS, failed reciprocal checks. */
+/**
+ * Notes for the title block: residual RMS and failed reciprocal checks. The warnings are not
+ * counted here ("1 warning" tells a reader nothing): the plots say them in words, under the
+ * title (warningSummary).
+ */
 export function qcSummary(interpretation: Interpretation): { text: string; role: string; alert?: boolean }[] {
   const notes: { text: string; role: string; alert?: boolean }[] = [];
-  const warnings = interpretation.qc?.warnings ?? [];
   const residuals = interpretation.qc?.residuals;
-  const parts: string[] = [];
-  parts.push(warnings.length === 1 ? '1 warning' : `${warnings.length} warnings`);
-  if (residuals && Number.isFinite(residuals.rmsMs)) parts.push(`picks vs model RMS ${formatMs(residuals.rmsMs)}`);
-  notes.push({ text: parts.join(' · '), role: 'qc-summary' });
+  if (residuals && Number.isFinite(residuals.rmsMs)) notes.push({ text: `picks vs model RMS ${formatMs(residuals.rmsMs)}`, role: 'qc-summary' });
   const failed = (interpretation.qc?.reciprocal ?? []).filter((r) => !r.ok);
   if (failed.length > 0) {
     const worst = failed.reduce((a, b) => (Math.abs(b.differenceMs) > Math.abs(a.differenceMs) ? b : a));

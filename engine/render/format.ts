@@ -2,10 +2,10 @@
  * Number formatting for labels. Written out by hand (no Intl) so the output does not
  * depend on the machine's locale: every render of the same interpretation is identical.
  * How many digits a velocity, a length or a time shows is declared once, in
- * web/display-precision.js, which the page, the share page and stations.csv read too: the
- * drawings and the tables show the same numbers.
+ * engine/output/display-precision.js, which the warnings, the page, the share page and
+ * stations.csv read too: the drawings, the tables and the texts show the same numbers.
  */
-import { fixedDecimals, groupThousands, metresText, millisecondsText, velocityText } from '../../web/display-precision.js';
+import { fixedDecimals, groupThousands, metresText, millisecondsText, velocityText } from '../output/display-precision.js';
 
 export { groupThousands };
 

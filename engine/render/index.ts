@@ -2,7 +2,7 @@
  * SVG drawings of an interpretation: the depth section and the time–distance plot.
  * Pure: strings out, no I/O; each render builds its own svgdom document.
  */
-export { renderSection, renderSectionSheets, type SectionOptions } from './section.js';
+export { renderSection, renderSectionSheet, renderSectionSheets, sectionSheetCount, type SectionOptions } from './section.js';
 export {
   sectionSheetOptionProblems,
   parseSectionSheetOptions,

@@ -31,7 +31,7 @@ import { stepMarkers, velocityChangeMarkers, layerLabel } from './section-featur
 import { LabelPlacer } from './label-placer.js';
 import { fixed, formatMs, formatVelocity, groupThousands, round3 } from './format.js';
 import { addText, wrapText } from './text.js';
-import { describeMethod, lineName, shotPlacements } from './describe.js';
+import { describeMethod, lineName, shotPlacements, surveyDateText } from './describe.js';
 import { parseSectionSheetOptions, SectionSheetError, type ResolvedSheetOptions, type SectionSheetOptions } from './sheet-options.js';
 import { planSheets, type SheetPlan, type SheetWindow } from './sheet-plan.js';
 import { drawSourceRuns, sourceRuns, stationSource, uncertaintyBand, uncertaintyRange } from './refractor-sources.js';
@@ -77,16 +77,31 @@ interface SectionContent {
  * cannot draw: a bad value, a height that does not fit the paper, too many sheets.
  */
 export function renderSectionSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions = {}): string[] {
-  return drawSheets(survey, interpretation, options, null);
+  return drawSheets(survey, interpretation, options, null).svgs;
 }
 
 /** The first sheet of the depth section (the whole section when the line fits one sheet); only that sheet is drawn. */
 export function renderSection(survey: Survey, interpretation: Interpretation, options: SectionOptions = {}): string {
-  return drawSheets(survey, interpretation, options, 0)[0];
+  return drawSheets(survey, interpretation, options, 0).svgs[0];
 }
 
-/** Plans the sheets and draws all of them, or only sheet `only`. */
-function drawSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions, only: number | null): string[] {
+/**
+ * Sheet `sheet` (1-based) of the depth section and how many sheets the section has at these
+ * options; only that sheet is drawn (the page shows a long line sheet by sheet). `svg` is
+ * null when the section has fewer sheets than `sheet`.
+ */
+export function renderSectionSheet(survey: Survey, interpretation: Interpretation, sheet: number, options: SectionSheetOptions = {}): { svg: string | null; sheetCount: number } {
+  const drawn = drawSheets(survey, interpretation, options, Number.isInteger(sheet) && sheet >= 1 ? sheet - 1 : -1);
+  return { svg: drawn.svgs[0] ?? null, sheetCount: drawn.sheetCount };
+}
+
+/** How many sheets the depth section has at these options; plans the sheets and draws none. */
+export function sectionSheetCount(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions = {}): number {
+  return drawSheets(survey, interpretation, options, -1).sheetCount;
+}
+
+/** Plans the sheets and draws all of them, or only sheet `only` (0-based; none when out of range). */
+function drawSheets(survey: Survey, interpretation: Interpretation, options: SectionSheetOptions, only: number | null): { svgs: string[]; sheetCount: number } {
   const parsed = parseSectionSheetOptions(options);
   if (parsed.problems.length > 0) throw new SectionSheetError(parsed.problems);
   const resolved = parsed.options;
@@ -105,7 +120,9 @@ function drawSheets(survey: Survey, interpretation: Interpretation, options: Sec
   const texts = content.rows.flatMap((r) => (r.kind === 'labels' ? r.texts : []));
   const interval = labelInterval(content.geophoneXs, plan.mmPerM, widestRowLabelMm(texts));
   const draw = (window: SheetWindow, k: number) => drawSheet({ survey, interpretation, content, plan, layout, page, window, k, interval });
-  return only === null ? plan.windows.map(draw) : [draw(plan.windows[only], only)];
+  const sheetCount = plan.windows.length;
+  if (only === null) return { svgs: plan.windows.map(draw), sheetCount };
+  return { svgs: only >= 0 && only < sheetCount ? [draw(plan.windows[only], only)] : [], sheetCount };
 }
 
 function sectionContent(survey: Survey, interpretation: Interpretation, options: ResolvedSheetOptions): SectionContent {
@@ -243,7 +260,7 @@ function sheetLayout(page: PageSize, content: SectionContent, survey: Survey, in
   const subtitle = sectionSubtitle(survey, interpretation, paged ? 'sheet 10 of 10' : null);
   const leftWidth = titleLeftWidthMm({ notes, page });
   const remarks = wrapText(warningSummary(interpretation.qc?.warnings ?? []), leftWidth, REMARK_MM).map((text) => ({ text, role: 'warning-summary' }));
-  const titleContent = { title: content.name, subtitle, dateLine: survey.date, notes, remarks, page };
+  const titleContent = { title: content.name, subtitle, dateLine: survey.date === undefined ? undefined : surveyDateText(survey.date), notes, remarks, page };
   const range = uncertaintyRange(content.stations);
   const legendItems = sectionLegend({ ...content.needs, matchLines: paged }, range);
   const cautionTop = page.heightMm - page.marginMm + 1 - cautionNoteHeightMm(content.cautions, contentWidth);

@@ -107,15 +107,25 @@ export function stationRows(parent: Container, rows: readonly StationRow[], at: 
         const x1 = frame.x(hi);
         const bar = one.group().attr({ 'data-role': 'velocity-segment', 'data-from': seg.from, 'data-to': seg.to, 'data-velocity': seg.velocity });
         const stroke = { stroke: row.colour, 'stroke-width': 0.35 };
-        bar.line(round3(x0), round3(y), round3(x1), round3(y)).attr(stroke);
-        // End ticks only where the segment really ends, not where the sheet cuts it.
-        if (lo === Math.min(seg.from, seg.to)) bar.line(round3(x0), round3(y - 1.2), round3(x0), round3(y + 1.2)).attr(stroke);
-        if (hi === Math.max(seg.from, seg.to)) bar.line(round3(x1), round3(y - 1.2), round3(x1), round3(y + 1.2)).attr(stroke);
         const text = formatVelocity(seg.velocity);
         const width = textWidthMm(text, ROW_TEXT_MM);
         const cx = (x0 + x1) / 2;
         // Over the bar when it is long enough; else only if it clears the label before it.
-        if (cx - width / 2 >= lastLabelEnd + LABEL_GAP_MM) {
+        const labelled = cx - width / 2 >= lastLabelEnd + LABEL_GAP_MM;
+        // The bar is broken where its label sits (a halo hugs the glyphs only, so a line drawn
+        // through the label shows between them and a printed "2,600 m/s" reads "2;600·m/s").
+        const gapFrom = cx - width / 2 - LABEL_GAP_MM;
+        const gapTo = cx + width / 2 + LABEL_GAP_MM;
+        if (labelled && gapFrom > x0 && gapTo < x1) {
+          bar.line(round3(x0), round3(y), round3(gapFrom), round3(y)).attr(stroke);
+          bar.line(round3(gapTo), round3(y), round3(x1), round3(y)).attr(stroke);
+        } else {
+          bar.line(round3(x0), round3(y), round3(x1), round3(y)).attr(stroke);
+        }
+        // End ticks only where the segment really ends, not where the sheet cuts it.
+        if (lo === Math.min(seg.from, seg.to)) bar.line(round3(x0), round3(y - 1.2), round3(x0), round3(y + 1.2)).attr(stroke);
+        if (hi === Math.max(seg.from, seg.to)) bar.line(round3(x1), round3(y - 1.2), round3(x1), round3(y + 1.2)).attr(stroke);
+        if (labelled) {
           addText(bar, text, cx, y + ROW_TEXT_MM * 0.35, { sizeMm: ROW_TEXT_MM, anchor: 'middle', fill: row.colour, halo: true, role: 'velocity-label' });
           lastLabelEnd = cx + width / 2;
         }

@@ -13,7 +13,8 @@ import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM, textWidthMm } from './page.js';
 import { INK, SHOT_COLOURS } from './palette.js';
-import { titleBlock } from './title-block.js';
+import { REMARK_MM, titleBlock, titleLeftWidthMm } from './title-block.js';
+import { warningSummary } from './warning-summary.js';
 import { cautionNote, cautionNoteHeightMm } from './caution-note.js';
 import { legend, legendHeightMm, type LegendItem } from './legend.js';
 import { bottomAxis, leftAxis } from './axis.js';
@@ -22,8 +23,8 @@ import { niceStep } from './ticks.js';
 import { LabelPlacer, type Box } from './label-placer.js';
 import { marker, SHOT_SHAPES, type MarkerShape } from './markers.js';
 import { formatMs, formatVelocity, round3 } from './format.js';
-import { addText } from './text.js';
-import { describeMethod, lineName, qcSummary } from './describe.js';
+import { addText, wrapText } from './text.js';
+import { describeMethod, lineName, qcSummary, surveyDateText } from './describe.js';
 import type { Container } from '@svgdotjs/svg.js';
 
 export interface TravelTimeOptions {
@@ -126,7 +127,10 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
   const subtitle = ['Time–distance plot', describeMethod(interpretation.method), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`]
     .filter((part) => part.length > 0)
     .join(' · ');
-  const ruleY = titleBlock(svg, { title: name, subtitle, dateLine: survey.date, notes: [...qcSummary(interpretation), ...reciprocalNotes] });
+  const notes = [...qcSummary(interpretation), ...reciprocalNotes];
+  // Every warning in words under the title, as on the section (never a bare "1 warning").
+  const remarks = wrapText(warningSummary(interpretation.qc?.warnings ?? [], { onSection: false }), titleLeftWidthMm({ notes }), REMARK_MM).map((text) => ({ text, role: 'warning-summary' }));
+  const ruleY = titleBlock(svg, { title: name, subtitle, dateLine: survey.date === undefined ? undefined : surveyDateText(survey.date), notes, remarks });
   const box: Box = { x0: PLOT_LEFT_MM, y0: ruleY + 4, x1: PAGE.widthMm - PAGE.marginMm, y1: plotBottom };
   const plot: Plot = {
     x: linearScale([xMin - xPad, xMax + xPad], [box.x0, box.x1]),

@@ -60,8 +60,25 @@ function metres(x: number): string {
   return Math.abs(x) >= 10_000 ? groupThousands(x) : String(Math.round(x * 10) / 10);
 }
 
+/**
+ * The end of a phrase that points at how the section draws it: true on the section, wrong on
+ * the time–distance plot, which draws no refractor.
+ */
+const SECTION_HINTS: Readonly<Record<string, string>> = {
+  'hidden-layer': ' (deepest limit drawn dash-dot)',
+  'no-coverage': ' (hatched)',
+  'first-refractor-interpolated': ' (dotted)',
+  'delay-from-intercepts': ' (dashed)',
+};
+
+/** Which drawing the phrases are for: the section (default) names how it draws each warning. */
+export interface WarningWordsOptions {
+  onSection?: boolean;
+}
+
 /** "hidden layer … at 0–46 m (3×)": one phrase per code, in the order the codes first appear. */
-export function warningPhrases(warnings: readonly Warning[]): string[] {
+export function warningPhrases(warnings: readonly Warning[], options: WarningWordsOptions = {}): string[] {
+  const onSection = options.onSection ?? true;
   const byCode = new Map<string, Warning[]>();
   for (const w of warnings) {
     const list = byCode.get(w.code);
@@ -70,7 +87,9 @@ export function warningPhrases(warnings: readonly Warning[]): string[] {
   }
   const phrases: string[] = [];
   for (const [code, list] of byCode) {
-    let phrase = PHRASES[code] ?? firstSentence(list[0].message);
+    const hint = SECTION_HINTS[code];
+    const words = PHRASES[code];
+    let phrase = words === undefined ? firstSentence(list[0].message) : !onSection && hint !== undefined && words.endsWith(hint) ? words.slice(0, -hint.length) : words;
     const xs = list.map((w) => w.x).filter((x): x is number => typeof x === 'number' && Number.isFinite(x));
     if (xs.length === 1) phrase += ` at ${metres(xs[0])} m`;
     else if (xs.length > 1) phrase += ` at ${metres(Math.min(...xs))}–${metres(Math.max(...xs))} m`;
@@ -81,8 +100,8 @@ export function warningPhrases(warnings: readonly Warning[]): string[] {
 }
 
 /** The sentence for the title block: "Warnings: a; b; c." or "No warnings." */
-export function warningSummary(warnings: readonly Warning[]): string {
-  const phrases = warningPhrases(warnings);
+export function warningSummary(warnings: readonly Warning[], options: WarningWordsOptions = {}): string {
+  const phrases = warningPhrases(warnings, options);
   if (phrases.length === 0) return 'No warnings from the checks.';
   return `Warnings: ${phrases.join('; ')}.`;
 }

@@ -23,6 +23,7 @@
 import type { Warning } from '../output/interpretation.js';
 import { StructureInputError } from './structure-input.js';
 import { zeros } from '../shared/zeros.js';
+import { lengthText, velocityNumber, velocityWords } from '../qc/wording.js';
 
 export interface HiddenLayerInput {
   /** Top-layer velocity and thickness. */
@@ -171,7 +172,7 @@ export function velocityInversion(velocitiesMPerS: number[]): Warning[] {
     if (!(velocitiesMPerS[i] > velocitiesMPerS[i - 1])) {
       warnings.push({
         code: 'velocity-inversion',
-        message: `Layer ${i + 1} (${Math.round(velocitiesMPerS[i])} m/s) is not faster than layer ${i} above it (${Math.round(velocitiesMPerS[i - 1])} m/s). A slower layer gives no head wave, so refraction first arrivals cannot see it and depths below it are not reliable; check the branch assignment.`,
+        message: `Layer ${i + 1} (${velocityWords(velocitiesMPerS[i])}) is not faster than layer ${i} above it (${velocityWords(velocitiesMPerS[i - 1])}). A slower layer gives no head wave, so refraction first arrivals cannot see it and depths below it are not reliable; check the branch assignment.`,
       });
     }
   }
@@ -300,11 +301,11 @@ export function hiddenLayerWarning(input: HiddenLayerWarningInput): Warning | nu
 
 /** The warning's words for an allowance already computed (hiddenLayerAllowances). */
 export function hiddenLayerWarningFor(input: HiddenLayerWarningInput, allowance: HiddenLayerAllowance): Warning {
-  const r = (v: number): string => (Math.abs(v) >= 10 ? v.toFixed(0) : v.toFixed(1));
+  const r = lengthText;
   const where = input.spreadsM && input.spreadsM.length > 1 ? 'on any shot of this line' : 'on this spread';
   return {
     code: 'hidden-layer',
-    message: `A layer of up to ${r(allowance.thicknessM)} m with a velocity between ${Math.round(input.v1MPerS)} and ${Math.round(input.refractorVelocityMPerS)} m/s (checked at ${Math.round(allowance.velocityMPerS)} m/s) could be hidden above the refractor ${where}; the refractor would then be up to ${r(allowance.extraDepthM)} m deeper than shown.`,
+    message: `A layer of up to ${r(allowance.thicknessM)} m with a velocity between ${velocityNumber(input.v1MPerS)} and ${velocityWords(input.refractorVelocityMPerS)} (checked at ${velocityWords(allowance.velocityMPerS)}) could be hidden above the refractor ${where}; the refractor would then be up to ${r(allowance.extraDepthM)} m deeper than shown.`,
     ...(input.x !== undefined ? { x: input.x } : {}),
   };
 }

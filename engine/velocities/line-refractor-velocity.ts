@@ -7,6 +7,7 @@ import type { Warning } from '../output/interpretation.js';
 import type { PairPlusMinus } from '../plus-minus/refractor-plus-times.js';
 import { segmentMinusVelocity } from '../structure/structure-features.js';
 import type { MinusTimeVelocityResult } from './minus-time-velocity.js';
+import { velocityWords } from '../qc/wording.js';
 
 export interface LineRefractorVelocity {
   /** The pairs whose T− are used: the trusted ones, else all. */
@@ -45,7 +46,7 @@ export function lineRefractorVelocity(pairs: PairPlusMinus[], geophoneXM: number
   if (v1 !== null && !(fit.velocity > v1)) {
     return none({
       code: 'v2-not-above-v1',
-      message: `The refractor velocity from the minus times (${Math.round(fit.velocity)} m/s) is not above the top-layer velocity (${Math.round(v1)} m/s): no head wave could come from such a layer, so no depths are given. Check the branch assignment.`,
+      message: `The refractor velocity from the minus times (${velocityWords(fit.velocity)}) is not above the top-layer velocity (${velocityWords(v1)}): no head wave could come from such a layer, so no depths are given. Check the branch assignment.`,
     });
   }
   return { minusPairs, fit, velocity: fit.velocity, warnings };

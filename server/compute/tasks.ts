@@ -5,7 +5,7 @@
  * them and the main thread never does.
  */
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { renderSection, renderTravelTimes } from '../../engine/render/index.js';
+import { renderSection, renderSectionSheet, renderSectionSheets, renderTravelTimes, sectionSheetCount } from '../../engine/render/index.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
@@ -18,16 +18,27 @@ export type Figure = 'section' | 'traveltimes';
 /** Each task's input and result, by name. */
 export interface TaskTable {
   interpret: { input: { survey: Survey }; result: Interpretation };
-  /** One interpretation and both drawings of it. */
-  preview: { input: { survey: Survey }; result: { interpretation: Interpretation; sectionSvg: string; travelTimesSvg: string } };
+  /** One interpretation and both drawings of it (every sheet of the section). */
+  preview: { input: { survey: Survey }; result: { interpretation: Interpretation } & Drawings };
   drawing: { input: { figure: Figure; survey: Survey; interpretation: Interpretation }; result: string };
-  drawings: { input: { survey: Survey; interpretation: Interpretation }; result: { sectionSvg: string; travelTimesSvg: string } };
+  /** One sheet (1-based) of the section at the default options, and how many there are; svg null past the last. */
+  sectionSheet: { input: { survey: Survey; interpretation: Interpretation; sheet: number }; result: { svg: string | null; sheetCount: number } };
+  /** How many sheets the section has at the default options (planned, none drawn). */
+  sectionSheetCount: { input: { survey: Survey; interpretation: Interpretation }; result: number };
+  drawings: { input: { survey: Survey; interpretation: Interpretation }; result: Drawings };
   synthetic: {
     input: { request: SyntheticRequest; interpret: boolean };
     result: { survey: Survey; interpretation: Interpretation | null; refractors: RefractorVisibility[]; notes: SyntheticNote[] };
   };
   /** A figure of a stored revision as PDF (every sheet) or PNG (one sheet). */
   exportFile: { input: ExportRequest; result: Promise<ExportResult> };
+}
+
+/** Both drawings of a line: the section's first sheet, every sheet of it (a long line is paged), and the plot. */
+export interface Drawings {
+  sectionSvg: string;
+  sectionSheets: string[];
+  travelTimesSvg: string;
 }
 
 export type TaskName = keyof TaskTable;
@@ -44,10 +55,12 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
     return { interpretation, ...TASKS.drawings({ survey, interpretation }) };
   },
   drawing: ({ figure, survey, interpretation }) => drawing(figure, survey, interpretation),
-  drawings: ({ survey, interpretation }) => ({
-    sectionSvg: renderSection(survey, interpretation),
-    travelTimesSvg: renderTravelTimes(survey, interpretation),
-  }),
+  sectionSheet: ({ survey, interpretation, sheet }) => renderSectionSheet(survey, interpretation, sheet),
+  sectionSheetCount: ({ survey, interpretation }) => sectionSheetCount(survey, interpretation),
+  drawings: ({ survey, interpretation }) => {
+    const sectionSheets = renderSectionSheets(survey, interpretation);
+    return { sectionSvg: sectionSheets[0], sectionSheets, travelTimesSvg: renderTravelTimes(survey, interpretation) };
+  },
   synthetic: ({ request, interpret: withInterpretation }) => {
     const survey = syntheticSurveyFromRequest(request);
     const refractors = refractorVisibility(request);

@@ -13,6 +13,7 @@ import type { StoredRevision, SurveyStore } from '../store.js';
 import {
   binaryFileResponse,
   errorResponses,
+  SHEET_COUNT_HEADER,
   sectionPdfQuerySchema,
   sectionPngQuerySchema,
   travelTimesPdfQuerySchema,
@@ -39,8 +40,8 @@ interface ExportQuery {
   sheet?: number;
 }
 
-/** The answer header giving how many sheets the drawing has (a PNG is one of them). */
-export const SHEET_COUNT_HEADER = 'Arcline-Sheet-Count';
+/** The answer header giving how many sheets the drawing has (declared in route-schemas.ts). */
+export { SHEET_COUNT_HEADER };
 
 const MEDIA: Record<ExportFormat, string> = { pdf: 'application/pdf', png: 'image/png' };
 

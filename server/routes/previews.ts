@@ -29,7 +29,11 @@ import type { Figure } from '../compute/tasks.js';
 const PreviewBundleSchema = Type.Object(
   {
     interpretation: InterpretationSchema,
-    sectionSvg: Type.String({ description: 'The depth section, an SVG document.' }),
+    sectionSvg: Type.String({ description: 'The depth section, an SVG document (its first sheet when the line is paged).' }),
+    sectionSheets: Type.Array(Type.String(), {
+      minItems: 1,
+      description: 'Every sheet of the depth section, in order along the line, each an SVG document: one for a line that fits one sheet; a long line is paged over several that meet at match lines.',
+    }),
     travelTimesSvg: Type.String({ description: 'The time–distance plot, an SVG document.' }),
   },
   { additionalProperties: false, title: 'PreviewBundle' },

@@ -12,7 +12,9 @@ import type { SurveyStore } from '../store.js';
 import { requireShared } from '../lookup.js';
 import { renderSharePage, SHARE_PAGE_CSP } from '../share-page.js';
 import { stationsCsv, downloadName } from '../stations-csv.js';
-import { errorResponses, fileResponse } from '../route-schemas.js';
+import { Type } from '@sinclair/typebox';
+import { errorResponses, fileResponse, sheetQuery } from '../route-schemas.js';
+import { sectionSheetReply } from '../section-sheet.js';
 
 /** Schema of a share read: a file of this media type, or 404 when the link is unknown or revoked. */
 function shared(summary: string, mediaType: string) {
@@ -34,7 +36,7 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
   app.get<{ Params: TokenParams }>('/share/:token', shared('Read-only page of the latest revision.', 'text/html'), async (request, reply) => {
     const { token } = request.params;
     const { stored } = requireShared(store, token);
-    const { sectionSvg, travelTimesSvg } = await app.compute.run(
+    const { sectionSheets, travelTimesSvg } = await app.compute.run(
       'drawings',
       { survey: stored.survey, interpretation: stored.interpretation },
       clientGone(reply),
@@ -45,7 +47,7 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
       name: stored.name,
       revision: stored.revision,
       storedAt: stored.createdAt,
-      sectionSvg,
+      sectionSheets,
       travelTimesSvg,
       cautions: CAUTIONS,
       stationsCsvUrl: `/share/${token}/stations.csv`,
@@ -57,12 +59,16 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
     return html;
   });
 
-  app.get<{ Params: TokenParams }>('/share/:token/section.svg', shared('The shared depth section.', 'image/svg+xml'), async (request, reply) => {
-    const { stored } = requireShared(store, request.params.token);
-    privateResponse(reply);
-    reply.type('image/svg+xml; charset=utf-8');
-    return app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
-  });
+  const sectionRead = shared('The shared depth section: one sheet of it (?sheet=k, default 1); the Arcline-Sheet-Count header gives how many.', 'image/svg+xml');
+  app.get<{ Params: TokenParams; Querystring: { sheet?: number } }>(
+    '/share/:token/section.svg',
+    { schema: { ...sectionRead.schema, querystring: Type.Object({ sheet: sheetQuery }), response: { ...sectionRead.schema.response, ...errorResponses(400, 404) } } },
+    async (request, reply) => {
+      const { stored } = requireShared(store, request.params.token);
+      privateResponse(reply);
+      return sectionSheetReply(app, reply, stored, request.query.sheet);
+    },
+  );
 
   app.get<{ Params: TokenParams }>('/share/:token/traveltimes.svg', shared('The shared time–distance plot.', 'image/svg+xml'), async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);

@@ -13,6 +13,8 @@ import {
   fileResponse,
   revisionQuerySchema,
   revisionWriteQuerySchema,
+  sectionSvgQuerySchema,
+  SectionSheetsSchema,
   RevisionCreatedSchema,
   ShareIssuedSchema,
   StoredSurveySchema,
@@ -24,6 +26,7 @@ import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { stationsCsv, downloadName } from '../stations-csv.js';
 import { LAYOUT_CHANGE_CONFIRM, layoutChange, layoutChangeMessage } from '../revision-layout.js';
 import type { Survey } from '../../engine/survey/survey.js';
+import { sectionSheetReply } from '../section-sheet.js';
 
 export interface SurveyRouteOptions {
   store: SurveyStore;
@@ -35,6 +38,9 @@ interface IdParams {
 }
 interface RevisionQuery {
   revision?: number;
+}
+interface SectionSvgQuery extends RevisionQuery {
+  sheet?: number;
 }
 interface RevisionWriteQuery {
   layoutChange?: typeof LAYOUT_CHANGE_CONFIRM;
@@ -132,13 +138,32 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     },
   );
 
-  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+  app.get<{ Params: IdParams; Querystring: SectionSvgQuery }>(
     '/api/v1/surveys/:id/section.svg',
-    revisionRead('The depth section.', fileResponse('image/svg+xml', 'The depth section as SVG.')),
+    {
+      schema: {
+        summary: 'The depth section: one sheet of it (?sheet=k, default 1); the Arcline-Sheet-Count header gives how many.',
+        tags,
+        querystring: sectionSvgQuerySchema,
+        response: { 200: fileResponse('image/svg+xml', 'One sheet of the depth section as SVG.'), ...errorResponses(400, 404) },
+      },
+    },
     async (request, reply) => {
       const { stored } = fetchRevision(request.params.id, request.query.revision);
-      const svg = await app.compute.run('drawing', { figure: 'section', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
-      return setSvg(reply, svg);
+      return sectionSheetReply(app, reply, stored, request.query.sheet);
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/section-sheets.json',
+    revisionRead('How many sheets the depth section is paged over, and the SVG of each (the page shows every sheet).', SectionSheetsSchema),
+    async (request, reply) => {
+      const { summary, stored } = fetchRevision(request.params.id, request.query.revision);
+      const sheetCount = await app.compute.run('sectionSheetCount', { survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      // The sheets of the revision asked for (the latest when none was).
+      const revision = request.query.revision === undefined ? '' : `revision=${stored.revision}&`;
+      const sheets = Array.from({ length: sheetCount }, (_, i) => `/api/v1/surveys/${summary.id}/section.svg?${revision}sheet=${i + 1}`);
+      return { sheetCount, sheets };
     },
   );
 

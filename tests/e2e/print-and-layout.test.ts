@@ -2,9 +2,10 @@
  * Printing and the first screen, in real Chromium (store seeded with the demo line):
  *  - print emulation (page.emulateMedia({ media: 'print' })) of the page and of the share page
  *    shows both figures and every station row, none cut by a scrolling box, and not the sidebar;
- *  - at 1600×1000 the depth section is wholly in view under the line's title, before the
- *    warnings, downloads and table, with the cautions and the hidden-layer allowance above it
- *    in a few lines. Screenshots at 1600×1000 and 1280×800 go to test-output/e2e.
+ *  - at 1600×1000 the depth section and the time–distance plot are both wholly in view (side
+ *    by side) under the line's title, before the warnings, downloads and table, with the
+ *    cautions and the hidden-layer allowance above them in a few lines; Enlarge gives the
+ *    section the whole width. Screenshots at 1600×1000 and 1280×800 go to test-output/e2e.
  */
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -128,39 +129,59 @@ describe.skipIf(!browserTestsRun)('Printing and the first screen', () => {
     await close();
   });
 
-  it('shows the whole depth section first on a 1600×1000 screen, the cautions above it in a few lines', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+  it('shows the depth section and the time–distance plot both wholly above the fold on a 1600×1000 screen, the cautions above them in a few lines', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { page, trouble, close } = await openAt(launched, baseUrl, 1600, 1000);
     await page.waitForSelector('body[data-ready="true"]');
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);
     expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
     expect(await loadedWidth(page, '#traveltimes-image')).toBeGreaterThan(0);
     const section = (await page.locator('#section-image').boundingBox())!;
     const plot = (await page.locator('#traveltimes-image').boundingBox())!;
-    // The section wholly in view without scrolling, and at a readable size (at least 80 % of its
-    // 277 mm drawing width at 96 px per inch: 1047 px).
-    expect(section.y).toBeGreaterThan(0);
-    expect(section.y + section.height).toBeLessThanOrEqual(1000);
-    const drawn = await page.locator('#section-image').evaluate((img) => {
+    // Issue 11 item 12, figures first: both figures wholly in view without scrolling, side by side.
+    for (const [name, box] of [['section', section], ['plot', plot]] as const) {
+      expect(box.y, name).toBeGreaterThan(0);
+      expect(box.y + box.height, name).toBeLessThanOrEqual(1000);
+      expect(box.x + box.width, name).toBeLessThanOrEqual(1600);
+    }
+    expect(plot.x).toBeGreaterThanOrEqual(section.x + section.width);
+    for (const figure of ['#section-figure', '#traveltimes-figure']) {
+      const box = (await page.locator(figure).boundingBox())!;
+      expect(box.y + box.height, figure).toBeLessThanOrEqual(1000);
+    }
+    // Each at a size a reader can take in at a glance: at least half its 277 mm drawing width at
+    // 96 px per inch (1047 px), so about 1:2 of the printed sheet.
+    const drawnWidth = (selector: string) => page.locator(selector).evaluate((img) => {
       const i = img as HTMLImageElement;
-      const scale = Math.min(i.clientWidth / i.naturalWidth, i.clientHeight / i.naturalHeight);
-      return i.naturalWidth * scale;
+      return i.naturalWidth * Math.min(i.clientWidth / i.naturalWidth, i.clientHeight / i.naturalHeight);
     });
-    expect(drawn).toBeGreaterThan(0.8 * 1047);
+    expect(await drawnWidth('#section-image')).toBeGreaterThan(0.5 * 1047);
+    expect(await drawnWidth('#traveltimes-image')).toBeGreaterThan(0.5 * 1047);
     // The plot follows straight after, before anything else of the line.
     const after = ['#allowance', '#warnings', '#files-panel', '#summary', '#stations'];
     for (const selector of after) {
       const box = await page.locator(selector).boundingBox();
       if (box) expect(box.y, selector).toBeGreaterThan(plot.y);
     }
-    // The cautions stay in view above the section, in at most a few lines.
+    // The cautions stay in view above the figures, in at most a few lines.
     const cautions = (await page.locator('#cautions').boundingBox())!;
-    expect(cautions.y + cautions.height).toBeLessThanOrEqual(section.y);
+    expect(cautions.y + cautions.height).toBeLessThanOrEqual(Math.min(section.y, plot.y));
     expect(cautions.height).toBeLessThan(110);
+    expect(await page.locator('#cautions .caution').allTextContents()).toHaveLength(2);
     // The hidden-layer allowance: one calm line with its number above the figures, not a warning.
     const notes = (await page.textContent('#line-notes')) ?? '';
     expect(notes).toMatch(/^Hidden-layer allowance: the refractor could be up to \d+\.\d m deeper than drawn if a thin layer hides above it\./);
     expect(await page.isVisible('#warnings')).toBe(false);
     expect(await page.textContent('#allowance')).toContain('Depth if a hidden layer');
     await page.screenshot({ path: join(SCREENSHOTS, 'first-screen-1600x1000.png') });
+    // Enlarge gives the section the whole width, near its printed size, still wholly in view.
+    await page.click('button[data-enlarge="section-figure"]');
+    expect(await page.getAttribute('button[data-enlarge="section-figure"]', 'aria-pressed')).toBe('true');
+    const enlarged = (await page.locator('#section-image').boundingBox())!;
+    expect(await drawnWidth('#section-image')).toBeGreaterThan(0.8 * 1047);
+    expect(enlarged.y + enlarged.height).toBeLessThanOrEqual(1000);
+    await page.screenshot({ path: join(SCREENSHOTS, 'first-screen-1600x1000-enlarged.png') });
+    await page.click('button[data-enlarge="section-figure"]');
+    expect(await page.textContent('button[data-enlarge="section-figure"]')).toBe('Enlarge');
     await page.setViewportSize({ width: 1280, height: 800 });
     await page.screenshot({ path: join(SCREENSHOTS, 'first-screen-1280x800.png') });
     expectNoTrouble(trouble);

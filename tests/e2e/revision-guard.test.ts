@@ -1,11 +1,11 @@
 /**
  * The revision guard from the page in real Chromium (store seeded with the demo line): with
  * the demo line open, another line (Demo B, another geophone layout) interpreted and offered
- * "Store as revision" makes the page ask first and say what changes. Cancel stores nothing;
- * "Store as a new line" stores Demo B beside Demo A, which keeps its one revision; "Store as
- * revision anyway" sends the confirmation (api-v1.md: a revision with another layout answers
- * 409 unless the request says the change is meant). A 409 the page did not foresee is asked
- * about with the service's words. No console errors beyond the provoked 409, no CSP violations.
+ * "Store as revision" is refused by the service (api-v1.md: 409 unless the request says the
+ * change is meant; nothing stored) and the page asks, showing the service's own description
+ * of the change word for word (one text, from one place). Cancel stores nothing; "Store as a
+ * new line" stores Demo B beside Demo A, which keeps its one revision; "Store as revision
+ * anyway" sends the confirmation. No console errors beyond the provoked 409, no CSP violations.
  */
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -71,7 +71,7 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     await served?.close();
   }, BROWSER_TEST_TIMEOUT_MS);
 
-  it('asks before storing, says what changes, stores nothing on Cancel and stores a new line when asked to', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+  it('asks before storing, shows the service\'s words for the change, stores nothing on Cancel and stores a new line when asked to', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { context, page, trouble } = await openArcline(launched, baseUrl);
     await expect.poll(() => page.textContent('#line-title'), POLL).toBe(demo.name);
     const demoLine = { id: demoId };
@@ -79,16 +79,22 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
 
     await interpretFile(page, 'flat-line.csv');
     expect(await page.textContent('#revise-button')).toBe(`Store as revision of ${demo.name}`);
-    const previews = posts.length;
+    const refused = page.waitForResponse((r) => r.url().includes(`/api/v1/surveys/${demoLine.id}/revisions`));
     await page.click('#revise-button');
+    const conflict = await refused;
+    expect(conflict.status()).toBe(409);
+    expect(new URL(conflict.url()).search).toBe('');
+    const description = ((await conflict.json()) as { error: { layoutChange: { description: string } } }).error.layoutChange.description;
 
-    // The question, with what changes: both layouts are 24 geophones, Demo A 0–69 m every 3 m, Demo B 0–46 m every 2 m.
+    // The question, with what changes in the service's words: both layouts are 24 geophones,
+    // Demo A 0–69 m every 3 m, Demo B 0–46 m every 2 m.
     const dialog = page.locator('#layout-dialog');
     await dialog.waitFor({ state: 'visible' });
-    const change = (await page.textContent('#layout-dialog-change')) ?? '';
-    expect(change).toContain('23 of the 24 geophones are at other positions');
-    expect(change).toContain(`24 geophones from ${demo.geophones[0].x.toFixed(1)} to ${demo.geophones.at(-1)!.x.toFixed(1)} m, every 3.0 m`);
-    expect(change).toContain(`24 geophones from ${flat.geophones[0].x.toFixed(1)} to ${flat.geophones.at(-1)!.x.toFixed(1)} m, every 2.0 m`);
+    expect(await page.textContent('#layout-dialog-change')).toBe(description);
+    expect(description).toContain(`24 geophones from x = ${flat.geophones[0].x} m to ${flat.geophones.at(-1)!.x} m, every 2 m`);
+    expect(description).toContain(`24 geophones from x = ${demo.geophones[0].x} m to ${demo.geophones.at(-1)!.x} m, every 3 m`);
+    expect(description).toContain('23 of the 24 geophones are at other positions');
+    const previews = posts.length;
     expect(await page.textContent('#layout-confirm')).toBe(`Store as revision of “${demo.name}” anyway`);
     // The safe answer has the focus, so Enter cannot put another line under Demo A's link.
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('layout-new-line');
@@ -96,8 +102,9 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
 
     await page.click('#layout-cancel');
     await dialog.waitFor({ state: 'hidden' });
-    expect(posts.length, 'Cancel sends nothing').toBe(previews);
+    expect(posts.length, 'Cancel sends nothing more').toBe(previews);
     expect(await revisionsOf(page, baseUrl, demoLine.id)).toBe(1);
+    expect(await page.textContent('#status')).toBe('Nothing stored.');
 
     // Asked again, the user stores Demo B as a line of its own.
     await page.click('#revise-button');
@@ -110,10 +117,10 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     expect(await page.textContent('#line-title')).toBe(flat.name);
     const lines = await listed(page, baseUrl);
     expect(lines.map((l) => l.name).sort()).toEqual([demo.name, flat.name].sort());
-    // Demo A is untouched: one revision, its own layout.
+    // Demo A is untouched: one revision, its own layout; the only revision request was the refused one.
     expect(await revisionsOf(page, baseUrl, demoLine.id)).toBe(1);
-    expect(posts.some((r) => r.url().includes('/revisions'))).toBe(false);
-    expectNoTrouble(trouble);
+    expect(posts.filter((r) => r.url().includes('/revisions')).map((r) => new URL(r.url()).search)).toEqual(['', '']);
+    expectNoTrouble(trouble, [/status of 409/]);
     await context.close();
   });
 
@@ -134,11 +141,11 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     expect(response.status()).toBe(201);
     await expect.poll(() => page.textContent('#revision-text'), POLL).toBe(`revision ${before + 1} of ${before + 1}`);
     expect(await revisionsOf(page, baseUrl, demoLine.id)).toBe(before + 1);
-    expectNoTrouble(trouble);
+    expectNoTrouble(trouble, [/status of 409/]);
     await context.close();
   });
 
-  it('asks with the service\'s words when the service answers 409 to a layout the page took for the same', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+  it('shows whatever the service says changed, and never a text of its own', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { context, page, trouble } = await openArcline(launched, baseUrl);
     const demoLine = { id: demoId };
     await page.click(`#stored-list button[data-line-id="${demoLine.id}"]`);
@@ -146,27 +153,29 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     const latest = await revisionsOf(page, baseUrl, demoLine.id);
     const stored = (await (await page.request.get(new URL(`api/v1/surveys/${demoLine.id}`, baseUrl).href)).json()) as { survey: Survey };
 
-    // The latest revision with one pick moved: the same layout, so the page itself does not ask.
+    // The latest revision with one pick moved: the same layout, which the service would take.
     const corrected = structuredClone(stored.survey);
     corrected.shots[0].times[4] = Math.round(((corrected.shots[0].times[4] as number) + 1.5) * 10) / 10;
     await page.fill('#survey-text', JSON.stringify(corrected, null, 2));
     await page.click('#interpret-button');
     await page.locator('#revise-button').waitFor({ state: 'visible' });
 
-    // The service's answer is played by the test, as api-v1.md fixes it: 409 without the confirmation.
-    const message = 'This body has another geophone layout than the stored line (elevations differ).';
+    // The service's answer is played by the test, in the contract's shape: 409 with a description
+    // no page code could have composed. The page must show exactly that sentence.
+    const description = 'Test wording 7f3a: the service alone says what changes.';
     const seen: string[] = [];
     await page.route(`**/api/v1/surveys/${demoLine.id}/revisions*`, async (route) => {
       seen.push(new URL(route.request().url()).search);
       if (!route.request().url().includes(LAYOUT_CHANGE_CONFIRMATION)) {
-        await route.fulfill({ status: 409, contentType: 'application/json', body: JSON.stringify({ error: { code: 'layout_changed', message, path: '/geophones' } }) });
+        const error = { code: 'layout_changed', message: `${description} Nothing was stored.`, path: '/geophones', layoutChange: { description } };
+        await route.fulfill({ status: 409, contentType: 'application/json', body: JSON.stringify({ error }) });
       } else {
         await route.continue();
       }
     });
     await page.click('#revise-button');
     await page.locator('#layout-dialog').waitFor({ state: 'visible' });
-    expect(await page.textContent('#layout-dialog-change')).toBe(message);
+    expect(await page.textContent('#layout-dialog-change')).toBe(description);
     await page.click('#layout-confirm');
     await expect.poll(() => page.textContent('#revision-text'), POLL).toBe(`revision ${latest + 1} of ${latest + 1}`);
     expect(seen).toEqual(['', `?${LAYOUT_CHANGE_CONFIRMATION}`]);

@@ -122,7 +122,7 @@ describe('interpret: coverage', () => {
     expect(gaps.length).toBeGreaterThanOrEqual(2);
     const west = gaps.find((w) => w.message.includes('W-end'))!;
     expect(west.message).toMatch(/only direct arrivals from W-end and no off-end shot on that side to phantom from/);
-    expect(west.message).toMatch(/x = 0–\d+ m/);
+    expect(west.message).toMatch(/x = 0\.0–\d+\.\d m/);
     expect(west.x).toBe(0);
     // The uncovered stations are null (never NaN); the covered middle has depths.
     const first = result.stations[0];

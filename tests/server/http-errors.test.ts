@@ -201,6 +201,23 @@ describe('the static page at /', () => {
   });
 });
 
+describe('the display rules served to the page', () => {
+  it('serves engine/output/display-precision.js, the one copy, where the page\'s relative import resolves', async () => {
+    // web/describe.js imports '../engine/output/display-precision.js': from /describe.js a
+    // browser resolves that to /engine/output/display-precision.js (WHATWG URL: ".." stops at the root).
+    const imported = /from '(\.\.\/engine\/output\/display-precision\.js)'/.exec(readFileSync(new URL('../../web/describe.js', import.meta.url), 'utf8'));
+    expect(imported).not.toBeNull();
+    const path = new URL(imported![1], 'http://service/describe.js').pathname;
+    expect(path).toBe('/engine/output/display-precision.js');
+    const res = await request(app.server).get(path);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/^text\/javascript/);
+    expect(res.text).toBe(readFileSync(new URL('../../engine/output/display-precision.js', import.meta.url), 'utf8'));
+    // Nothing else of the engine is served.
+    expect((await request(app.server).get('/engine/output/interpretation.ts')).status).toBe(404);
+  });
+});
+
 describe('errors Fastify meets before or around the route', () => {
   it('answers a badly percent-encoded URL with a coded 400 and the security headers', async () => {
     for (const path of ['/api/v1/surveys/%E0%A4%A', '/share/%zz']) {

@@ -22,6 +22,7 @@ const flatJsonText = readFileSync(new URL('../../samples/flat-line.json', import
 interface Bundle {
   interpretation: { stations: unknown[]; qc: { residuals?: unknown } };
   sectionSvg: string;
+  sectionSheets: string[];
   travelTimesSvg: string;
 }
 
@@ -63,7 +64,9 @@ describe('POST /api/v1/previews', () => {
     expect(res.headers['content-type']).toMatch(/^application\/json/);
     expect(res.headers['cache-control']).toBe('no-store');
     const bundle = res.body as Bundle;
-    expect(Object.keys(bundle).sort()).toEqual(['interpretation', 'sectionSvg', 'travelTimesSvg']);
+    expect(Object.keys(bundle).sort()).toEqual(['interpretation', 'sectionSheets', 'sectionSvg', 'travelTimesSvg']);
+    // Demo A fits one sheet: the sheets are that one drawing.
+    expect(bundle.sectionSheets).toEqual([bundle.sectionSvg]);
     // The forward check ran in that one interpretation (the page shows its RMS).
     expect(bundle.interpretation.qc.residuals).toBeDefined();
 

@@ -49,9 +49,14 @@ describe('revisions of another geophone layout', () => {
     expect(change.largestShiftM).toBe(23);
     expect(change.confirmWith).toBe('layoutChange=confirm');
     expect(res.body.error.message).toContain(`"${demoA().name}"`);
-    expect(res.body.error.message).toContain('23 of its 24 geophones');
+    expect(change.description).toBe(
+      'The new revision has 24 geophones from x = 0 m to 46 m, every 2 m; revision 1 of the stored line has 24 geophones from x = 0 m to 69 m, every 3 m: ' +
+        '23 of the 24 geophones are at other positions: geophone 2 at x = 2 m (stored: 3 m), and the largest move is 23 m.',
+    );
+    // One text: the message quotes the description word for word (the page shows the description).
+    expect(res.body.error.message.startsWith(change.description)).toBe(true);
     expect(res.body.error.message).toContain('?layoutChange=confirm');
-    expect(res.body.error.message).toContain('Nothing was stored');
+    expect(res.body.error.message).toContain('nothing was stored');
 
     expect(app.store.countRows()).toEqual(before);
     const detail = await request(app.server).get(`/api/v1/surveys/${id}`);
@@ -71,7 +76,8 @@ describe('revisions of another geophone layout', () => {
     expect(change.stored.geophones).toBe(24);
     expect(change.sent).toEqual({ geophones: 25, fromX: 0, toX: 72 });
     expect(change.movedGeophones).toBeNull();
-    expect(res.body.error.message).toContain('it has 25 geophones from x = 0 m to 72 m; the stored line has 24 geophones from x = 0 m to 69 m');
+    expect(change.description).toBe('The new revision has 25 geophones from x = 0 m to 72 m, every 3 m; revision 1 of the stored line has 24 geophones from x = 0 m to 69 m, every 3 m.');
+    expect(res.body.error.message).toContain(change.description);
   });
 
   it('says when the whole spread is moved by one distance', async () => {
@@ -135,14 +141,11 @@ describe('layoutChange (pure)', () => {
     expect(change?.movedGeophones).toBe(1);
     expect(change?.firstMoved).toEqual({ geophone: 2, storedX: 2, sentX: 2.5 });
     expect(change?.largestShiftM).toBe(0.5);
-    expect(change?.description).toContain('1 of its 3 geophones');
-  });
-});
-
-describe('the page and the service agree on what is the same position', () => {
-  it('web/layout-change.js uses the service\'s tolerance', async () => {
-    const { SAME_POSITION_M } = await import('../../web/layout-change.js');
-    const { SAME_POSITION_TOLERANCE_M } = await import('../../server/revision-layout.js');
-    expect(SAME_POSITION_M).toBe(SAME_POSITION_TOLERANCE_M);
+    expect(change?.description).toBe(
+      'The new revision has 3 geophones from x = 0 m to 4 m, irregularly spaced; revision 1 of the stored line has 3 geophones from x = 0 m to 4 m, every 2 m: ' +
+        'one of the 3 geophones is at another position: geophone 2 at x = 2.5 m (stored: 2 m).',
+    );
+    // A move of a few millimetres is written to the millimetre, not rounded away.
+    expect(layoutChange(stored, [{ x: 0 }, { x: 2.004 }, { x: 4 }])?.description).toContain('geophone 2 at x = 2.004 m (stored: 2 m)');
   });
 });

@@ -139,6 +139,7 @@ describe('GET /api/v1/openapi.json', () => {
   const added: [string, string][] = [
     ['get', '/healthz'],
     ['get', '/api/v1/surveys/{id}/interpretation.json'],
+    ['get', '/api/v1/surveys/{id}/section-sheets.json'],
     ['post', '/api/v1/surveys/{id}/share'],
     ['delete', '/api/v1/surveys/{id}/share'],
     ['post', '/api/v1/previews'],

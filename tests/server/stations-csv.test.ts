@@ -6,7 +6,7 @@ import { csvCell, downloadName, stationsCsv } from '../../server/stations-csv.js
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
-import { DISPLAY_PRECISION } from '../../web/display-precision.js';
+import { DISPLAY_PRECISION } from '../../engine/output/display-precision.js';
 
 function parseRows(csv: string): string[][] {
   expect(csv.endsWith('\r\n')).toBe(true);

@@ -145,7 +145,7 @@ describe('stored surveys', () => {
       expect(Number(cells[0])).toBeCloseTo(survey.geophones[i].x, 3);
       const depth = detail.body.interpretation.stations[i].depth;
       if (depth === null) expect(cells[depthColumn]).toBe('');
-      // The page's shown precision (web/display-precision.js): 0.1 m, so within half of it.
+      // The page's shown precision (engine/output/display-precision.js): 0.1 m, so within half of it.
       else expect(Math.abs(Number(cells[depthColumn]) - depth)).toBeLessThanOrEqual(0.05 + 1e-9);
     });
   });

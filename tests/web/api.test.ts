@@ -1,7 +1,7 @@
 // The page's request building and answer reading (web/api.js): everything but fetch itself.
 import { describe, expect, it } from 'vitest';
 import {
-  contentTypeOf, failureFromBody, lineFileUrls, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
+  contentTypeOf, failureFromBody, lineFileUrls, sectionSheetUrl, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
 } from '../../web/api.js';
 
 describe('request building', () => {
@@ -27,6 +27,7 @@ describe('request building', () => {
   it('builds relative file URLs with the id encoded', () => {
     expect(lineFileUrls('a/b c')).toEqual({
       section: 'api/v1/surveys/a%2Fb%20c/section.svg',
+      sectionSheets: 'api/v1/surveys/a%2Fb%20c/section-sheets.json',
       travelTimes: 'api/v1/surveys/a%2Fb%20c/traveltimes.svg',
       stations: 'api/v1/surveys/a%2Fb%20c/stations.csv',
       interpretation: 'api/v1/surveys/a%2Fb%20c/interpretation.json',
@@ -37,6 +38,13 @@ describe('request building', () => {
     });
     expect(lineFileUrls('id', 2).sectionPdf).toBe('api/v1/surveys/id/section.pdf?revision=2');
     expect(lineFileUrls('id', 2).section).toBe('api/v1/surveys/id/section.svg?revision=2');
+    expect(lineFileUrls('id', 2).sectionSheets).toBe('api/v1/surveys/id/section-sheets.json?revision=2');
+  });
+
+  it('names sheet k of a section after any revision, and the first sheet by the section\'s own URL', () => {
+    expect(sectionSheetUrl('api/v1/surveys/id/section.svg', 1)).toBe('api/v1/surveys/id/section.svg');
+    expect(sectionSheetUrl('api/v1/surveys/id/section.svg', 3)).toBe('api/v1/surveys/id/section.svg?sheet=3');
+    expect(sectionSheetUrl('api/v1/surveys/id/section.svg?revision=2', 2)).toBe('api/v1/surveys/id/section.svg?revision=2&sheet=2');
   });
 });
 
@@ -67,8 +75,10 @@ describe('reading answers', () => {
   });
 
   it('accepts a preview answer only with an interpretation and both drawings as text', () => {
-    const good = { interpretation: { stations: [] }, sectionSvg: '<svg/>', travelTimesSvg: '<svg/>' };
-    expect(readPreviewBundle(good)).toBe(good);
+    const good = { interpretation: { stations: [] }, sectionSvg: '<svg/>', sectionSheets: ['<svg/>', '<svg id="2"/>'], travelTimesSvg: '<svg/>' };
+    expect(readPreviewBundle(good)).toEqual(good);
+    // Without the sheets (an older service) the section it sent is the one sheet.
+    expect(readPreviewBundle({ ...good, sectionSheets: undefined })?.sectionSheets).toEqual(['<svg/>']);
     expect(readPreviewBundle({ ...good, sectionSvg: undefined })).toBeNull();
     expect(readPreviewBundle({ ...good, interpretation: { stations: 'no' } })).toBeNull();
     expect(readPreviewBundle(null)).toBeNull();

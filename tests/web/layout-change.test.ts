@@ -1,57 +1,44 @@
-// The page asks before storing another geophone layout as a revision of a stored line: what
-// it says must name the change (count, extent, spacing, moved geophones), and the same layout
-// must pass silently. The confirmation it sends is the one named in api.js.
+// The question the page asks before storing another geophone layout as a revision shows the
+// service's own words for the change (server/revision-layout.ts, layoutChange().description):
+// one text from one place, so the page never says something other than the 409 it got.
+// The confirmation it sends afterwards is the one api-v1.md lets the service name.
 import { describe, expect, it } from 'vitest';
-import { layoutChange, layoutWords } from '../../web/layout-change.js';
-import { LAYOUT_CHANGE_CONFIRMATION, LAYOUT_CHANGED_STATUS, revisionsPath } from '../../web/api.js';
+import { failureFromBody, LAYOUT_CHANGE_CONFIRMATION, LAYOUT_CHANGED_STATUS, revisionsPath } from '../../web/api.js';
+import { AppError } from '../../server/errors.js';
+import { LAYOUT_CHANGE_CONFIRM, LAYOUT_CHANGE_PARAMETER, layoutChange, layoutChangeMessage } from '../../server/revision-layout.js';
 
-const spread = (count: number, spacingM: number, startM = 0) => Array.from({ length: count }, (_, i) => startM + i * spacingM);
+const spread = (count: number, spacingM: number) => Array.from({ length: count }, (_, i) => ({ x: i * spacingM }));
 
-describe('layoutWords', () => {
-  it('names count, extent and a regular spacing', () => {
-    expect(layoutWords(spread(24, 3))).toBe('24 geophones from 0.0 to 69.0 m, every 3.0 m');
-    expect(layoutWords([0, 2, 5, 9])).toBe('4 geophones from 0.0 to 9.0 m, irregularly spaced');
-    expect(layoutWords([12])).toBe('1 geophone at 12.0 m');
-    expect(layoutWords([])).toBe('no geophones');
-  });
-});
+/** The 409 body exactly as the service writes it for this change (errors.ts, AppError.toBody). */
+function conflictBody(stored: { x: number }[], sent: { x: number }[]) {
+  const change = layoutChange({ revision: 1, name: 'Demo A', geophones: stored }, sent)!;
+  return { change, body: JSON.parse(JSON.stringify(new AppError('layout_changed', { message: layoutChangeMessage(change), path: '/geophones', layoutChange: change }).toBody())) };
+}
 
-describe('layoutChange', () => {
-  it('is silent for the same layout, also within the service\'s 1 mm tolerance, and speaks past it as the service does', () => {
-    expect(layoutChange(spread(24, 3), spread(24, 3))).toBeNull();
-    expect(layoutChange(spread(24, 3), spread(24, 3).map((x) => x + 0.0009))).toBeNull();
-    expect(layoutChange(spread(24, 3), spread(24, 3).map((x) => x + 0.004))).not.toBeNull();
-  });
-
-  it('names both layouts when the geophone count differs', () => {
-    expect(layoutChange(spread(24, 3), spread(48, 2))).toBe(
-      'The stored line has 24 geophones from 0.0 to 69.0 m, every 3.0 m; this file has 48 geophones from 0.0 to 94.0 m, every 2.0 m.',
-    );
+describe('what the page reads from a 409 layout_changed', () => {
+  it('is the service\'s description of the change, word for word', () => {
+    const { change, body } = conflictBody(spread(24, 3), spread(24, 2));
+    const failure = failureFromBody(LAYOUT_CHANGED_STATUS, body);
+    expect(failure.code).toBe('layout_changed');
+    expect(failure.layoutChange).toBe(change.description);
+    expect(failure.layoutChange).toContain('every 2 m');
+    // The service's message starts with the same sentence; the page shows only the sentence,
+    // not the instructions for scripts (POST …, ?layoutChange=confirm).
+    expect(failure.message.startsWith(change.description)).toBe(true);
+    expect(failure.layoutChange).not.toContain('POST');
   });
 
-  it('names the moved geophones with their surveyed positions when count and extent are the same', () => {
-    const moved = spread(24, 3);
-    moved[4] = 12.5;
-    expect(layoutChange(spread(24, 3), moved)).toBe('Both have 24 geophones from 0.0 to 69.0 m, but one geophone has moved: geophone 5 from 12 to 12.5 m.');
-    const several = spread(24, 3);
-    for (const i of [2, 5, 8, 11]) several[i] += 0.25;
-    expect(layoutChange(spread(24, 3), several)).toBe(
-      'Both have 24 geophones from 0.0 to 69.0 m, but 4 geophones have moved: geophone 3 from 6 to 6.25 m, geophone 6 from 15 to 15.25 m, geophone 9 from 24 to 24.25 m and 1 more.',
-    );
-  });
-
-  it('names both layouts when the extent differs', () => {
-    expect(layoutChange(spread(24, 3), spread(24, 2))).toBe(
-      'The stored line has 24 geophones from 0.0 to 69.0 m, every 3.0 m; this file has 24 geophones from 0.0 to 46.0 m, every 2.0 m: 23 of the 24 geophones are at other positions.',
-    );
+  it('is absent for other failures, so the page falls back to the message', () => {
+    expect(failureFromBody(400, { error: { code: 'invalid_survey', message: 'Bad.', path: '' } }).layoutChange).toBeUndefined();
+    expect(failureFromBody(409, { error: { code: 'layout_changed', message: 'Another layout.', path: '/geophones' } }).layoutChange).toBeUndefined();
   });
 });
 
 describe('the confirmation sent to the service', () => {
-  it('is added to the revisions path only when the user agreed', () => {
+  it('is added to the revisions path only when the user agreed, and is the service\'s own parameter', () => {
     expect(revisionsPath('A b')).toBe('api/v1/surveys/A%20b/revisions');
     expect(revisionsPath('A b', true)).toBe(`api/v1/surveys/A%20b/revisions?${LAYOUT_CHANGE_CONFIRMATION}`);
-    expect(LAYOUT_CHANGE_CONFIRMATION).toBe('layoutChange=confirm');
+    expect(LAYOUT_CHANGE_CONFIRMATION).toBe(`${LAYOUT_CHANGE_PARAMETER}=${LAYOUT_CHANGE_CONFIRM}`);
     // api-v1.md: a revision with another geophone layout is refused with 409.
     expect(LAYOUT_CHANGED_STATUS).toBe(409);
   });

@@ -1,8 +1,8 @@
 // One set of numbers: the drawings, the page, the share page and stations.csv show the same
-// values with the same decimals, because all of them format through web/display-precision.js
+// values with the same decimals, because all of them format through engine/output/display-precision.js
 // (0.1 m, 0.1 ms, 0.1°, velocities to 10 m/s: the precision a refraction velocity is quoted
 // to, common practice). Checked on the rendered SVGs and pages, not on the helpers alone.
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
@@ -12,7 +12,7 @@ import { CAUTIONS } from '../../engine/index.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { metres, milliseconds, refractorDepthRanges, velocity } from '../../web/describe.js';
-import { DISPLAY_PRECISION } from '../../web/display-precision.js';
+import { DISPLAY_PRECISION } from '../../engine/output/display-precision.js';
 import { cellData, cellText, stationColumns } from '../../web/station-columns.js';
 import { hiddenLayerNote, otherWarnings } from '../../web/hidden-layer-note.js';
 import { readableSurveyDate, readableTime, renderSharePage } from '../../server/share-page.js';
@@ -31,7 +31,7 @@ function svgTexts(svg: string): string[] {
 function sharePage(s: Survey, interpretation: Interpretation, section = '<svg></svg>', plot = '<svg></svg>'): string {
   return renderSharePage({
     survey: s, interpretation, name: 'Check', revision: 1, storedAt: '2026-12-05T05:07:09.000Z', timeZone: 'UTC',
-    sectionSvg: section, travelTimesSvg: plot, cautions: CAUTIONS, stationsCsvUrl: 'stations.csv',
+    sectionSheets: [section], travelTimesSvg: plot, cautions: CAUTIONS, stationsCsvUrl: 'stations.csv',
   });
 }
 
@@ -101,6 +101,50 @@ describe('the drawings and the tables format alike', () => {
       expect(page).toContain(`<td>${cellText(depth, s)}</td>`);
       expect(cellText(depth, s)).toMatch(/^\d+\.\d$/);
       expect(cellData(depth, s)).toBe(cellText(depth, s));
+    }
+  });
+});
+
+describe('the warnings speak with the same numbers', () => {
+  /** Every "N m/s" of a text, as written (e.g. "2,800"). */
+  const velocitiesIn = (text: string): string[] => [...text.matchAll(/(\d[\d,]*) m\/s/g)].map((m) => m[1]);
+
+  it('quote the demo line\'s layer velocities as the section and the table do (700 / 2,800 m/s, not 698 / 2801)', () => {
+    const hidden = demo.qc.warnings.find((w) => w.code === 'hidden-layer')!;
+    expect(hidden.message).toContain(`between ${velocity(demo.layers[0].velocity)} and ${velocity(demo.layers[1].velocity)} m/s`);
+    // The raw numbers differ from the shown ones, so the check above could fail.
+    expect(String(demo.layers[0].velocity)).not.toBe(velocity(demo.layers[0].velocity));
+    expect(hidden.message).not.toContain(`${demo.layers[1].velocity} m/s`);
+  });
+
+  it('never print a velocity finer than 10 m/s or a length or time finer than 0.1, on any recorded line', () => {
+    const folder = new URL('../golden/lines/', import.meta.url);
+    let velocities = 0;
+    for (const file of readdirSync(folder).filter((f) => f.endsWith('.json'))) {
+      const line = JSON.parse(readFileSync(new URL(file, folder), 'utf8')) as { interpretation?: Interpretation };
+      for (const w of line.interpretation?.qc?.warnings ?? []) {
+        for (const v of velocitiesIn(w.message)) {
+          velocities += 1;
+          const n = Number(v.replace(/,/g, ''));
+          expect(n % DISPLAY_PRECISION.velocityStepMPerS, `${file}: ${w.message}`).toBe(0);
+          expect(v, `${file}: ${w.message}`).toBe(velocity(n));
+        }
+        // A length or time with two or more decimals ("4.40 ms", "46.45 m") is finer than the page shows.
+        expect(w.message, file).not.toMatch(/\d\.\d{2,} (m|ms)\b/);
+      }
+    }
+    expect(velocities).toBeGreaterThan(10);
+  });
+});
+
+describe('the engine depends on nothing of the page', () => {
+  it('imports nothing from web/ or server/ anywhere under engine/ (DESIGN.md: the engine never imports from server/ or web/)', () => {
+    const root = new URL('../../engine/', import.meta.url);
+    const files = (readdirSync(root, { recursive: true }) as string[]).filter((f) => /\.(ts|js)$/.test(f));
+    expect(files.length).toBeGreaterThan(50);
+    for (const file of files) {
+      const source = readFileSync(new URL(file, root), 'utf8');
+      expect(source, file).not.toMatch(/from\s+['"][^'"]*\/(web|server)\//);
     }
   });
 });

@@ -6,7 +6,7 @@ import {
   cellData, cellText, columnHeading, DECLARED_STATION_FIELDS, stationColumns, UNIT_DECIMALS,
 } from '../../web/station-columns.js';
 import { interpret } from '../../engine/pipeline/interpret.js';
-import { DISPLAY_PRECISION } from '../../web/display-precision.js';
+import { DISPLAY_PRECISION } from '../../engine/output/display-precision.js';
 import { validateSurvey } from '../../engine/survey/validate.js';
 import type { Interpretation, Station } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
@@ -30,7 +30,7 @@ const THREE_REFRACTORS = [
 
 function sharePageTable(interpretation: Interpretation): { head: string[]; rows: string[][] } {
   const html = renderSharePage({
-    survey, interpretation, name: 'Check', revision: 1, storedAt: '2024-01-01', sectionSvg: '<svg></svg>',
+    survey, interpretation, name: 'Check', revision: 1, storedAt: '2024-01-01', sectionSheets: ['<svg></svg>'],
     travelTimesSvg: '<svg></svg>', cautions: [], stationsCsvUrl: 'stations.csv',
   });
   const table = /<table>([\s\S]*?)<\/table>/.exec(html)![1];

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { renderSection } from '../../../engine/render/index.js';
+import { renderSection, renderTravelTimes } from '../../../engine/render/index.js';
+import { surveyDateText } from '../../../engine/render/describe.js';
+import { readableSurveyDate } from '../../../server/share-page.js';
 import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
 import { CAUTIONS } from '../../../engine/qc/cautions.js';
 import { interpret } from '../../../engine/pipeline/interpret.js';
@@ -170,6 +172,18 @@ describe('renderSection', () => {
     expect(layerLabels.some((l) => l.startsWith('layer 2: 2,450 m/s'))).toBe(true);
     const segments = byRole(root, 'velocity-segment');
     expect(segments.map(textOf)).toEqual(['2,200 m/s', '3,900 m/s']);
+    // Each bar is broken where its label sits, so no line shows between the label's glyphs
+    // (common drafting practice): no horizontal piece of the bar passes under the label's middle.
+    for (const segment of segments) {
+      const label = segment.querySelector('text')!;
+      const cx = Number(label.getAttribute('x'));
+      const pieces = Array.from(segment.querySelectorAll('line')).filter((l) => l.getAttribute('y1') === l.getAttribute('y2'));
+      expect(pieces.length).toBe(2);
+      for (const piece of pieces) {
+        const [a, b] = [Number(piece.getAttribute('x1')), Number(piece.getAttribute('x2'))].sort((p, q) => p - q);
+        expect(a > cx || b < cx, textOf(segment)).toBe(true);
+      }
+    }
     expect(byRole(root, 'velocity-change')).toHaveLength(1);
     expect(textOf(byRole(root, 'velocity-change')[0])).toBe('2,200 m/s → 3,900 m/s');
     expect(textOf(byRole(root, 'dip')[0])).toBe('refractor dip 4.2°, deepening to +x');
@@ -237,6 +251,20 @@ describe('renderSection', () => {
     expect(textOf(byRole(root, 'title')[0])).toBe(survey.name);
     expect(textOf(byRole(root, 'date')[0])).toBe('14 March 2025, crew B');
     expect(textOf(byRole(root, 'subtitle')[0])).toBe('Depth section · plus-minus method · 24 geophones · 5 shots');
+  });
+
+  it('writes a bare ISO date in words on both drawings, as the share page does, and leaves other text as it is', () => {
+    const { survey, interpretation } = renderFixture({ date: '2026-11-20' });
+    for (const svg of [renderSection(survey, interpretation), renderTravelTimes(survey, interpretation)]) {
+      expect(textOf(byRole(parseSvg(svg), 'date')[0])).toBe('shot on 20 November 2026');
+    }
+    expect(readableSurveyDate('2026-11-20')).toBe('shot on 20 November 2026');
+    // Calendar checks (Gregorian leap years): 2024 is one, 1900 is not, 2000 is.
+    expect(surveyDateText('2024-02-29')).toBe('shot on 29 February 2024');
+    expect(surveyDateText('1900-02-29')).toBe('1900-02-29');
+    expect(surveyDateText('2000-02-29')).toBe('shot on 29 February 2000');
+    expect(surveyDateText('2026-13-01')).toBe('2026-13-01');
+    expect(surveyDateText('20 Nov 2026, crew B')).toBe('20 Nov 2026, crew B');
   });
 
   it('flags a failed reciprocal check in the title block', () => {

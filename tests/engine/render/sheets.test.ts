@@ -5,7 +5,7 @@
  * Kearey, Brooks & Hill 2002, ch. 5) interpreted by the engine.
  */
 import { describe, expect, it } from 'vitest';
-import { renderSection, renderSectionSheets, sectionSheetOptionProblems, SectionSheetError, SHEET_LIMITS } from '../../../engine/render/index.js';
+import { renderSection, renderSectionSheet, renderSectionSheets, sectionSheetCount, sectionSheetOptionProblems, SectionSheetError, SHEET_LIMITS } from '../../../engine/render/index.js';
 import { interpret } from '../../../engine/pipeline/interpret.js';
 import { longLine } from '../../helpers/long-lines.js';
 import { axisMap, byRole, parseSvg, renderFixture } from '../../helpers/render-fixture.js';
@@ -176,6 +176,18 @@ describe('renderSectionSheets: long lines', () => {
   it('renderSection returns the first sheet', () => {
     const sheets = renderSectionSheets(LINE_480.survey, LINE_480.interpretation);
     expect(renderSection(LINE_480.survey, LINE_480.interpretation)).toBe(sheets[0]);
+  });
+
+  it('renderSectionSheet draws sheet k alone, the same as among all the sheets, and sectionSheetCount plans without drawing', () => {
+    const options = { paper: 'A3' as const, scale: 2000 };
+    const sheets = renderSectionSheets(LINE_480.survey, LINE_480.interpretation, options);
+    expect(sheets.length).toBeGreaterThan(1);
+    expect(sectionSheetCount(LINE_480.survey, LINE_480.interpretation, options)).toBe(sheets.length);
+    for (const k of [1, sheets.length]) {
+      expect(renderSectionSheet(LINE_480.survey, LINE_480.interpretation, k, options)).toEqual({ svg: sheets[k - 1], sheetCount: sheets.length });
+    }
+    expect(renderSectionSheet(LINE_480.survey, LINE_480.interpretation, sheets.length + 1, options)).toEqual({ svg: null, sheetCount: sheets.length });
+    expect(renderSectionSheet(LINE_480.survey, LINE_480.interpretation, 0, options).svg).toBeNull();
   });
 
   it(`refuses a scale that would need more than ${SHEET_LIMITS.maxSheets} sheets, naming the scale`, () => {

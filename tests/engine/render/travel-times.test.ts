@@ -8,6 +8,26 @@ function textOf(el: Element): string {
 }
 
 describe('renderTravelTimes', () => {
+  it('says every warning in words under the title, never as a bare count, and without the section\'s drawing hints (issue 11 item 1)', () => {
+    const { survey, interpretation } = renderFixture();
+    const warned = {
+      ...interpretation,
+      qc: {
+        ...interpretation.qc,
+        warnings: [
+          { code: 'hidden-layer', message: 'A layer of up to 2.0 m could be hidden above the refractor.' },
+          { code: 'no-coverage', message: 'No delay time or depth at x = 0.0–4.0 m.', x: 0 },
+        ],
+      },
+    };
+    const root = parseSvg(renderTravelTimes(survey, warned));
+    const block = textOf(byRole(root, 'title-block')[0]);
+    expect(block).toContain('Warnings: a hidden layer could lie above the refractor; no depth where no shot pair covers the line at 0 m.');
+    expect(block).not.toMatch(/\d+ warnings?\b/);
+    // The plot draws no refractor: the section's "drawn dash-dot" and "hatched" do not belong here.
+    expect(block).not.toMatch(/dash-dot|hatched/);
+  });
+
   it('draws one marker per non-null pick, per shot', () => {
     const { survey, interpretation } = renderFixture({ deadPicks: [[0, 3], [2, 11], [2, 12], [4, 23]] });
     const root = parseSvg(renderTravelTimes(survey, interpretation));

@@ -65,7 +65,7 @@ describe('layer stripping', () => {
     const w = velocityInversion(v);
     expect(w).toHaveLength(1);
     expect(w[0].code).toBe('velocity-inversion');
-    expect(w[0].message).toMatch(/Layer 3 \(1500 m\/s\) is not faster than layer 2/);
+    expect(w[0].message).toMatch(/Layer 3 \(1,500 m\/s\) is not faster than layer 2/);
     expect(velocityInversion([500, 1500, 3000])).toEqual([]);
     expect(stripLayers([5, 12], [600, 2000, 2000])).toBeNull();
   });

@@ -1,9 +1,11 @@
-// How precisely every place that shows a number shows it: the drawings (engine/render/format.ts
-// imports this file), the page, the share page and stations.csv. Declared once here, so the
-// section never says 2,800 m/s where the table says 2801.
+// How precisely every place that shows a number shows it: the drawings (engine/render/format.ts),
+// the warning texts (engine/qc/wording.ts), the page, the share page and stations.csv. Declared
+// once here, so the section never says 2,800 m/s where the table or a warning says 2801.
 //
-// Plain ES with JSDoc types, no DOM and nothing from node: the browser loads it as it is, and
-// the server and the renderer import it.
+// It lives in the engine (the engine must not import web/) as plain ES with JSDoc types, no
+// DOM and nothing from node: the service serves this very file to the page at
+// /engine/output/display-precision.js (server/display-rules-route.ts), where the page's modules
+// import it by the same relative path as on disk ('../engine/output/display-precision.js').
 //
 // The interpretation JSON keeps the engine's finer output rounding (OUTPUT_DECIMALS: 0.01 m,
 // 0.01 ms, 1 m/s) for anyone computing further; what people read, and the station table file,
