@@ -325,7 +325,10 @@ function drawSheet(job: SheetJob): string {
   const plotX0 = PLOT_LEFT_MM;
   const plotX1 = plotX0 + (window.toM - window.fromM) * plan.mmPerM;
   const plotY0 = layout.plotTop;
-  const plotY1 = layout.plotBottom;
+  const plotY1 = Math.min(layout.plotBottom, plotY0 + plan.plotHeightMm);
+  // What sits under the plot (station rows, scale bars, legend) moves up with its bottom;
+  // the cautions stay at the foot of the sheet.
+  const rise = layout.plotBottom - plotY1;
   const frame: SectionFrame = {
     x: linearScale([window.fromM, window.toM], [plotX0, plotX1]),
     elevation: linearScale([plan.topElevationM - (plotY1 - plotY0) / plan.verticalMmPerM, plan.topElevationM], [plotY1, plotY0]),
@@ -400,9 +403,9 @@ function drawSheet(job: SheetJob): string {
   bottomAxis(svg, frame.x, { atMm: plotY1, title: 'chainage along the line (m)', maxTicks: Math.max(2, Math.floor((plotX1 - plotX0) / 24)), role: 'x' });
   leftAxis(svg, frame.elevation, { atMm: plotX0, title: 'elevation (m)', maxTicks: Math.max(2, Math.min(9, Math.floor((plotY1 - plotY0) / 9))), role: 'y', titleXMm: page.marginMm + 2.2 });
 
-  stationRows(svg, content.rows, { frame, geophoneXs: content.geophoneXs, interval, fromM: window.fromM, toM: window.toM, lastSheet: last, captionXMm: page.marginMm, topMm: layout.rowsTop });
-  scaleBars(svg, plan, layout.scaleTop, interval);
-  legend(svg, layout.legendItems, page.marginMm, layout.legendTop + 2, page.widthMm - 2 * page.marginMm);
+  stationRows(svg, content.rows, { frame, geophoneXs: content.geophoneXs, interval, fromM: window.fromM, toM: window.toM, lastSheet: last, captionXMm: page.marginMm, topMm: layout.rowsTop - rise });
+  scaleBars(svg, plan, layout.scaleTop - rise, interval);
+  legend(svg, layout.legendItems, page.marginMm, layout.legendTop - rise + 2, page.widthMm - 2 * page.marginMm);
   cautionNote(svg, content.cautions, page.marginMm, layout.cautionTop, page.widthMm - 2 * page.marginMm);
   return canvas.serialize();
 }

@@ -52,6 +52,12 @@ export interface SheetPlan {
   verticalMmPerM: number;
   /** Elevation at the top of every sheet's plot, m (the same on every sheet, so sheets line up). */
   topElevationM: number;
+  /**
+   * Height of the plot, mm: what the section needs (headroom, highest ground to deepest line
+   * drawn, footroom), never more, so a shallow section is not drawn over a sheet of empty
+   * lower layer; the rows and legend follow it up the sheet.
+   */
+  plotHeightMm: number;
   /** Chainage shown by each sheet; consecutive sheets meet at a match line. */
   windows: SheetWindow[];
 }
@@ -171,6 +177,6 @@ export function planSheets(extent: SheetExtent, room: PlotRoom, options: Resolve
   if (problems.length > 0 || windows === null) return { problems };
   const verticalMmPerM = mmPerM * ve;
   return {
-    plan: { paper, scale: n, verticalExaggeration: ve, mmPerM, verticalMmPerM, topElevationM: extent.topM + SHEET_HEADROOM_MM / verticalMmPerM, windows },
+    plan: { paper, scale: n, verticalExaggeration: ve, mmPerM, verticalMmPerM, topElevationM: extent.topM + SHEET_HEADROOM_MM / verticalMmPerM, plotHeightMm: Math.min(room.heightMm, verticalNeedMm(extent, verticalMmPerM)), windows },
   };
 }

@@ -143,6 +143,29 @@ describe('renderSectionSheets: scale', () => {
   });
 });
 
+describe('renderSectionSheets: the frame fits the section', () => {
+  it('ends the plot just below the deepest line drawn (footroom only), not at the foot of the sheet: no sheet of empty lower layer', () => {
+    for (const [fixture, options] of [[LINE_480, { paper: 'A3' as const, scale: 2500 }], [LINE_10_SHOTS, {}], [renderFixture(), {}]] as const) {
+      const deepest = Math.min(
+        ...fixture.interpretation.stations.flatMap((st) =>
+          [st.refractorElevation, typeof st.hiddenLayerDepth === 'number' ? st.elevation - st.hiddenLayerDepth : null, ...(st.depths ?? []).map((d) => (typeof d === 'number' ? st.elevation - d : null))]
+            .filter((v): v is number => typeof v === 'number')
+            .map((v, _, all) => v - (typeof st.depthUncertainty === 'number' && v === all[0] ? st.depthUncertainty : 0)),
+        ),
+      );
+      for (const svg of renderSectionSheets(fixture.survey, fixture.interpretation, options)) {
+        const root = parseSvg(svg);
+        const y = axisMap(root, 'y-tick');
+        const frame = byRole(root, 'plot-frame')[0];
+        const bottom = y.toData(Number(frame.getAttribute('y')) + Number(frame.getAttribute('height')));
+        // Everything drawn lies inside the frame, and below it there is at most the footroom (9 mm) and a rounding.
+        expect(bottom).toBeLessThanOrEqual(deepest + 1e-6);
+        expect((deepest - bottom) * Math.abs(y.plotPerUnit)).toBeLessThan(9.5);
+      }
+    }
+  });
+});
+
 describe('renderSectionSheets: long lines', () => {
   it('pages the 480-geophone line (2,395 m) at 1:2000 over the fewest sheets the paper allows, meeting at match lines printed on both sheets', () => {
     const spanM = 479 * 5;
