@@ -62,6 +62,24 @@ export function shotOrder(survey: Survey): { id: string; index: number; rank: nu
 
 const PICK_MM = 1.7;
 /**
+ * Closest that two of a shot's full pick markers are drawn, mm. Where geophones lie closer
+ * on paper (a long line: 240 geophones at 5 m put them 1.1 mm apart and merged every shot's
+ * markers into a solid band), each shot carries its marker on every k-th pick only, and a
+ * dot of its colour and shape at the picks between (staggered from shot to shot), so every
+ * pick is still drawn and the shots are still told apart by colour and shape.
+ */
+const MARKER_PITCH_MM = 3.4;
+/** A marker pitch below this many marker sizes is too dense for a marker at every pick. */
+const DENSE_PITCH_FACTOR = 1.6;
+/** Size of the dot drawn at the picks between full markers, mm. */
+const PICK_DOT_MM = 0.6;
+
+/** Picks per full marker for a geophone spacing on paper, mm: 1 where markers do not crowd. */
+export function picksPerMarker(spacingMm: number): number {
+  if (!(spacingMm > 0) || spacingMm >= DENSE_PITCH_FACTOR * PICK_MM) return 1;
+  return Math.ceil(MARKER_PITCH_MM / spacingMm);
+}
+/**
  * A velocity or passing-check label may cover at most this fraction of its box with picks
  * and brackets; on a dense plot (40 shots) it is left out rather than hide the picks it
  * names. Our choice, from the rendered 10- and 40-shot lines. A failed check's label has
@@ -119,7 +137,9 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
   // Layout.
   const contentWidth = PAGE.widthMm - 2 * PAGE.marginMm;
   const cautions = interpretation.cautions && interpretation.cautions.length > 0 ? interpretation.cautions : CAUTIONS;
-  const legendItems = travelTimeLegend(survey, interpretation, analyses, showModelled);
+  const paperSpacingMm = (medianGap(survey.geophones.map((g) => g.x)) * (PAGE.widthMm - PAGE.marginMm - PLOT_LEFT_MM)) / (xMax - xMin + 2 * xPad);
+  const every = picksPerMarker(paperSpacingMm);
+  const legendItems = travelTimeLegend(survey, interpretation, analyses, showModelled, every);
   const cautionTop = PAGE.heightMm - PAGE.marginMm + 1 - cautionNoteHeightMm(cautions, contentWidth);
   const legendTop = cautionTop - 2 - legendHeightMm(legendItems, contentWidth);
   const plotBottom = legendTop - 11;
@@ -182,9 +202,12 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
     if (a && showModelled && a.modelledMs) modelledLines(modelledLayer, shot.id, a.modelledMs, geophoneX, plot, style);
     if (a?.phantom) phantomArrivals(phantomLayer, shot.id, a.phantom.times, geophoneX, plot, style, a.phantom.fromShot);
     const picks = pickLayer.group().attr({ 'data-role': 'shot-picks', 'data-shot': shot.id });
+    const rank = rankOf.get(index) ?? index;
     shot.times.forEach((time, i) => {
       if (time === null || !Number.isFinite(time) || i >= geophoneX.length) return;
-      marker(picks, style.shape, plot.x(geophoneX[i]), plot.t(time), PICK_MM, { colour: style.colour, strokeMm: 0.2 }).attr({
+      const full = every === 1 || (i + rank) % every === 0;
+      marker(picks, style.shape, plot.x(geophoneX[i]), plot.t(time), full ? PICK_MM : PICK_DOT_MM, { colour: style.colour, strokeMm: full ? 0.2 : 0.15 }).attr({
+        'data-mark': full ? 'marker' : 'dot',
         'data-role': 'pick',
         'data-shot': shot.id,
         'data-shape': style.shape,
@@ -452,7 +475,7 @@ function reciprocalSummary(interpretation: Interpretation, survey: Survey): { te
   return [{ text: `reciprocal times: ${checks.length} ${checks.length === 1 ? 'pair' : 'pairs'}, ${within}`, role: 'reciprocal-summary' }];
 }
 
-function travelTimeLegend(survey: Survey, interpretation: Interpretation, analyses: Map<string, ShotAnalysis>, showModelled: boolean): LegendItem[] {
+function travelTimeLegend(survey: Survey, interpretation: Interpretation, analyses: Map<string, ShotAnalysis>, showModelled: boolean, every: number): LegendItem[] {
   // In order along the line, each shot's own colour and shape on a stroke of its colour.
   const items: LegendItem[] = shotOrder(survey).map(({ id, rank }) => {
     const style = shotStyle(rank);
@@ -467,7 +490,7 @@ function travelTimeLegend(survey: Survey, interpretation: Interpretation, analys
   const grey = INK.muted;
   const all = [...analyses.values()];
   items.push({
-    label: 'picks and fitted branch, apparent velocity',
+    label: every === 1 ? 'picks and fitted branch, apparent velocity' : `picks (marker at every ${ordinal(every)}, dots between), fitted branch, velocity`,
     glyph: (g, cx, cy) => {
       g.line(round3(cx - 2.8), round3(cy + 0.8), round3(cx + 2.8), round3(cy - 0.8)).attr({ stroke: grey, 'stroke-width': 0.45 });
       marker(g, 'circle', cx, cy, PICK_MM, { colour: grey });
@@ -499,4 +522,18 @@ function travelTimeLegend(survey: Survey, interpretation: Interpretation, analys
     });
   }
   return items;
+}
+
+/** Median gap between sorted positions, m (0 with fewer than two). O(n log n). */
+function medianGap(xs: number[]): number {
+  const sorted = [...xs].sort((a, b) => a - b);
+  const gaps = sorted.slice(1).map((x, i) => x - sorted[i]).filter((g) => g > 0).sort((a, b) => a - b);
+  return gaps.length > 0 ? gaps[gaps.length >> 1] : 0;
+}
+
+/** 2 → "2nd", 3 → "3rd", 4 → "4th", 11 → "11th". */
+function ordinal(k: number): string {
+  const tens = k % 100;
+  const suffix = tens >= 11 && tens <= 13 ? 'th' : k % 10 === 1 ? 'st' : k % 10 === 2 ? 'nd' : k % 10 === 3 ? 'rd' : 'th';
+  return `${k}${suffix}`;
 }

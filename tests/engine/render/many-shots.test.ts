@@ -13,7 +13,7 @@ import { describe, expect, it } from 'vitest';
 import { interpret } from '../../../engine/pipeline/interpret.js';
 import { renderTravelTimes, DISTINCT_SHOT_STYLES } from '../../../engine/render/travel-times.js';
 import { SURVEY_LIMITS, type Survey } from '../../../engine/index.js';
-import { byRole, parseSvg } from '../../helpers/render-fixture.js';
+import { axisMap, byRole, parseSvg } from '../../helpers/render-fixture.js';
 import { fortyShotLine, tenShotLine } from '../../helpers/many-shot-lines.js';
 
 interface Box {
@@ -158,5 +158,37 @@ describe('time–distance plot with many shots', () => {
     // Failed labels are placed first; on this line every one finds room.
     expect(failedLabels).toHaveLength(failed.length);
     expect(overlappingLabels(plotLabels(root))).toEqual([]);
+  });
+});
+
+describe('time–distance plot of a long line (240 geophones at 5 m, 12 shots)', () => {
+  it("draws every pick, but a shot's full markers no closer than 3.4 mm on paper, the picks between as dots of the same colour and shape", async () => {
+    const { longLine } = await import('../../helpers/long-lines.js');
+    const survey = longLine({ geophones: 240, spacingM: 5, shots: 12 });
+    const { root } = render(survey);
+    const picks = byRole(root, 'pick');
+    expect(picks).toHaveLength(survey.shots.reduce((n, s) => n + s.times.filter((t) => t !== null).length, 0));
+    const x = axisMap(root, 'x-tick');
+    for (const shot of survey.shots) {
+      const own = picks.filter((p) => p.getAttribute('data-shot') === shot.id);
+      expect(new Set(own.map((p) => `${p.getAttribute('stroke')}|${p.getAttribute('data-shape')}`)).size).toBe(1);
+      const full = own.filter((p) => p.getAttribute('data-mark') === 'marker');
+      expect(own.filter((p) => p.getAttribute('data-mark') === 'dot').length).toBe(own.length - full.length);
+      expect(full.length).toBeGreaterThan(5);
+      expect(full.length).toBeLessThan(own.length / 2);
+      const xs = full.map((p) => Number(p.getAttribute('data-x'))).sort((a, b) => a - b);
+      const minGapMm = Math.min(...xs.slice(1).map((v, i) => (v - xs[i]) * x.plotPerUnit));
+      expect(minGapMm).toBeGreaterThanOrEqual(3.4 - 1e-6);
+    }
+    // The legend says how the picks are drawn.
+    expect(byRole(root, 'legend').map((g) => g.textContent ?? '').join(' ')).toMatch(/marker at every \d+(st|nd|rd|th), dots between/);
+  });
+
+  it('keeps a full marker at every pick where geophones are not crowded (Demo A, 3 m spacing: about 9 mm on paper)', async () => {
+    const { demoLine } = await import('../../../engine/samples/demo-lines.js');
+    const { root } = render(demoLine());
+    const marks = byRole(root, 'pick').map((p) => p.getAttribute('data-mark'));
+    expect(marks.length).toBeGreaterThan(100);
+    expect(marks.filter((m) => m !== 'marker')).toEqual([]);
   });
 });
