@@ -31,6 +31,7 @@ import { WORKER_RESOURCE_LIMITS } from '../server/compute/pool.js';
 import { adjustReciprocalTimes as formerAdjust, type AdjustablePair as FormerPair } from './former/reciprocal-adjustment.js';
 import { fromNullable } from '../engine/shared/nan-none.js';
 import { scanForJumps as formerScan } from './former/jump-scan.js';
+import { timeTermBench } from './time-term.js';
 
 /** Longest one case may run (residuals off and on together), ms. */
 const CASE_CAP_MS = 45_000;
@@ -337,6 +338,9 @@ async function main(): Promise<void> {
   console.log('');
   await engineTable();
   formerAgainstCurrent();
+  console.log('');
+  console.log('## Time-term inversion');
+  timeTermBench();
   console.log('');
   console.log('## Forward model');
   forwardModel();
