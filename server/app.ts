@@ -22,6 +22,7 @@ import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
 import { previewRoutes } from './routes/previews.js';
 import { exportRoutes } from './routes/exports.js';
+import { gatherRoutes } from './routes/gathers.js';
 import { ComputePool, type ComputePoolOptions } from './compute/pool.js';
 import { openApiOptions, openApiRoutes } from './routes/openapi.js';
 
@@ -210,6 +211,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(syntheticRoutes);
     await app.register(previewRoutes);
     await app.register(exportRoutes, { store });
+    await app.register(gatherRoutes);
 
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {

@@ -34,9 +34,8 @@ function seg2(body: Buffer): BinaryBody | null {
   return {
     kind: 'seg2',
     message:
-      `This body is ${what}: raw traces, not first-break picks. Arcline does not read SEG-2 files yet; ` +
-      `they will go to POST /api/v1/gathers/picks (raw bytes, application/octet-stream) once that route exists. ` +
-      `Meanwhile pick the first breaks in your picking software. ${SEND_PICKS}`,
+      `This body is ${what}: raw traces, not first-break picks. Send it to POST /api/v1/gathers/picks ` +
+      `(raw bytes, Content-Type: application/octet-stream) for its automatic first breaks. ${SEND_PICKS}`,
   };
 }
 

@@ -28,8 +28,9 @@ export const ERROR_CATALOGUE = {
   },
   seg2_file: {
     status: 400,
-    message: 'This body is a SEG-2 seismograph file; Arcline does not read SEG-2 yet. Send the first-break picks as a pick table (text/csv) or a survey (application/json).',
+    message: 'This body is a SEG-2 seismograph file: send it to POST /api/v1/gathers/picks as application/octet-stream for its first breaks. Here, send the first-break picks as a pick table (text/csv) or a survey (application/json).',
   },
+  invalid_seg2: { status: 400, message: 'The SEG-2 file cannot be read.' },
   binary_body: {
     status: 400,
     message: 'This body is a binary file, not a survey or a pick table. Send the picks as a pick table (text/csv) or a survey (application/json).',
@@ -70,7 +71,7 @@ export const RETRY_AFTER_S = 2;
  * given both inside `error` and beside it, so clients reading either place find it.
  */
 export interface ErrorBody {
-  error: { code: string; message: string; path: string; problems?: Problem[]; layoutChange?: LayoutChange };
+  error: { code: string; message: string; path: string; problems?: Problem[]; layoutChange?: LayoutChange; byteOffset?: number };
   problems?: Problem[];
 }
 
@@ -81,8 +82,10 @@ export class AppError extends Error {
   readonly path: string;
   readonly problems: Problem[] | undefined;
   readonly layoutChange: LayoutChange | undefined;
+  /** For a file that cannot be read: the byte where the problem is. */
+  readonly byteOffset: number | undefined;
 
-  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[]; layoutChange?: LayoutChange } = {}) {
+  constructor(code: ErrorCode, details: { message?: string; path?: string; problems?: Problem[]; layoutChange?: LayoutChange; byteOffset?: number } = {}) {
     super(details.message ?? ERROR_CATALOGUE[code].message);
     this.name = 'AppError';
     this.code = code;
@@ -90,11 +93,13 @@ export class AppError extends Error {
     this.path = details.path ?? '';
     this.problems = details.problems;
     this.layoutChange = details.layoutChange;
+    this.byteOffset = details.byteOffset;
   }
 
   toBody(): ErrorBody {
     const error: ErrorBody['error'] = { code: this.code, message: this.message, path: this.path };
     if (this.layoutChange !== undefined) error.layoutChange = this.layoutChange;
+    if (this.byteOffset !== undefined) error.byteOffset = this.byteOffset;
     if (this.problems === undefined) return { error };
     error.problems = this.problems;
     return { error, problems: this.problems };

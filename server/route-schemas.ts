@@ -58,6 +58,7 @@ export const ErrorBodySchema = Type.Object(
         path: Type.String({ description: 'JSON pointer of the offending value, e.g. "/shots/2/times/7".' }),
         problems: Type.Optional(Type.Array(ProblemSchema)),
         layoutChange: Type.Optional(LayoutChangeSchema),
+        byteOffset: Type.Optional(Type.Integer({ description: 'For a SEG-2 file that cannot be read: the byte offset of the problem.' })),
       },
       closed,
     ),

@@ -1,7 +1,7 @@
 /**
  * The computations the service hands to its worker threads, by name: everything that costs
  * more than reading or writing a stored record (interpreting a line, drawing a figure,
- * making a synthetic line, writing a PDF or PNG). Pure functions of their input, so a worker can run any of
+ * making a synthetic line, writing a PDF or PNG, reading and picking a SEG-2 gather). Pure functions of their input, so a worker can run any of
  * them and the main thread never does.
  */
 import { interpret } from '../../engine/pipeline/interpret.js';
@@ -12,6 +12,8 @@ import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/
 import { refractorVisibility, visibilityNotes, type RefractorVisibility, type SyntheticNote } from '../../engine/forward/refractor-visibility.js';
 import { exportFile, type ExportRequest } from '../export/export-file.js';
 import type { ExportResult } from '../export/section-pages.js';
+import { gatherPicksFromSeg2, type GatherPicksResult } from '../../engine/picking/gather-picks.js';
+import type { GatherOverrides } from '../../engine/seg2/gather.js';
 
 export type Figure = 'section' | 'traveltimes';
 
@@ -32,6 +34,8 @@ export interface TaskTable {
   };
   /** A figure of a stored revision as PDF (every sheet) or PNG (one sheet). */
   exportFile: { input: ExportRequest; result: Promise<ExportResult> };
+  /** One SEG-2 shot gather read and picked (POST /api/v1/gathers/picks). */
+  gatherPicks: { input: { bytes: Uint8Array; overrides: GatherOverrides }; result: GatherPicksResult };
 }
 
 /** Both drawings of a line: the section's first sheet, every sheet of it (a long line is paged), and the plot. */
@@ -67,6 +71,7 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
     return { survey, interpretation: withInterpretation ? interpret(survey) : null, refractors, notes: visibilityNotes(refractors) };
   },
   exportFile: (request) => exportFile(request),
+  gatherPicks: ({ bytes, overrides }) => gatherPicksFromSeg2(bytes, overrides),
 };
 
 /** Runs one task here, in this thread (the worker's entry calls this). */

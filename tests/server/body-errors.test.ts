@@ -72,7 +72,7 @@ describe('a SEG-2 shot record sent as the body', () => {
     expect(res.body.error.code).toBe('seg2_file');
     // Pullan (1990): bytes 6–7 of the file descriptor block hold the number of traces.
     expect(res.body.error.message).toContain('SEG-2 seismograph file (a shot record of 24 traces)');
-    expect(res.body.error.message).toContain('does not read SEG-2 files yet');
+    expect(res.body.error.message).toContain('Content-Type: application/octet-stream');
     expect(res.body.error.message).toContain('POST /api/v1/gathers/picks');
     expect(res.body.error.message).toContain('text/csv');
     expectNothingEchoed(res.text);

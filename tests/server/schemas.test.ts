@@ -135,6 +135,7 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/api/v1/surveys/{id}/traveltimes.pdf'],
     ['get', '/api/v1/surveys/{id}/section.png'],
     ['get', '/api/v1/surveys/{id}/traveltimes.png'],
+    ['post', '/api/v1/gathers/picks'],
   ];
   const added: [string, string][] = [
     ['get', '/healthz'],
