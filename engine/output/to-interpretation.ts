@@ -18,7 +18,8 @@ import { CAUTIONS } from '../qc/cautions.js';
 import type { EndShotPhantom } from '../plus-minus/end-shot-phantoms.js';
 import type { RefractorPlusTimes } from '../plus-minus/refractor-plus-times.js';
 import type { FirstRefractorSection } from '../depth/first-refractor-section.js';
-import { depthSigmaM } from '../depth/depth-pass.js';
+import { depthUncertaintyM, plusSigmaWithSharedPicksMs } from '../depth/depth-uncertainty.js';
+import { segmentIndexAt } from '../structure/structure-features.js';
 import type { LocalDip } from '../structure/planar-dip.js';
 import type { LineDip } from '../structure/line-dip.js';
 import type { MinusTimeVelocityResult } from '../velocities/minus-time-velocity.js';
@@ -49,6 +50,9 @@ export interface LineRecord {
   threeLayer: ThreeLayerSection | null;
   /** Every warning of the stages, in report order. */
   warnings: Warning[];
+  /** Pick uncertainty, ms, and one standard deviation of the line V1, m/s (null without direct sides): for depthUncertainty. */
+  pickSigmaMs: number;
+  v1SigmaMPerS: number | null;
 }
 
 /** The declared output of one line (see the file comment). */
@@ -57,6 +61,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
   const elevation = survey.geophones.map((g) => g.elevation ?? 0);
   const { normalDepthM, verticalDepthM } = section.depths;
   const plusTimeMs = plus.combined.plusTimeMs;
+  const plusSigmaMs = plusSigmaWithSharedPicksMs(plus.pairs, plus.combined.contributing, r.pickSigmaMs);
   const stations: Station[] = survey.geophones.map((g, i) => {
     const depth = verticalDepthM[i];
     return {
@@ -68,7 +73,16 @@ export function toInterpretation(r: LineRecord): Interpretation {
       depths: [roundMOrNull(depth)],
       v1: roundVOrNull(r.v1At[i]),
       refractorVelocity: roundVOrNull(plusTimeMs[i] === null ? null : section.v2At[i]),
-      depthUncertainty: roundMOrNull(depthSigmaM(plus.combined.plusSigmaMs[i], r.v1At[i], section.v2At[i])),
+      depthUncertainty: roundMOrNull(
+        depthUncertaintyM({
+          depthM: depth,
+          delaySigmaMs: plusSigmaMs[i] === null ? null : (plusSigmaMs[i] as number) / 2,
+          v1: r.v1At[i],
+          v1SigmaMPerS: r.v1SigmaMPerS,
+          v2: section.v2At[i],
+          v2SigmaMPerS: section.segments.length > 0 ? section.segments[segmentIndexAt(section.segments, g.x)].standardError : null,
+        }),
+      ),
       normalDepth: roundMOrNull(normalDepthM[i]),
       plusTime: roundMsOrNull(plusTimeMs[i]),
       minusTime: roundMsOrNull(section.combinedMinus.valueMs[i] ?? r.widestMinusMs[i]),

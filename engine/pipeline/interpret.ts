@@ -149,8 +149,20 @@ function interpretOnce(survey: Survey): Interpretation {
     localDips: dips.local,
     threeLayer,
     warnings,
+    pickSigmaMs: sigmaMs,
+    v1SigmaMPerS: lineV1SigmaMPerS(v1, topLayer.sides),
   });
   const interpretation = withDataCautions(survey, output);
   return options.residuals ? withResiduals(survey, interpretation) : interpretation;
 }
 
+/**
+ * One standard deviation of the line V1, m/s: the inverse-variance mean of the direct sides'
+ * slownesses (their standard errors from the picks), σ_p = 1/√Σ(1/σ_i²), turned into a
+ * velocity as σ_V = V²·σ_p (first order); null without sides.
+ */
+function lineV1SigmaMPerS(v1: number | null, sides: { slownessStandardErrorMsPerM: number }[]): number | null {
+  if (v1 === null) return null;
+  const weight = sides.reduce((s, side) => (side.slownessStandardErrorMsPerM > 0 && Number.isFinite(side.slownessStandardErrorMsPerM) ? s + 1 / side.slownessStandardErrorMsPerM ** 2 : s), 0);
+  return weight > 0 ? (v1 * v1 * (1 / Math.sqrt(weight))) / 1000 : null;
+}
