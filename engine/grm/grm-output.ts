@@ -11,7 +11,7 @@ import type { GrmResult } from './grm.js';
 
 /** Words for the criterion (optimum-xy.ts gives the source). */
 export const GRM_CRITERION =
-  'least RMS second difference of the velocity-analysis function (Palmer 1980: the simplest velocity-analysis function); ties to the smaller XY';
+  'least RMS residual of the velocity-analysis function about a straight line per shot pair (Palmer 1980: the XY at which it is most nearly linear); ties to the smaller XY';
 
 /**
  * The plus-minus stage's record with GRM's time-depths as delay times and T+ = 2·t_G.

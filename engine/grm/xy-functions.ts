@@ -34,11 +34,11 @@ export interface XyFunctions {
   timeDepthMs: (number | null)[];
   /** One standard deviation of t_G, ms. */
   timeDepthSigmaMs: (number | null)[];
-  /** RMS second difference of t_V within each pair, ms: how far t_V is from straight (the optimum's measure). */
+  /** RMS residual of t_V about each pair's straight line, ms: how far t_V is from linear (the optimum's measure). */
   velocityRoughnessMs: number | null;
   /** RMS second difference of t_G, ms: how much detail the time-depths show (reported, not chosen by). */
   timeDepthDetailMs: number | null;
-  /** Second differences counted in `velocityRoughnessMs`. */
+  /** Values counted in `velocityRoughnessMs`. */
   roughnessCount: number;
   /** The core's result at the stations (T+ = 2·t_G per pair), for the caller. */
   core: RefractorPlusTimes;
@@ -55,6 +55,48 @@ function pairMinus(p: OpposingPairInput, st: XyStations): Doubles {
     out[j] = x > p.left.x && x < p.right.x ? tA - tB : Number.NaN;
   }
   return out;
+}
+
+/**
+ * RMS residual of each row about its own least-squares straight line (rows with ≥ 3 values),
+ * pooled over the rows with n − 2 degrees of freedom each: how far the velocity-analysis
+ * functions are from linear (Palmer 1980: at the optimum XY t_V is most nearly linear, the
+ * refractor's relief cancelling out). Pick noise adds the same floor at every XY (each
+ * t_V is two picks whatever the XY), so the XYs differ by the relief left in t_V. O(n) per row.
+ */
+export function rmsAboutLines(rows: readonly ArrayLike<number>[], xM: readonly number[]): { rms: number | null; count: number } {
+  let sum = 0;
+  let dof = 0;
+  let count = 0;
+  for (const row of rows) {
+    let n = 0;
+    let sx = 0;
+    let sy = 0;
+    for (let j = 0; j < xM.length; j++) {
+      if (!Number.isFinite(row[j])) continue;
+      n++;
+      sx += xM[j];
+      sy += row[j];
+    }
+    if (n < 3) continue;
+    const mx = sx / n;
+    const my = sy / n;
+    let sxx = 0;
+    let sxy = 0;
+    for (let j = 0; j < xM.length; j++) {
+      if (!Number.isFinite(row[j])) continue;
+      sxx += (xM[j] - mx) ** 2;
+      sxy += (xM[j] - mx) * (row[j] - my);
+    }
+    const slope = sxx > 0 ? sxy / sxx : 0;
+    for (let j = 0; j < xM.length; j++) {
+      if (!Number.isFinite(row[j])) continue;
+      sum += (row[j] - my - slope * (xM[j] - mx)) ** 2;
+    }
+    dof += n - 2;
+    count += n;
+  }
+  return { rms: dof > 0 ? Math.sqrt(sum / dof) : null, count };
 }
 
 /**
@@ -110,7 +152,7 @@ export function xyFunctions(pairs: readonly OpposingPairInput[], geophoneXM: rea
     return v;
   });
   const datum = combineMinusTimes(tv.map((r) => Float64Array.from(r)), variances, n);
-  const rough = rmsSecondDifference(tv, st.stationXM);
+  const rough = rmsAboutLines(tv, st.stationXM);
   const detail = rmsSecondDifference([timeDepthMs.map((t) => t ?? Number.NaN)], st.stationXM);
   return {
     steps,

@@ -292,7 +292,7 @@ export interface GrmXyFunctions {
   xy: number;
   /** V' from this XY's velocity-analysis function, m/s. */
   refractorVelocity: number | null;
-  /** RMS second difference of the velocity-analysis function, ms (least at the optimum). */
+  /** RMS residual of the velocity-analysis function about a straight line per pair, ms (least at the optimum). */
   velocityRoughness: number | null;
   /** RMS second difference of the time-depth function, ms. */
   timeDepthDetail: number | null;

@@ -92,7 +92,7 @@ export function renderGrmFunctions(survey: Survey, interpretation: Interpretatio
     ? [
         { text: `optimum XY ${formatMetres(grm.optimumXy)}`, role: 'grm-optimum' },
         ...(grm.expectedOptimumXy !== null ? [{ text: `2·z·tan(ic) from plus-minus: ${formatMetres(grm.expectedOptimumXy)}`, role: 'grm-expected' }] : []),
-        { text: 'optimum: least roughness of t_V (Palmer 1980)', role: 'grm-criterion' },
+        { text: 'optimum: t_V most nearly straight (Palmer 1980)', role: 'grm-criterion' },
       ]
     : [];
   const ruleY = titleBlock(svg, { title: name, subtitle, notes });
@@ -146,7 +146,7 @@ export function renderGrmFunctions(survey: Survey, interpretation: Interpretatio
     ['XY', (f) => formatMetres(f.xy)],
     ["V'", (f) => (f.refractorVelocity === null ? '–' : formatVelocity(f.refractorVelocity))],
     // Hundredths of a ms, finer than the shown 0.1 ms: the XYs differ by that much and the choice rests on it.
-    ['t_V roughness (ms)', (f) => (f.velocityRoughness === null ? '–' : fixed(f.velocityRoughness, 2))],
+    ['t_V off straight (ms)', (f) => (f.velocityRoughness === null ? '–' : fixed(f.velocityRoughness, 2))],
   ];
   rows.forEach(([label, cell], r) => {
     const yMm = tableTop + r * TEXT_MM.tick * 1.4 + TEXT_MM.tick;

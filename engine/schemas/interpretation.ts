@@ -242,7 +242,7 @@ export const GrmAnalysisSchema = Type.Object(
         {
           xy: num('XY, m.'),
           refractorVelocity: nullable(num("V' from the velocity-analysis function, m/s.")),
-          velocityRoughness: nullable(num('RMS second difference of the velocity-analysis function, ms.')),
+          velocityRoughness: nullable(num('RMS residual of the velocity-analysis function about a straight line per shot pair, ms (least at the optimum).')),
           timeDepthDetail: nullable(num('RMS second difference of the time-depth function, ms.')),
           stations: Type.Array(
             Type.Object({ x: num('G, midway between X and Y, m.'), velocityAnalysis: nullable(num('t_V, ms.')), timeDepth: nullable(num('t_G, ms.')) }, closed),

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { xyStations } from '../../engine/grm/xy-pairs.js';
-import { rmsSecondDifference, xyFunctions } from '../../engine/grm/xy-functions.js';
+import { rmsAboutLines, rmsSecondDifference, xyFunctions } from '../../engine/grm/xy-functions.js';
 import { expectedOptimumXyM, optimumIndex, xyStepRange } from '../../engine/grm/optimum-xy.js';
 import type { OpposingPairInput } from '../../engine/plus-minus/refractor-plus-times.js';
 import type { ShotAnalysis } from '../../engine/output/interpretation.js';
@@ -59,6 +59,13 @@ describe('measures and choices', () => {
     // f = c·x² has second difference 2c·h² at spacing h = 1.
     expect(rmsSecondDifference([x.map((v) => 0.5 * v * v)], x).rms).toBeCloseTo(1, 12);
     expect(rmsSecondDifference([[1, Number.NaN, 3, 4, 5]], x).count).toBe(1);
+  });
+  it('rmsAboutLines is zero on straight rows, whatever their slopes, and the residual RMS (n − 2 dof) otherwise (least squares)', () => {
+    const x = [0, 1, 2, 3, 4];
+    expect(rmsAboutLines([x.map((v) => 3 * v + 1), x.map((v) => -v)], x).rms).toBeCloseTo(0, 12);
+    // y = (0, 1, 0, 1, 0) about its LS line: slope 0, mean 0.4; residuals −0.4, 0.6, −0.4, 0.6, −0.4; Σr² = 1.2, dof 3.
+    expect(rmsAboutLines([[0, 1, 0, 1, 0]], x).rms).toBeCloseTo(Math.sqrt(1.2 / 3), 12);
+    expect(rmsAboutLines([[1, 2, Number.NaN, Number.NaN, Number.NaN]], x).rms).toBeNull();
   });
   it('optimumIndex takes the least roughness, ties and nulls to the smaller XY', () => {
     expect(optimumIndex([0.05, 0.03, 0.01, 0.02])).toBe(2);

@@ -114,6 +114,25 @@ describe('optimum XY near 2·z·tan(ic) for a flat refractor (Palmer 1980)', () 
     expect(Math.max(...tg) - Math.min(...tg)).toBeLessThanOrEqual(0.02);
     expect(r.grm!.optimumXy).toBe(0);
   });
+  // Seeded Gaussian pick noise (engine/forward/synthetic.ts); the picks' σ given as pickUncertaintyMs.
+  for (const noiseMs of [0.1, 0.25]) {
+    it(`with ${noiseMs} ms of pick noise (seeds 1–3), z = 10 m: within one geophone interval, depths within 5 %`, () => {
+      const depthM = 10;
+      const expected = (2 * depthM * 1000) / Math.sqrt(2500 * 2500 - 1000 * 1000);
+      const model: LayeredModel = { surface: level(0), layers: [{ velocity: 1000 }, { velocity: 2500, top: risingTop(depthM, 1.5, 47, 6) }] };
+      for (const seed of [1, 2, 3]) {
+        const line = syntheticSurvey(model, { ...LAYOUT, shots: SEVEN_SHOTS }, { cellM: CELL_M, noiseMs, seed });
+        const r = interpret({ ...line, options: { ...NO_RESIDUALS, method: 'grm', pickUncertaintyMs: noiseMs } });
+        console.log(`[grm] noise ${noiseMs} ms, seed ${seed}: optimum XY ${r.grm!.optimumXy} m (2·z·tan(ic) = ${expected.toFixed(2)} m)`);
+        expect(Math.abs(r.grm!.optimumXy - expected), `seed ${seed}`).toBeLessThanOrEqual(SPACING_M);
+        for (const s of r.stations) {
+          if (s.depth === null) continue;
+          const truth = trueDepthM(model, s.x);
+          expect(Math.abs(s.depth - truth) / truth, `seed ${seed}, x = ${s.x}`).toBeLessThanOrEqual(DEPTH_TOLERANCE);
+        }
+      }
+    });
+  }
   // Flat at depth z with one low rise (1.5 m) so XY matters: where the rays to X and Y leave
   // the refractor at different points, the rise shows in t_V; at XY = 2·z·tan(ic) it cancels.
   for (const depthM of [6, 10, 14]) {
