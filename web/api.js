@@ -55,7 +55,7 @@
 /**
  * POST /api/v1/previews: one interpretation and both drawings of it, as SVG text; every sheet
  * of the section (a long line is paged; sectionSvg is the first).
- * @typedef {{ interpretation: Interpretation, sectionSvg: string, sectionSheets: string[], travelTimesSvg: string }} PreviewBundle
+ * @typedef {{ interpretation: Interpretation, sectionSvg: string, sectionSheets: string[], travelTimesSvg: string, grmSvg?: string }} PreviewBundle
  */
 
 /** GET /api/v1/surveys/:id/section-sheets.json. @typedef {{ sheetCount: number, sheets?: string[] }} SectionSheets */
@@ -358,7 +358,7 @@ export function withSheetQuery(url, sheet, withScale) {
  * Relative URLs of the files of a stored line; of one revision when `revision` is given.
  * @param {string} id
  * @param {number} [revision]
- * @returns {{ section: string, sectionSheets: string, travelTimes: string, stations: string, interpretation: string,
+ * @returns {{ section: string, sectionSheets: string, travelTimes: string, grm: string, stations: string, interpretation: string,
  *   sectionPdf: string, sectionPng: string, travelTimesPdf: string, travelTimesPng: string }}
  */
 export function lineFileUrls(id, revision) {
@@ -368,6 +368,7 @@ export function lineFileUrls(id, revision) {
     section: base + 'section.svg' + query,
     sectionSheets: base + 'section-sheets.json' + query,
     travelTimes: base + 'traveltimes.svg' + query,
+    grm: base + 'grm.svg' + query,
     stations: base + 'stations.csv' + query,
     interpretation: base + 'interpretation.json' + query,
     sectionPdf: base + 'section.pdf' + query,

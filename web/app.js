@@ -67,6 +67,8 @@ const ui = {
   sheetLabel: $('sheet-label', HTMLElement),
   sheetButtons: $('sheet-buttons', HTMLElement),
   travelTimesImage: $('traveltimes-image', HTMLImageElement),
+  grmFigure: $('grm-figure', HTMLElement),
+  grmImage: $('grm-image', HTMLImageElement),
   unsavedNote: $('unsaved-note', HTMLElement),
   summary: $('summary', HTMLElement),
   summaryList: $('summary-list', HTMLElement),
@@ -236,6 +238,8 @@ function hideStoredParts() {
   ui.sharePanel.hidden = true;
   ui.sectionImage.removeAttribute('src');
   ui.travelTimesImage.removeAttribute('src');
+  ui.grmImage.removeAttribute('src');
+  ui.grmFigure.hidden = true;
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.revisionRow.hidden = true;
@@ -329,6 +333,10 @@ function showPreviews(bundle, name) {
     showFigureFailed(ui.sectionImage);
   }
   place(bundle.travelTimesSvg, ui.travelTimesImage, 'Preview, not stored: time–distance plot of ' + name);
+  // The GRM functions only for a line interpreted by GRM (the bundle has them then).
+  ui.grmFigure.hidden = typeof bundle.grmSvg !== 'string';
+  if (typeof bundle.grmSvg === 'string') place(bundle.grmSvg, ui.grmImage, 'Preview, not stored: GRM functions of ' + name);
+  else ui.grmImage.removeAttribute('src');
   releasePreviewUrls();
   figures.blobUrls = urls;
   markFiguresAsPreview(ui.figures, true);
@@ -542,6 +550,9 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   removeExtraSheets();
   showFigure(ui.sectionImage, urls.section, 'Depth section of ' + name);
   showFigure(ui.travelTimesImage, urls.travelTimes, 'Time–distance plot of ' + name);
+  ui.grmFigure.hidden = interpretation.method !== 'grm';
+  if (interpretation.method === 'grm') showFigure(ui.grmImage, urls.grm, 'GRM functions of ' + name);
+  else ui.grmImage.removeAttribute('src');
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
@@ -903,6 +914,7 @@ function wire() {
     if (button instanceof HTMLButtonElement) button.addEventListener('click', () => toggleEnlarged(button));
   }
   ui.travelTimesImage.addEventListener('error', imageFailed);
+  ui.grmImage.addEventListener('error', imageFailed);
   updateFormatHint();
 }
 

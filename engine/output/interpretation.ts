@@ -272,6 +272,32 @@ export interface Interpretation {
   velocityAnalysis: VelocityAnalysis;
   /** The cautions every section and page carries (DESIGN.md). */
   cautions: string[];
+  /** method "grm" only: the functions at every XY tried and the optimum (engine/grm/). */
+  grm?: GrmAnalysis;
+}
+
+/** The generalised reciprocal method's analysis (Palmer 1980): every XY, for the geophysicist to judge. */
+export interface GrmAnalysis {
+  /** XY taken, m. */
+  optimumXy: number;
+  /** Palmer's expectation 2·z·tan(ic) for a planar refractor, from the plus-minus mean delay time, m. */
+  expectedOptimumXy: number | null;
+  /** How the optimum was chosen, in words. */
+  criterion: string;
+  xyFunctions: GrmXyFunctions[];
+}
+
+export interface GrmXyFunctions {
+  /** XY, m (geophone intervals × spacing). */
+  xy: number;
+  /** V' from this XY's velocity-analysis function, m/s. */
+  refractorVelocity: number | null;
+  /** RMS residual of the velocity-analysis function about a straight line per pair, ms (least at the optimum). */
+  velocityRoughness: number | null;
+  /** RMS second difference of the time-depth function, ms. */
+  timeDepthDetail: number | null;
+  /** One entry per station G, midway between X and Y. */
+  stations: { x: number; velocityAnalysis: number | null; timeDepth: number | null }[];
 }
 
 export interface OpposingPairVelocities {

@@ -15,6 +15,9 @@ import type {
 } from './interpretation.js';
 import type { Survey } from '../survey/survey.js';
 import { CAUTIONS } from '../qc/cautions.js';
+import type { MethodName } from '../survey/survey.js';
+import type { GrmResult } from '../grm/grm.js';
+import { grmOutput } from '../grm/grm-output.js';
 import type { EndShotPhantom } from '../plus-minus/end-shot-phantoms.js';
 import type { RefractorPlusTimes } from '../plus-minus/refractor-plus-times.js';
 import type { FirstRefractorSection } from '../depth/first-refractor-section.js';
@@ -53,6 +56,10 @@ export interface LineRecord {
   /** Pick uncertainty, ms, and one standard deviation of the line V1, m/s (null without direct sides): for depthUncertainty. */
   pickSigmaMs: number;
   v1SigmaMPerS: number | null;
+  /** The method that made the delay times (plus-minus unless GRM was asked for). */
+  method?: MethodName;
+  /** GRM's functions and optimum (engine/grm/grm.ts), rounded here by grmOutput. */
+  grm?: GrmResult | null;
 }
 
 /** The declared output of one line (see the file comment). */
@@ -174,7 +181,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
     : null;
 
   return {
-    method: 'plus-minus',
+    method: r.method ?? 'plus-minus',
     ...(survey.name !== undefined ? { name: survey.name } : {}),
     stations: threeLayerStations,
     layers,
@@ -189,6 +196,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
       minusTimeVelocity,
     },
     cautions: [...CAUTIONS],
+    ...(r.grm ? { grm: grmOutput(r.grm) } : {}),
   };
 }
 

@@ -40,6 +40,8 @@ import { withResiduals } from '../qc/residuals.js';
 import { chooseLayerCount, needsLayerChoice } from '../qc/layer-choice.js';
 import { toInterpretation } from '../output/to-interpretation.js';
 import { isFiniteNumber } from '../shared/numbers.js';
+import { grmTimeDepths } from '../grm/grm.js';
+import { withTimeDepths } from '../grm/grm-output.js';
 
 /**
  * The interpretation of a line. Unforced (no options.layers) and with residuals on, a line
@@ -59,8 +61,16 @@ export function interpret(survey: Survey): Interpretation {
   return chooseLayerCount(auto, forced, options.pickUncertaintyMs);
 }
 
+/**
+ * The GRM interpretation at a forced XY (in geophone intervals) instead of the optimum:
+ * the reference checks compare XY = 0 with plus-minus through it.
+ */
+export function interpretGrmAtXy(survey: Survey, steps: number): Interpretation {
+  return interpretOnce({ ...survey, options: { ...survey.options, method: 'grm' } }, steps);
+}
+
 /** One pass of the stages with the survey's own options (see the file comment). */
-function interpretOnce(survey: Survey): Interpretation {
+function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation {
   const options = resolveOptions(survey.options);
   const sigmaMs = options.pickUncertaintyMs;
   const xs = survey.geophones.map((g) => g.x);
@@ -75,8 +85,15 @@ function interpretOnce(survey: Survey): Interpretation {
   const reciprocal = reciprocalChecks(survey, shots, options);
   const phantoms = phantomEndShots(survey, shots, sigmaMs);
 
-  const plus = refractorPlusTimes(firstRefractorPairs(survey, pairs, reciprocal.checks, phantoms, sigmaMs), xs);
-  const lineV2 = lineRefractorVelocity(plus.pairs, xs, v1);
+  const pairInputs = firstRefractorPairs(survey, pairs, reciprocal.checks, phantoms, sigmaMs);
+  const plusMinusTimes = refractorPlusTimes(pairInputs, xs);
+  const lineV2 = lineRefractorVelocity(plusMinusTimes.pairs, xs, v1);
+  // GRM (engine/grm/): the time-depths at the optimum XY take the place of the delay times.
+  const grm =
+    options.method === 'grm'
+      ? grmTimeDepths({ pairs: pairInputs, geophoneXM: xs, spacingM: geophoneSpacingM(survey.geophones), plusMinusDelayMs: plusMinusTimes.delayTimeMs, v1MPerS: v1, v2MPerS: lineV2.velocity, forcedSteps: grmForcedSteps })
+      : null;
+  const plus = grm ? withTimeDepths(plusMinusTimes, grm) : plusMinusTimes;
   const topLayer = localTopLayerVelocities(xs, directSides(survey, shots, sigmaMs), v1);
   const section = firstRefractorSection({
     xsM: xs,
@@ -151,6 +168,9 @@ function interpretOnce(survey: Survey): Interpretation {
     warnings,
     pickSigmaMs: sigmaMs,
     v1SigmaMPerS: lineV1SigmaMPerS(v1, topLayer.sides),
+    // The method actually run: one asked for but not available yet fell back to plus-minus (warned).
+    method: grm ? 'grm' : 'plus-minus',
+    grm,
   });
   const interpretation = withDataCautions(survey, output);
   return options.residuals ? withResiduals(survey, interpretation) : interpretation;

@@ -3,11 +3,11 @@
  * velocity, arrivals on a refractor the two-layer section does not map.
  */
 import type { ShotAnalysis, Warning } from '../output/interpretation.js';
-import type { ResolvedOptions } from '../survey/options.js';
+import { AVAILABLE_METHODS, type ResolvedOptions } from '../survey/options.js';
 
-/** "method-unavailable" when another method than plus-minus was asked for. */
+/** "method-unavailable" when a method the engine cannot run yet was asked for (validation refuses it before; a direct engine call lands here). */
 export function methodWarnings(options: ResolvedOptions): Warning[] {
-  if (options.method === 'plus-minus') return [];
+  if ((AVAILABLE_METHODS as readonly string[]).includes(options.method)) return [];
   return [
     {
       code: 'method-unavailable',

@@ -5,7 +5,7 @@
 import type { MethodName, Survey } from '../survey/survey.js';
 import type { Interpretation } from '../output/interpretation.js';
 import type { ShotPlacement } from './section-markers.js';
-import { formatMs } from './format.js';
+import { formatMetres, formatMs } from './format.js';
 
 export function lineName(survey: Survey, interpretation: Interpretation): string {
   const name = interpretation.name ?? survey.name;
@@ -29,6 +29,12 @@ export function surveyDateText(text: string): string {
   const days = [31, leap ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
   if (month < 1 || month > 12 || day < 1 || day > days[month - 1]) return text;
   return `shot on ${day} ${MONTHS[month - 1]} ${year}`;
+}
+
+/** The method in words for a title block; GRM adds the XY it took (Palmer 1980), as a geophysicist reading the sheet needs it. */
+export function describeInterpretationMethod(interpretation: Pick<Interpretation, 'method' | 'grm'>): string {
+  const words = describeMethod(interpretation.method);
+  return interpretation.method === 'grm' && interpretation.grm ? `${words}, optimum XY ${formatMetres(interpretation.grm.optimumXy)}` : words;
 }
 
 export function describeMethod(method: MethodName | undefined): string {

@@ -45,6 +45,12 @@ export const SECTION_COLOURS = {
   noCoverage: '#8c8c8c',
 } as const;
 
+/** GRM functions (grm-functions.ts): the optimum XY heavy in the refractor's blue, the other XYs thin grey (4.5:1 on white). */
+export const GRM_COLOURS = {
+  optimum: '#1d3f8f',
+  other: '#767676',
+} as const;
+
 /** Shared text and frame colours. */
 export const INK = {
   text: '#222222',

@@ -31,7 +31,7 @@ import { stepMarkers, velocityChangeMarkers, layerLabel } from './section-featur
 import { LabelPlacer } from './label-placer.js';
 import { fixed, formatMs, formatVelocity, groupThousands, round3 } from './format.js';
 import { addText, wrapText } from './text.js';
-import { describeMethod, lineName, shotPlacements, surveyDateText } from './describe.js';
+import { describeInterpretationMethod, lineName, shotPlacements, surveyDateText } from './describe.js';
 import { parseSectionSheetOptions, SectionSheetError, type ResolvedSheetOptions, type SectionSheetOptions } from './sheet-options.js';
 import { planSheets, type SheetPlan, type SheetWindow } from './sheet-plan.js';
 import { drawSourceRuns, sourceRuns, stationSource, uncertaintyBand, uncertaintyRange } from './refractor-sources.js';
@@ -283,7 +283,7 @@ function sheetLayout(page: PageSize, content: SectionContent, survey: Survey, in
 }
 
 function sectionSubtitle(survey: Survey, interpretation: Interpretation, sheet: string | null): string {
-  return ['Depth section', describeMethod(interpretation.method), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`, sheet ?? '']
+  return ['Depth section', describeInterpretationMethod(interpretation), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`, sheet ?? '']
     .filter((part) => part.length > 0)
     .join(' · ');
 }

@@ -24,7 +24,7 @@ import { LabelPlacer, type Box } from './label-placer.js';
 import { marker, SHOT_SHAPES, type MarkerShape } from './markers.js';
 import { formatMs, formatVelocity, round3 } from './format.js';
 import { addText, wrapText } from './text.js';
-import { describeMethod, lineName, qcSummary, surveyDateText } from './describe.js';
+import { describeInterpretationMethod, lineName, qcSummary, surveyDateText } from './describe.js';
 import type { Container } from '@svgdotjs/svg.js';
 
 export interface TravelTimeOptions {
@@ -144,7 +144,7 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
   const legendTop = cautionTop - 2 - legendHeightMm(legendItems, contentWidth);
   const plotBottom = legendTop - 11;
   const reciprocalNotes = reciprocalSummary(interpretation, survey);
-  const subtitle = ['Time–distance plot', describeMethod(interpretation.method), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`]
+  const subtitle = ['Time–distance plot', describeInterpretationMethod(interpretation), `${survey.geophones.length} geophones`, `${survey.shots.length} shots`]
     .filter((part) => part.length > 0)
     .join(' · ');
   const notes = [...qcSummary(interpretation), ...reciprocalNotes];

@@ -232,6 +232,29 @@ export const VelocityAnalysisSchema = Type.Object(
   { ...closed, title: 'VelocityAnalysis' },
 );
 
+export const GrmAnalysisSchema = Type.Object(
+  {
+    optimumXy: num('XY taken, m.'),
+    expectedOptimumXy: nullable(num("Palmer's expectation 2·z·tan(ic) for a planar refractor, m.")),
+    criterion: str('How the optimum XY was chosen.'),
+    xyFunctions: Type.Array(
+      Type.Object(
+        {
+          xy: num('XY, m.'),
+          refractorVelocity: nullable(num("V' from the velocity-analysis function, m/s.")),
+          velocityRoughness: nullable(num('RMS residual of the velocity-analysis function about a straight line per shot pair, ms (least at the optimum).')),
+          timeDepthDetail: nullable(num('RMS second difference of the time-depth function, ms.')),
+          stations: Type.Array(
+            Type.Object({ x: num('G, midway between X and Y, m.'), velocityAnalysis: nullable(num('t_V, ms.')), timeDepth: nullable(num('t_G, ms.')) }, closed),
+          ),
+        },
+        closed,
+      ),
+    ),
+  },
+  { ...closed, title: 'GrmAnalysis', description: 'Generalised reciprocal method (Palmer 1980): the functions at every XY tried and the optimum.' },
+);
+
 export const InterpretationSchema = Type.Object(
   {
     method: literals(KNOWN_METHODS, 'The method used.'),
@@ -268,6 +291,7 @@ export const InterpretationSchema = Type.Object(
     shots: Type.Array(ShotAnalysisSchema),
     velocityAnalysis: VelocityAnalysisSchema,
     cautions: Type.Array(Type.String()),
+    grm: opt(GrmAnalysisSchema),
   },
   { ...closed, title: 'Interpretation', description: 'What the engine says about a line (api-v1.md). Units: m, ms, m/s, degrees.' },
 );

@@ -6,6 +6,7 @@
  */
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { renderSection, renderSectionSheet, renderSectionSheets, renderTravelTimes, sectionSheetCount } from '../../engine/render/index.js';
+import { renderGrmFunctions } from '../../engine/render/grm-functions.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
@@ -15,7 +16,8 @@ import type { ExportResult } from '../export/section-pages.js';
 import { gatherPicksFromSeg2, type GatherPicksResult } from '../../engine/picking/gather-picks.js';
 import type { GatherOverrides } from '../../engine/seg2/gather.js';
 
-export type Figure = 'section' | 'traveltimes';
+/** `grm`: the GRM functions of every XY (a page saying there are none on a line not interpreted by GRM). */
+export type Figure = 'section' | 'traveltimes' | 'grm';
 
 /** Each task's input and result, by name. */
 export interface TaskTable {
@@ -43,12 +45,15 @@ export interface Drawings {
   sectionSvg: string;
   sectionSheets: string[];
   travelTimesSvg: string;
+  /** The GRM functions, only when the line was interpreted by GRM. */
+  grmSvg?: string;
 }
 
 export type TaskName = keyof TaskTable;
 export type TaskMessage = { [K in TaskName]: { name: K; input: TaskTable[K]['input'] } }[TaskName];
 
 function drawing(figure: Figure, survey: Survey, interpretation: Interpretation): string {
+  if (figure === 'grm') return renderGrmFunctions(survey, interpretation);
   return figure === 'section' ? renderSection(survey, interpretation) : renderTravelTimes(survey, interpretation);
 }
 
@@ -63,7 +68,12 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
   sectionSheetCount: ({ survey, interpretation }) => sectionSheetCount(survey, interpretation),
   drawings: ({ survey, interpretation }) => {
     const sectionSheets = renderSectionSheets(survey, interpretation);
-    return { sectionSvg: sectionSheets[0], sectionSheets, travelTimesSvg: renderTravelTimes(survey, interpretation) };
+    return {
+      sectionSvg: sectionSheets[0],
+      sectionSheets,
+      travelTimesSvg: renderTravelTimes(survey, interpretation),
+      ...(interpretation.grm ? { grmSvg: renderGrmFunctions(survey, interpretation) } : {}),
+    };
   },
   synthetic: ({ request, interpret: withInterpretation }) => {
     const survey = syntheticSurveyFromRequest(request);

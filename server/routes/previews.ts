@@ -35,6 +35,7 @@ const PreviewBundleSchema = Type.Object(
       description: 'Every sheet of the depth section, in order along the line, each an SVG document: one for a line that fits one sheet; a long line is paged over several that meet at match lines.',
     }),
     travelTimesSvg: Type.String({ description: 'The time–distance plot, an SVG document.' }),
+    grmSvg: Type.Optional(Type.String({ description: 'With options.method "grm": the GRM functions of every XY tried, an SVG document.' })),
   },
   { additionalProperties: false, title: 'PreviewBundle' },
 );

@@ -178,6 +178,19 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
   );
 
   app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/grm.svg',
+    revisionRead(
+      'The GRM functions (velocity analysis and time-depth) for every XY tried, the optimum marked; a page saying there are none when the line was not interpreted by GRM.',
+      fileResponse('image/svg+xml', 'The GRM functions as SVG.'),
+    ),
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      const svg = await app.compute.run('drawing', { figure: 'grm', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      return setSvg(reply, svg);
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
     '/api/v1/surveys/:id/stations.csv',
     revisionRead('One row per geophone.', fileResponse('text/csv', 'Stations as CSV.')),
     async (request, reply) => {

@@ -173,7 +173,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expect(apiRequests).toEqual(['POST /api/v1/previews']);
     expect(await page.isVisible('#preview-note')).toBe(true);
     expect(await page.textContent('#preview-note')).toContain('Not stored — preview');
-    const captionTags = page.locator('#figures figcaption .preview-tag');
+    const captionTags = page.locator('#figures figure:not([hidden]) figcaption .preview-tag');
     expect(await captionTags.count()).toBe(2);
     for (const tag of await captionTags.all()) {
       expect(await tag.isVisible()).toBe(true);

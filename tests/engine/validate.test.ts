@@ -347,9 +347,13 @@ describe('validateSurvey checks the options', () => {
   it('method-unknown', () => {
     expectProblem(withOptions({ method: 'delay-sum' }), 'method-unknown', '/options/method');
   });
-  it.each(['grm', 'time-term'])('method-not-available for %s says only plus-minus runs now', (method) => {
-    const p = expectProblem(withOptions({ method }), 'method-not-available', '/options/method');
+  it('method-not-available for time-term says which methods run now', () => {
+    const p = expectProblem(withOptions({ method: 'time-term' }), 'method-not-available', '/options/method');
     expect(p.message).toContain('"plus-minus"');
+    expect(p.message).toContain('"grm"');
+  });
+  it('accepts method "grm" (api-v1.md)', () => {
+    expect(problemsOf(withOptions({ method: 'grm' }))).toEqual([]);
   });
   it('residuals-not-boolean', () => {
     expectProblem(withOptions({ residuals: 'no' }), 'residuals-not-boolean', '/options/residuals');

@@ -141,6 +141,7 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/healthz'],
     ['get', '/api/v1/surveys/{id}/interpretation.json'],
     ['get', '/api/v1/surveys/{id}/section-sheets.json'],
+    ['get', '/api/v1/surveys/{id}/grm.svg'],
     ['post', '/api/v1/surveys/{id}/share'],
     ['delete', '/api/v1/surveys/{id}/share'],
     ['post', '/api/v1/previews'],

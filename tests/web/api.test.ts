@@ -29,6 +29,7 @@ describe('request building', () => {
       section: 'api/v1/surveys/a%2Fb%20c/section.svg',
       sectionSheets: 'api/v1/surveys/a%2Fb%20c/section-sheets.json',
       travelTimes: 'api/v1/surveys/a%2Fb%20c/traveltimes.svg',
+      grm: 'api/v1/surveys/a%2Fb%20c/grm.svg',
       stations: 'api/v1/surveys/a%2Fb%20c/stations.csv',
       interpretation: 'api/v1/surveys/a%2Fb%20c/interpretation.json',
       sectionPdf: 'api/v1/surveys/a%2Fb%20c/section.pdf',
