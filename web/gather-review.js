@@ -1,12 +1,14 @@
 // Pick review of a stored line's shot gathers: the decimated traces of one shot drawn as
 // wiggles with the positive half filled (variable area), its picks over them; a click on a
 // trace moves that trace's pick to the time clicked, Delete (or Backspace) clears the
-// selected pick, ← and → select the neighbouring trace. "Store corrected picks" sends the
+// selected pick, ← and → select the neighbouring trace. Each edit is interpreted at once
+// without storing (POST /api/v1/previews, debounced) and the section with the edited picks
+// is shown under the traces, marked as a preview. "Store corrected picks" sends the
 // line with the edited times as the next revision, with the reviewer's name, and the page
 // reopens it: the service re-interprets, so the section follows the picks.
 // Text reaches the DOM through textContent only; colours come from style.css.
 
-import { fetchGatherTraces, storeRevision } from './api.js';
+import { fetchGatherTraces, previewLine, storeRevision } from './api.js';
 import { plotLayout, reviewWindow, withPick } from './gather-plot.js';
 
 /**
@@ -35,7 +37,13 @@ const ui = {
   author: $('pick-author', HTMLInputElement),
   store: $('store-picks', HTMLButtonElement),
   edits: $('gather-edits', HTMLElement),
+  preview: $('pick-preview', HTMLElement),
+  previewImage: $('pick-preview-image', HTMLImageElement),
+  previewNote: $('pick-preview-note', HTMLElement),
 };
+
+/** Wait after the last edit before interpreting, ms: a burst of clicks costs one request (our choice). */
+const PREVIEW_DELAY_MS = 150;
 
 /** Display columns asked per trace: one per canvas pixel row of the plot. */
 const state = {
@@ -47,6 +55,9 @@ const state = {
   /** @type {number} */ selected: -1,
   /** @type {number} */ round: 0,
   /** @type {(id: string, revision: number) => void} */ onStored: () => {},
+  /** @type {number} */ previewRound: 0,
+  /** @type {ReturnType<typeof setTimeout> | undefined} */ previewTimer: undefined,
+  /** @type {string} */ previewUrl: '',
 };
 
 /** @param {string} name */
@@ -170,6 +181,7 @@ function setPick(index, ms) {
   describeSelected(index);
   updateEdits();
   draw();
+  schedulePreview();
 }
 
 async function loadShot() {
@@ -225,13 +237,57 @@ function onKey(event) {
   }
 }
 
-async function storePicks() {
-  if (!state.survey) return;
+/** The stored survey with every edited shot's times. @returns {Survey|null} */
+function editedSurvey() {
+  if (!state.survey) return null;
   const survey = structuredClone(state.survey);
   for (const shot of survey.shots) {
     const edited = state.edited.get(shot.id);
     if (edited) shot.times = edited;
   }
+  return survey;
+}
+
+function hidePreview() {
+  state.previewRound += 1;
+  clearTimeout(state.previewTimer);
+  ui.preview.hidden = true;
+  if (state.previewUrl) URL.revokeObjectURL(state.previewUrl);
+  state.previewUrl = '';
+  ui.previewImage.removeAttribute('src');
+  delete ui.preview.dataset.round;
+}
+
+/** Interprets the edited line (nothing stored) and shows its section; a later edit overtakes an earlier answer. */
+async function showPreview() {
+  const survey = editedSurvey();
+  if (!survey) return;
+  const round = ++state.previewRound;
+  const started = performance.now();
+  const result = await previewLine(JSON.stringify(survey), 'json');
+  if (round !== state.previewRound) return;
+  ui.preview.hidden = false;
+  if (!result.ok) {
+    ui.previewImage.hidden = true;
+    ui.previewNote.textContent = 'The edited picks could not be interpreted: ' + result.failure.message;
+    return;
+  }
+  if (state.previewUrl) URL.revokeObjectURL(state.previewUrl);
+  state.previewUrl = URL.createObjectURL(new Blob([result.data.sectionSvg], { type: 'image/svg+xml' }));
+  ui.previewImage.hidden = false;
+  ui.previewImage.src = state.previewUrl;
+  ui.previewNote.textContent = 'Interpreted in ' + Math.round(performance.now() - started) + ' ms (request and drawing). Store the picks to keep it.';
+  ui.preview.dataset.round = String(round);
+}
+
+function schedulePreview() {
+  clearTimeout(state.previewTimer);
+  state.previewTimer = setTimeout(() => void showPreview(), PREVIEW_DELAY_MS);
+}
+
+async function storePicks() {
+  const survey = editedSurvey();
+  if (!survey) return;
   ui.store.disabled = true;
   ui.status.textContent = 'Storing the corrected picks…';
   const result = await storeRevision(state.lineId, JSON.stringify(survey), 'json', false, ui.author.value.trim());
@@ -241,6 +297,7 @@ async function storePicks() {
     return;
   }
   state.edited.clear();
+  hidePreview();
   ui.status.textContent = 'Stored as revision ' + result.data.revision + '.';
   state.onStored(state.lineId, Number(result.data.revision));
 }
@@ -265,6 +322,7 @@ export function showGatherReview(line, onStored) {
   const shotIds = new Set((survey?.shots ?? []).map((s) => s.id));
   const usable = gathers.filter((g) => shotIds.has(g.shotId));
   const latest = line.revision === undefined || line.revision === line.latestRevision;
+  hidePreview();
   if (!survey || usable.length === 0 || !latest) {
     ui.panel.hidden = true;
     state.round += 1;
