@@ -1,5 +1,5 @@
 /**
- * npm run bench. Three parts, each bounded in time:
+ * npm run bench. The parts, each bounded in time:
  * 1. The engine table (issue 9): interpret with residuals off and on for flat two-layer
  *    lines of 24 … 1024 geophones (5 shots), 96 geophones with 10 … 64 shots, a rolling
  *    line of 240 geophones with 24 shots and the largest line, 1024 × 64 (last, so the
@@ -10,7 +10,8 @@
  * 2. Former against current code in the same run: the jump scan (dense 3×3 solve per
  *    candidate and hinge, bench/former/jump-scan.ts) and the reciprocal adjustment
  *    (k solves for the variances, bench/former/reciprocal-adjustment.ts).
- * 3. The forward model: solver speed on the production grid, a whole synthetic line, and
+ * 3. SEG-2 gathers (issue 12): read and pick 48 traces × 4,000 samples × 11 shots (gathers.ts).
+ * 4. The forward model: solver speed on the production grid, a whole synthetic line, and
  *    the residual check against interpret.
  * Speed is never asserted in tests. Wall times on a shared machine are noisy: compare
  * ratios within one run.
@@ -32,6 +33,7 @@ import { adjustReciprocalTimes as formerAdjust, type AdjustablePair as FormerPai
 import { fromNullable } from '../engine/shared/nan-none.js';
 import { scanForJumps as formerScan } from './former/jump-scan.js';
 import { timeTermBench } from './time-term.js';
+import { gatherBench } from './gathers.js';
 
 /** Longest one case may run (residuals off and on together), ms. */
 const CASE_CAP_MS = 45_000;
@@ -341,6 +343,9 @@ async function main(): Promise<void> {
   console.log('');
   console.log('## Time-term inversion');
   timeTermBench();
+  console.log('');
+  console.log('## SEG-2 gathers');
+  gatherBench();
   console.log('');
   console.log('## Forward model');
   forwardModel();

@@ -22,6 +22,7 @@ import { shareRoutes } from './routes/share.js';
 import { syntheticRoutes } from './routes/synthetic.js';
 import { previewRoutes } from './routes/previews.js';
 import { exportRoutes } from './routes/exports.js';
+import { surveyGatherRoutes } from './routes/survey-gathers.js';
 import { gatherRoutes } from './routes/gathers.js';
 import { ComputePool, type ComputePoolOptions } from './compute/pool.js';
 import { openApiOptions, openApiRoutes } from './routes/openapi.js';
@@ -212,6 +213,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(previewRoutes);
     await app.register(exportRoutes, { store });
     await app.register(gatherRoutes);
+    await app.register(surveyGatherRoutes, { store, guard });
 
     const webRoot = options.webRoot === undefined ? findWebRoot() : options.webRoot;
     if (webRoot !== null) {

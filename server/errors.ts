@@ -43,6 +43,10 @@ export const ERROR_CATALOGUE = {
     status: 409,
     message: 'This revision has another geophone layout than the stored line; nothing was stored.',
   },
+  survey_changed: {
+    status: 409,
+    message: 'Another revision of this line was stored while the file was being read; nothing was stored. Send the file again.',
+  },
   write_token_required: {
     status: 401,
     message: 'This service needs a write token: send "Authorization: Bearer <token>".',
@@ -51,6 +55,7 @@ export const ERROR_CATALOGUE = {
   not_found: { status: 404, message: 'Nothing here.' },
   survey_not_found: { status: 404, message: 'No stored survey has this id.' },
   revision_not_found: { status: 404, message: 'This survey has no such revision.' },
+  gather_not_found: { status: 404, message: 'No shot gather with this shot id was uploaded into this line (up to this revision).' },
   share_not_found: { status: 404, message: 'This share link does not exist or has been revoked.' },
   service_busy: {
     status: 503,

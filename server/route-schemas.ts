@@ -110,10 +110,16 @@ export const SectionSheetsSchema = Type.Object(
 export const sectionSvgQuerySchema = Type.Object({ revision: revisionQuerySchema.properties.revision, sheet: sheetQuery });
 
 /** POST /api/v1/surveys/:id/revisions: `?layoutChange=confirm` says a new geophone layout is meant. */
+/** Who stores a revision: a person's name as they want it recorded (our limit of 100 characters). */
+export const authorQuerySchema = Type.Optional(
+  Type.String({ minLength: 1, maxLength: 100, description: 'Who stores this revision (recorded with it and listed in `revisions`).' }),
+);
+
 export const revisionWriteQuerySchema = Type.Object({
   layoutChange: Type.Optional(
     Type.Literal('confirm', { description: 'Store the revision even though its geophone layout differs from the stored line (otherwise 409 layout_changed).' }),
   ),
+  author: authorQuerySchema,
 });
 
 const LinksSchema = Type.Object(
@@ -144,6 +150,7 @@ export const RevisionCreatedSchema = Type.Object(
     createdAt: Type.String(),
     revision: Type.Integer(),
     revisionCreatedAt: Type.String(),
+    author: Type.Optional(Type.Union([Type.String(), Type.Null()])),
     shareUrl,
     url: Type.String(),
     links: LinksSchema,
@@ -176,7 +183,32 @@ export const StoredSurveySchema = Type.Object(
     revision: Type.Integer(),
     revisionCreatedAt: Type.String(),
     latestRevision: Type.Integer(),
-    revisions: Type.Array(Type.Object({ revision: Type.Integer(), name: Type.String(), createdAt: Type.String() }, closed)),
+    revisions: Type.Array(
+      Type.Object(
+        {
+          revision: Type.Integer(),
+          name: Type.String(),
+          createdAt: Type.String(),
+          author: Type.Union([Type.String(), Type.Null()], { description: 'Who stored the revision (?author= of the write); null when not given.' }),
+        },
+        closed,
+      ),
+    ),
+    gathers: Type.Optional(
+      Type.Array(
+        Type.Object(
+          {
+            shotId: Type.String(),
+            revision: Type.Integer({ description: 'The revision the upload of this gather made.' }),
+            createdAt: Type.String(),
+            bytes: Type.Integer(),
+            traces: Type.String({ description: 'Path of its decimated traces.' }),
+          },
+          closed,
+        ),
+        { description: 'The shot gathers uploaded into this line (the latest file per shot id).' },
+      ),
+    ),
     shareUrl,
     links: LinksSchema,
     survey: SurveySchema,

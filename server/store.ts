@@ -38,6 +38,21 @@ const MIGRATIONS: readonly string[] = [
      revoked_at TEXT
    );
    CREATE INDEX share_tokens_by_survey ON share_tokens(survey_id);`,
+  // Issue 12: who stored a revision (a name the client gives; null for older revisions),
+  // and the shot gathers uploaded into a line, kept as the raw SEG-2 bytes with the
+  // geometry the request supplied, so the traces can be drawn again later. A gather row
+  // belongs to the revision its upload made; the latest row of a shot id is its gather.
+  `ALTER TABLE revisions ADD COLUMN author TEXT;
+   CREATE TABLE gathers (
+     survey_id TEXT NOT NULL REFERENCES surveys(id),
+     shot_id TEXT NOT NULL,
+     revision INTEGER NOT NULL,
+     seg2 BLOB NOT NULL,
+     overrides_json TEXT NOT NULL,
+     created_at TEXT NOT NULL,
+     PRIMARY KEY (survey_id, shot_id, revision),
+     FOREIGN KEY (survey_id, revision) REFERENCES revisions(survey_id, revision)
+   );`,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;
@@ -55,6 +70,28 @@ export interface RevisionSummary {
   revision: number;
   name: string;
   createdAt: string;
+  /** Who stored it, as the request named them; null when not given. */
+  author: string | null;
+}
+
+/** A shot gather stored with a revision: the SEG-2 file and the geometry the upload supplied. */
+export interface GatherInput {
+  shotId: string;
+  seg2: Uint8Array;
+  /** The query parameters of the upload (GatherOverrides), so a later reading gives the same geometry. */
+  overrides: Record<string, number>;
+}
+
+export interface StoredGather extends GatherInput {
+  /** The revision the upload made. */
+  revision: number;
+  createdAt: string;
+}
+
+/** What a write may record beside the survey: who, and the gather it came from. */
+export interface RevisionExtras {
+  author?: string | null;
+  gather?: GatherInput;
 }
 
 export interface StoredRevision extends RevisionSummary {
@@ -66,6 +103,7 @@ export interface RowCounts {
   surveys: number;
   revisions: number;
   shareTokens: number;
+  gathers: number;
 }
 
 /** Unguessable token: 32 random bytes (256 bits), base64url. */
@@ -156,15 +194,15 @@ export class SurveyStore {
   countRows(): RowCounts {
     const count = (table: string): number =>
       (this.db.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
-    return { surveys: count('surveys'), revisions: count('revisions'), shareTokens: count('share_tokens') };
+    return { surveys: count('surveys'), revisions: count('revisions'), shareTokens: count('share_tokens'), gathers: count('gathers') };
   }
 
   isEmpty(): boolean {
     return this.countRows().surveys === 0;
   }
 
-  /** Stores a new survey as revision 1 with a fresh share token. */
-  createSurvey(survey: Survey, interpretation: Interpretation): { summary: SurveySummary; revision: StoredRevision } {
+  /** Stores a new survey as revision 1 with a fresh share token (and its gather, in the same transaction). */
+  createSurvey(survey: Survey, interpretation: Interpretation, extras: RevisionExtras = {}): { summary: SurveySummary; revision: StoredRevision } {
     const id = newSurveyId();
     const token = newShareToken();
     const createdAt = this.now().toISOString();
@@ -173,17 +211,21 @@ export class SurveyStore {
       this.db
         .prepare('INSERT INTO surveys (id, name, created_at, updated_at, latest_revision) VALUES (?, ?, ?, ?, 1)')
         .run(id, name, createdAt, createdAt);
-      this.insertRevision(id, 1, survey, interpretation, createdAt);
+      this.insertRevision(id, 1, survey, interpretation, createdAt, extras);
       this.db.prepare('INSERT INTO share_tokens (token, survey_id, created_at) VALUES (?, ?, ?)').run(token, id, createdAt);
     })();
     return {
       summary: { id, name, createdAt, updatedAt: createdAt, latestRevision: 1, shareToken: token },
-      revision: { revision: 1, name, createdAt, survey, interpretation },
+      revision: { revision: 1, name, createdAt, author: extras.author ?? null, survey, interpretation },
     };
   }
 
-  /** Adds the next revision of a stored survey; null when the survey does not exist. */
-  addRevision(id: string, survey: Survey, interpretation: Interpretation): StoredRevision | null {
+  /**
+   * Adds the next revision of a stored survey (and its gather, in the same transaction);
+   * null when the survey does not exist. With `expectLatest`, also null (nothing written)
+   * when the latest revision is no longer that one: the caller built on it.
+   */
+  addRevision(id: string, survey: Survey, interpretation: Interpretation, extras: RevisionExtras = {}, expectLatest?: number): StoredRevision | null {
     const createdAt = this.now().toISOString();
     const name = nameOf(survey);
     return this.db.transaction((): StoredRevision | null => {
@@ -191,22 +233,61 @@ export class SurveyStore {
         | { latest_revision: number }
         | undefined;
       if (row === undefined) return null;
+      if (expectLatest !== undefined && row.latest_revision !== expectLatest) return null;
       const revision = row.latest_revision + 1;
-      this.insertRevision(id, revision, survey, interpretation, createdAt);
+      this.insertRevision(id, revision, survey, interpretation, createdAt, extras);
       this.db
         .prepare('UPDATE surveys SET latest_revision = ?, name = ?, updated_at = ? WHERE id = ?')
         .run(revision, name, createdAt, id);
-      return { revision, name, createdAt, survey, interpretation };
+      return { revision, name, createdAt, author: extras.author ?? null, survey, interpretation };
     })();
   }
 
-  private insertRevision(id: string, revision: number, survey: Survey, interpretation: Interpretation, createdAt: string): void {
+  private insertRevision(id: string, revision: number, survey: Survey, interpretation: Interpretation, createdAt: string, extras: RevisionExtras): void {
     this.db
       .prepare(
-        `INSERT INTO revisions (survey_id, revision, name, survey_json, interpretation_json, created_at)
-         VALUES (?, ?, ?, ?, ?, ?)`,
+        `INSERT INTO revisions (survey_id, revision, name, survey_json, interpretation_json, created_at, author)
+         VALUES (?, ?, ?, ?, ?, ?, ?)`,
       )
-      .run(id, revision, nameOf(survey), JSON.stringify(survey), JSON.stringify(interpretation), createdAt);
+      .run(id, revision, nameOf(survey), JSON.stringify(survey), JSON.stringify(interpretation), createdAt, extras.author ?? null);
+    const gather = extras.gather;
+    if (gather !== undefined) {
+      this.db
+        .prepare('INSERT INTO gathers (survey_id, shot_id, revision, seg2, overrides_json, created_at) VALUES (?, ?, ?, ?, ?, ?)')
+        .run(id, gather.shotId, revision, Buffer.from(gather.seg2.buffer, gather.seg2.byteOffset, gather.seg2.byteLength), JSON.stringify(gather.overrides), createdAt);
+    }
+  }
+
+  /** The latest gather uploaded for each shot id of a survey, without the bytes, by shot id. */
+  listGathers(id: string): { shotId: string; revision: number; createdAt: string; bytes: number }[] {
+    const rows = this.db
+      .prepare(
+        `SELECT shot_id, revision, created_at, length(seg2) AS bytes FROM gathers g
+         WHERE survey_id = ? AND revision = (SELECT MAX(revision) FROM gathers h WHERE h.survey_id = g.survey_id AND h.shot_id = g.shot_id)
+         ORDER BY shot_id`,
+      )
+      .all(id) as { shot_id: string; revision: number; created_at: string; bytes: number }[];
+    return rows.map((r) => ({ shotId: r.shot_id, revision: r.revision, createdAt: r.created_at, bytes: r.bytes }));
+  }
+
+  /** The latest gather uploaded for a shot id (at or before `atRevision` when given); null when none. */
+  getGather(id: string, shotId: string, atRevision?: number): StoredGather | null {
+    const row = this.db
+      .prepare(
+        `SELECT shot_id, revision, seg2, overrides_json, created_at FROM gathers
+         WHERE survey_id = ? AND shot_id = ? AND revision <= ? ORDER BY revision DESC LIMIT 1`,
+      )
+      .get(id, shotId, atRevision ?? Number.MAX_SAFE_INTEGER) as
+      | { shot_id: string; revision: number; seg2: Buffer; overrides_json: string; created_at: string }
+      | undefined;
+    if (row === undefined) return null;
+    return {
+      shotId: row.shot_id,
+      revision: row.revision,
+      createdAt: row.created_at,
+      seg2: new Uint8Array(row.seg2.buffer, row.seg2.byteOffset, row.seg2.byteLength),
+      overrides: JSON.parse(row.overrides_json) as Record<string, number>,
+    };
   }
 
   private static readonly SUMMARY_SELECT = `SELECT s.id, s.name, s.created_at, s.updated_at, s.latest_revision,
@@ -229,9 +310,9 @@ export class SurveyStore {
 
   listRevisions(id: string): RevisionSummary[] {
     const rows = this.db
-      .prepare('SELECT revision, name, created_at FROM revisions WHERE survey_id = ? ORDER BY revision')
-      .all(id) as { revision: number; name: string; created_at: string }[];
-    return rows.map((r) => ({ revision: r.revision, name: r.name, createdAt: r.created_at }));
+      .prepare('SELECT revision, name, created_at, author FROM revisions WHERE survey_id = ? ORDER BY revision')
+      .all(id) as { revision: number; name: string; created_at: string; author: string | null }[];
+    return rows.map((r) => ({ revision: r.revision, name: r.name, createdAt: r.created_at, author: r.author }));
   }
 
   /** One revision (the latest when `revision` is undefined); null when absent. */
@@ -246,13 +327,14 @@ export class SurveyStore {
             .get(id)
         : this.db.prepare('SELECT * FROM revisions WHERE survey_id = ? AND revision = ?').get(id, revision)
     ) as
-      | { revision: number; name: string; survey_json: string; interpretation_json: string; created_at: string }
+      | { revision: number; name: string; survey_json: string; interpretation_json: string; created_at: string; author: string | null }
       | undefined;
     if (row === undefined) return null;
     return {
       revision: row.revision,
       name: row.name,
       createdAt: row.created_at,
+      author: row.author,
       survey: JSON.parse(row.survey_json) as Survey,
       interpretation: JSON.parse(row.interpretation_json) as Interpretation,
     };

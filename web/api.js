@@ -48,6 +48,7 @@
  * @property {string} [shareUrl]
  * @property {Survey} [survey]
  * @property {Interpretation} [interpretation]
+ * @property {{ shotId: string, revision: number }[]} [gathers] the shot gathers uploaded into the line
  */
 
 /** POST /api/v1/surveys and …/revisions. @typedef {{ id: string, shareUrl?: string, revision?: number }} StoreAnswer */
@@ -272,8 +273,9 @@ export const LAYOUT_CHANGED_STATUS = 409;
  * @param {boolean} [confirmLayoutChange]
  * @returns {string}
  */
-export function revisionsPath(id, confirmLayoutChange = false) {
-  return 'api/v1/surveys/' + encodeURIComponent(id) + '/revisions' + (confirmLayoutChange ? '?' + LAYOUT_CHANGE_CONFIRMATION : '');
+export function revisionsPath(id, confirmLayoutChange = false, author = '') {
+  const query = [confirmLayoutChange ? LAYOUT_CHANGE_CONFIRMATION : '', author ? 'author=' + encodeURIComponent(author) : ''].filter(Boolean).join('&');
+  return 'api/v1/surveys/' + encodeURIComponent(id) + '/revisions' + (query ? '?' + query : '');
 }
 
 /**
@@ -284,10 +286,31 @@ export function revisionsPath(id, confirmLayoutChange = false) {
  * @param {string} bodyText
  * @param {BodyFormat} format
  * @param {boolean} [confirmLayoutChange]
+ * @param {string} [author] who stores it (recorded with the revision)
  * @returns {Promise<Result<StoreAnswer>>}
  */
-export function storeRevision(id, bodyText, format, confirmLayoutChange = false) {
-  return request(revisionsPath(id, confirmLayoutChange), surveyPost(bodyText, format, readWriteToken()));
+export function storeRevision(id, bodyText, format, confirmLayoutChange = false, author = '') {
+  return request(revisionsPath(id, confirmLayoutChange, author), surveyPost(bodyText, format, readWriteToken()));
+}
+
+/**
+ * A stored gather decimated for display (min/max per time column).
+ * @typedef {{ channel: number, x: number, peak: number, min: number[], max: number[] }} DecimatedTrace
+ * @typedef {{ shotId: string, fromMs: number, toMs: number, columns: number, columnMs: number, traces: DecimatedTrace[] }} DecimatedGather
+ */
+
+/**
+ * GET /api/v1/surveys/:id/gathers/:shotId/traces?columns=…&fromMs=…&toMs=…
+ * @param {string} id
+ * @param {string} shotId
+ * @param {{ columns: number, fromMs?: number, toMs?: number }} window
+ * @returns {Promise<Result<DecimatedGather>>}
+ */
+export function fetchGatherTraces(id, shotId, window) {
+  const query = ['columns=' + window.columns];
+  if (window.fromMs !== undefined) query.push('fromMs=' + window.fromMs);
+  if (window.toMs !== undefined) query.push('toMs=' + window.toMs);
+  return request('api/v1/surveys/' + encodeURIComponent(id) + '/gathers/' + encodeURIComponent(shotId) + '/traces?' + query.join('&'), GET);
 }
 
 /**

@@ -5,6 +5,7 @@ import {
   LAYOUT_CHANGED_STATUS, fetchLine, fetchSectionSheets, lineFileUrls, listLines, previewLine, readWriteToken, saveWriteToken, sectionSheetUrl,
   storeLine, storeRevision, withSheetQuery,
 } from './api.js';
+import { showGatherReview } from './gather-review.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
@@ -568,6 +569,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   ui.filesPanel.hidden = false;
 
   showShareLink(shareUrlFromStore ?? result.data?.shareUrl);
+  if (result.data) showGatherReview(result.data, (storedId, storedRevision) => void refreshAfterPicks(storedId, storedRevision));
   markOpenInList();
   history.replaceState(null, '', '#line=' + encodeURIComponent(id) + (shown !== latest ? '&revision=' + shown : ''));
   setStatus('Opened “' + name + '”' + (several ? ', revision ' + shown + ' of ' + latest : '') + '.');
@@ -618,6 +620,17 @@ function setDownload(id, url, fileName) {
   const link = $(id, HTMLAnchorElement);
   link.href = url;
   link.setAttribute('download', fileName);
+}
+
+/**
+ * After corrected picks were stored (web/gather-review.js): the list and the line at the
+ * new revision, whose figures the service drew from the re-interpretation.
+ * @param {string} id
+ * @param {number} revision
+ */
+async function refreshAfterPicks(id, revision) {
+  await refreshList();
+  await openStoredLine(id, undefined, revision);
 }
 
 async function refreshList() {

@@ -1,7 +1,7 @@
 /**
  * The computations the service hands to its worker threads, by name: everything that costs
  * more than reading or writing a stored record (interpreting a line, drawing a figure,
- * making a synthetic line, writing a PDF or PNG, reading and picking a SEG-2 gather). Pure functions of their input, so a worker can run any of
+ * making a synthetic line, writing a PDF or PNG, reading and picking or decimating a SEG-2 gather). Pure functions of their input, so a worker can run any of
  * them and the main thread never does.
  */
 import { interpret } from '../../engine/pipeline/interpret.js';
@@ -15,6 +15,7 @@ import { exportFile, type ExportRequest } from '../export/export-file.js';
 import type { ExportResult } from '../export/section-pages.js';
 import { gatherPicksFromSeg2, type GatherPicksResult } from '../../engine/picking/gather-picks.js';
 import type { GatherOverrides } from '../../engine/seg2/gather.js';
+import { decimatedGatherFromSeg2, type DecimatedGatherResult } from '../../engine/seg2/decimate.js';
 
 /** `grm`: the GRM functions of every XY (a page saying there are none on a line not interpreted by GRM). */
 export type Figure = 'section' | 'traveltimes' | 'grm';
@@ -38,6 +39,8 @@ export interface TaskTable {
   exportFile: { input: ExportRequest; result: Promise<ExportResult> };
   /** One SEG-2 shot gather read and picked (POST /api/v1/gathers/picks). */
   gatherPicks: { input: { bytes: Uint8Array; overrides: GatherOverrides }; result: GatherPicksResult };
+  /** A stored SEG-2 gather read and decimated for display (GET …/gathers/:shotId/traces). */
+  gatherTraces: { input: { bytes: Uint8Array; overrides: GatherOverrides; columns?: number; fromMs?: number; toMs?: number }; result: DecimatedGatherResult };
 }
 
 /** Both drawings of a line: the section's first sheet, every sheet of it (a long line is paged), and the plot. */
@@ -82,6 +85,7 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
   },
   exportFile: (request) => exportFile(request),
   gatherPicks: ({ bytes, overrides }) => gatherPicksFromSeg2(bytes, overrides),
+  gatherTraces: ({ bytes, overrides, columns, fromMs, toMs }) => decimatedGatherFromSeg2(bytes, overrides, { columns, fromMs, toMs }),
 };
 
 /** Runs one task here, in this thread (the worker's entry calls this). */

@@ -24,8 +24,8 @@ import type { GatherOverrides } from '../../engine/seg2/gather.js';
 export const GATHER_BODY_LIMIT_BYTES = 32 * 1024 * 1024;
 
 const metres = (description: string) => Type.Optional(Type.Number({ description }));
-const querySchema = Type.Object(
-  {
+/** The query parameters that supply or override a gather's geometry (GatherOverrides). */
+export const gatherOverrideProperties = {
     shotX: metres('Shot position along the line, m (instead of or over SOURCE_LOCATION).'),
     shotElevation: metres('Shot elevation, m.'),
     geophoneX0: metres("x of the first trace's geophone, m; with geophoneSpacing places every geophone in trace order (instead of or over RECEIVER_LOCATION)."),
@@ -33,12 +33,11 @@ const querySchema = Type.Object(
     geophoneElevation: metres('One elevation for every geophone, m.'),
     sampleIntervalMs: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Sample interval, ms (instead of or over SAMPLE_INTERVAL).' })),
     delayMs: Type.Optional(Type.Number({ description: 'Time of the first sample after the shot, ms; negative for pre-trigger samples (instead of or over DELAY).' })),
-  },
-  { additionalProperties: false },
-);
+};
+const querySchema = Type.Object(gatherOverrideProperties, { additionalProperties: false });
 
 const Point = Type.Object({ x: Type.Number(), elevation: Type.Number() }, { additionalProperties: false });
-const GatherPicksSchema = Type.Object(
+export const GatherPicksSchema = Type.Object(
   {
     shot: Point,
     geophones: Type.Array(Point),

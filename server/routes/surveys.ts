@@ -8,7 +8,9 @@ import { clientGone } from '../compute/client-gone.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
 import { AppError } from '../errors.js';
 import { surveyFromRequest, surveyInput } from '../survey-input.js';
+import { Type } from '@sinclair/typebox';
 import {
+  authorQuerySchema,
   errorResponses,
   fileResponse,
   revisionQuerySchema,
@@ -44,6 +46,7 @@ interface SectionSvgQuery extends RevisionQuery {
 }
 interface RevisionWriteQuery {
   layoutChange?: typeof LAYOUT_CHANGE_CONFIRM;
+  author?: string;
 }
 
 const tags = ['surveys'];
@@ -53,7 +56,8 @@ function revisionRead(summary: string, ok: object) {
   return { schema: { summary, tags, querystring: revisionQuerySchema, response: { 200: ok, ...errorResponses(400, 404) } } };
 }
 
-function links(id: string, revision: number, latest: number): Record<string, string> {
+/** The paths of one revision's views. */
+export function links(id: string, revision: number, latest: number): Record<string, string> {
   const query = revision === latest ? '' : `?revision=${revision}`;
   const base = `/api/v1/surveys/${id}`;
   return {
@@ -94,13 +98,16 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     requireRevision(store, id, revision);
 
   const writeErrors = errorResponses(400, 401, 413);
-  app.post(
+  app.post<{ Querystring: { author?: string } }>(
     '/api/v1/surveys',
-    { onRequest: guard, ...surveyInput({ summary: 'Store a survey and its interpretation.', tags, response: { 201: SurveyCreatedSchema, ...writeErrors } }) },
+    {
+      onRequest: guard,
+      ...surveyInput({ summary: 'Store a survey and its interpretation.', tags, querystring: Type.Object({ author: authorQuerySchema }), response: { 201: SurveyCreatedSchema, ...writeErrors } }),
+    },
     async (request, reply) => {
     const survey = surveyFromRequest(request);
     const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
-    const { summary, revision } = store.createSurvey(survey, interpretation);
+    const { summary, revision } = store.createSurvey(survey, interpretation, { author: request.query.author ?? null });
     reply.status(201).header('Location', `/api/v1/surveys/${summary.id}`);
     return {
       id: summary.id,
@@ -130,6 +137,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
         revisionCreatedAt: stored.createdAt,
         latestRevision: summary.latestRevision,
         revisions: store.listRevisions(summary.id),
+        gathers: store.listGathers(summary.id).map((g) => ({ ...g, traces: `/api/v1/surveys/${summary.id}/gathers/${encodeURIComponent(g.shotId)}/traces` })),
         shareUrl: shareUrlFor(summary.shareToken),
         links: links(summary.id, stored.revision, summary.latestRevision),
         survey: stored.survey,
@@ -246,7 +254,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
     requireSameLayout(id, survey, confirmed);
     const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
     requireSameLayout(id, survey, confirmed);
-    const stored = store.addRevision(id, survey, interpretation);
+    const stored = store.addRevision(id, survey, interpretation, { author: request.query.author ?? null });
     if (stored === null) throw new AppError('survey_not_found');
     reply.status(201).header('Location', `/api/v1/surveys/${id}?revision=${stored.revision}`);
     return {
@@ -255,6 +263,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
       createdAt: summary.createdAt,
       revision: stored.revision,
       revisionCreatedAt: stored.createdAt,
+      author: stored.author,
       shareUrl: shareUrlFor(summary.shareToken),
       url: `/api/v1/surveys/${id}?revision=${stored.revision}`,
       links: links(id, stored.revision, stored.revision),

@@ -1,6 +1,8 @@
 /**
  * Writes the invented demo lines to samples/ as JSON survey documents and CSV pick tables:
- * samples/demo-line.json, samples/demo-line.csv, samples/flat-line.json, samples/flat-line.csv.
+ * samples/demo-line.json, samples/demo-line.csv, samples/flat-line.json, samples/flat-line.csv,
+ * and Demo A's shot gathers as SEG-2 files, samples/demo-line-<shot>.sg2 (invented data,
+ * engine/samples/demo-gathers.ts).
  *
  * Run after a build: `node dist/server/tools/write-samples.js` (npm script `samples`).
  * The files are derived data; tests/engine/samples.test.ts fails when they drift from
@@ -10,6 +12,7 @@ import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { demoLine, flatLine } from '../../engine/samples/demo-lines.js';
+import { demoGathers } from '../../engine/samples/demo-gathers.js';
 import { surveyToPickTable } from '../../engine/survey/csv-import.js';
 import type { Survey } from '../../engine/survey/survey.js';
 
@@ -42,6 +45,11 @@ export function writeSamples(root: string): string[] {
     writeFileSync(jsonPath, sampleJson(survey));
     writeFileSync(csvPath, surveyToPickTable(survey));
     written.push(jsonPath, csvPath);
+  }
+  for (const gather of demoGathers()) {
+    const path = join(dir, gather.fileName);
+    writeFileSync(path, gather.bytes);
+    written.push(path);
   }
   return written;
 }

@@ -155,6 +155,9 @@ describe('GET /api/v1/openapi.json', () => {
     ['get', '/share/{token}/section.png'],
     ['get', '/share/{token}/traveltimes.pdf'],
     ['get', '/share/{token}/traveltimes.png'],
+    ['post', '/api/v1/surveys/gathers'],
+    ['post', '/api/v1/surveys/{id}/gathers'],
+    ['get', '/api/v1/surveys/{id}/gathers/{shotId}/traces'],
   ];
   let doc: { openapi: string; paths: Record<string, Record<string, any>> };
   beforeAll(async () => {

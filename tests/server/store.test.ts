@@ -52,7 +52,7 @@ describe('SurveyStore on disk', () => {
     const second = new SurveyStore(dataDir);
     try {
       expect(second.schemaVersion()).toBe(SCHEMA_VERSION);
-      expect(second.countRows()).toEqual({ surveys: 1, revisions: 2, shareTokens: 1 });
+      expect(second.countRows()).toEqual({ surveys: 1, revisions: 2, shareTokens: 1, gathers: 0 });
       expect(second.getRevision(summary.id, 1)?.survey).toEqual(survey);
       expect(second.getRevision(summary.id)?.name).toBe('Second');
       expect(second.surveyIdForToken(summary.shareToken!)).toBe(summary.id);
@@ -77,7 +77,7 @@ describe('SurveyStore revisions and tokens', () => {
       expect(store.getSummary(summary.id)?.latestRevision).toBe(3);
       expect(store.getRevision(summary.id, 4)).toBeNull();
       expect(store.addRevision('missing', survey, interpretation)).toBeNull();
-      expect(store.countRows()).toEqual({ surveys: 1, revisions: 3, shareTokens: 1 });
+      expect(store.countRows()).toEqual({ surveys: 1, revisions: 3, shareTokens: 1, gathers: 0 });
     } finally {
       store.close();
     }
