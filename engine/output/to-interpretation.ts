@@ -68,6 +68,8 @@ export function toInterpretation(r: LineRecord): Interpretation {
   const elevation = survey.geophones.map((g) => g.elevation ?? 0);
   const { normalDepthM, verticalDepthM } = section.depths;
   const plusTimeMs = plus.combined.plusTimeMs;
+  // On GRM lines the same pairs, with as many picks each, stand behind every time-depth (read
+  // at X and Y instead of G), so the same shared-pick propagation applies.
   const plusSigmaMs = plusSigmaWithSharedPicksMs(plus.pairs, plus.combined.contributing, r.pickSigmaMs);
   const stations: Station[] = survey.geophones.map((g, i) => {
     const depth = verticalDepthM[i];

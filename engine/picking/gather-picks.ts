@@ -5,8 +5,7 @@
  * A file that cannot be read comes back as {error} with the byte offset, not thrown, so it
  * crosses the worker boundary intact.
  */
-import { gatherFromSeg2, type GatherOverrides } from '../seg2/gather.js';
-import { Seg2Error } from '../seg2/types.js';
+import { tryGatherFromSeg2, type GatherOverrides } from '../seg2/gather.js';
 import { pickGather, type TraceStatus } from './pick-gather.js';
 import { roundTo } from '../shared/numbers.js';
 
@@ -28,13 +27,9 @@ export type GatherPicksResult = { ok: true; picks: GatherPicksResponse } | { ok:
 
 /** Times to 0.01 ms (the service's output precision), confidence to 0.01. */
 export function gatherPicksFromSeg2(bytes: Uint8Array, overrides: GatherOverrides = {}): GatherPicksResult {
-  let gather;
-  try {
-    gather = gatherFromSeg2(bytes, overrides);
-  } catch (error) {
-    if (error instanceof Seg2Error) return { ok: false, error: { code: error.code, message: error.message, byteOffset: error.byteOffset } };
-    throw error;
-  }
+  const read = tryGatherFromSeg2(bytes, overrides);
+  if (!read.ok) return read;
+  const gather = read.gather;
   const picks = pickGather(gather.traces);
   const warnings = [...gather.warnings];
   picks.reversed.forEach((r, i) => {

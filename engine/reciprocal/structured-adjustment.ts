@@ -32,6 +32,7 @@
  */
 import type { AdjustablePair } from './reciprocal-adjustment.js';
 import { zeros, type Doubles } from '../shared/zeros.js';
+import { factorInPlace, lowerInverse } from '../shared/dense-cholesky.js';
 
 /** Two pick variances within this many times the T+ variance are one class (the rounding of v − var(tAB): 16 ulps). */
 const ROUNDING_TOLERANCE = 16 * Number.EPSILON;
@@ -178,24 +179,6 @@ export function planStructuredAdjustment(pairWork: readonly AdjustablePair[]): S
   };
 }
 
-/** Lower Cholesky factor of a small dense symmetric matrix in place (row-major n×n); false when not positive definite. */
-function factorInPlace(a: Doubles, n: number): boolean {
-  for (let j = 0; j < n; j++) {
-    let d = a[j * n + j];
-    for (let c = 0; c < j; c++) d -= a[j * n + c] * a[j * n + c];
-    if (!(d > 0)) return false;
-    const ljj = Math.sqrt(d);
-    a[j * n + j] = ljj;
-    for (let r = j + 1; r < n; r++) {
-      let s = a[r * n + j];
-      for (let c = 0; c < j; c++) s -= a[r * n + c] * a[j * n + c];
-      a[r * n + j] = s / ljj;
-    }
-    for (let c = j + 1; c < n; c++) a[j * n + c] = 0;
-  }
-  return true;
-}
-
 /**
  * M ← Lᵀ·M·L (lowerFromRight) or L·M·Lᵀ for L block-diagonal (blocks `factors` at `offset`), M dense R×R row-major, in
  * place. Cost O(R·Σ_g R_g²).
@@ -302,17 +285,4 @@ function solveStructured(
   return { shifts, inverseDiagonal };
 }
 
-/** Inverse of a lower-triangular matrix (row-major n×n), column by column: n³/6 multiply-adds. */
-function lowerInverse(l: Doubles, n: number): Doubles {
-  const inv = zeros(n * n);
-  for (let m = 0; m < n; m++) {
-    inv[m * n + m] = 1 / l[m * n + m];
-    for (let r = m + 1; r < n; r++) {
-      let s = 0;
-      for (let c = m; c < r; c++) s -= l[r * n + c] * inv[c * n + m];
-      inv[r * n + m] = s / l[r * n + r];
-    }
-  }
-  return inv;
-}
 

@@ -8,8 +8,7 @@
  * window (`peak`, in the file's units), rounded to 0.001, so a gather's JSON stays small;
  * a dead trace (peak 0) is all zeros.
  */
-import { gatherFromSeg2, type GatherOverrides, type GatherTrace } from './gather.js';
-import { Seg2Error } from './types.js';
+import { tryGatherFromSeg2, type GatherOverrides, type GatherTrace } from './gather.js';
 import { roundTo } from '../shared/numbers.js';
 
 export interface DecimatedTrace {
@@ -107,13 +106,9 @@ export function decimatedGatherFromSeg2(
   overrides: GatherOverrides,
   request: { columns?: number; fromMs?: number; toMs?: number },
 ): DecimatedGatherResult {
-  let gather;
-  try {
-    gather = gatherFromSeg2(bytes, overrides);
-  } catch (error) {
-    if (error instanceof Seg2Error) return { ok: false, error: { code: error.code, message: error.message, byteOffset: error.byteOffset } };
-    throw error;
-  }
+  const read = tryGatherFromSeg2(bytes, overrides);
+  if (!read.ok) return read;
+  const gather = read.gather;
   const record = recordWindowMs(gather.traces);
   const fromMs = Math.max(record.fromMs, request.fromMs ?? record.fromMs);
   const toMs = Math.min(record.toMs, request.toMs ?? record.toMs);

@@ -71,6 +71,23 @@ export function snapSampleIntervalMs(writtenMs: number): { ms: number; snapped: 
   return { ms: writtenMs, snapped: false };
 }
 
+/** A file that could not be read, as the routes answer it: the reader's code, words and byte offset. */
+export interface Seg2Refusal {
+  code: string;
+  message: string;
+  byteOffset: number;
+}
+
+/** gatherFromSeg2 as a result: the gather, or the Seg2Error's refusal (any other error still throws). */
+export function tryGatherFromSeg2(bytes: Uint8Array, overrides: GatherOverrides = {}): { ok: true; gather: Gather } | { ok: false; error: Seg2Refusal } {
+  try {
+    return { ok: true, gather: gatherFromSeg2(bytes, overrides) };
+  } catch (error) {
+    if (error instanceof Seg2Error) return { ok: false, error: { code: error.code, message: error.message, byteOffset: error.byteOffset } };
+    throw error;
+  }
+}
+
 /** Reads the bytes and builds the gather; throws Seg2Error (with the byte offset) when it cannot. O(file length + n log n). */
 export function gatherFromSeg2(bytes: Uint8Array, overrides: GatherOverrides = {}): Gather {
   const { file, traceOffsets, warnings } = readSeg2(bytes);

@@ -24,6 +24,7 @@
  * i.e. linear in picks for a line of many geophones and tens of shots; memory O(nnz + |S|²).
  * Units: m, ms, m/s (slowness in ms/m).
  */
+import { factorInPlace, inverseFromFactor } from '../shared/dense-cholesky.js';
 
 /** One head-wave pick: shot index, geophone index, time (ms). */
 export interface TimeTermObservation {
@@ -181,14 +182,15 @@ export function invertTimeTerms(input: TimeTermInput): TimeTermSolution | TimeTe
       for (const [q, vq] of b) sc[p * sSize + q] -= vp * vq * inv;
     }
   }
-  const factor = cholesky(sc, sSize);
-  if (!factor) {
+  let largest = 0;
+  for (let p = 0; p < sSize; p++) largest = Math.max(largest, Math.abs(sc[p * sSize + p]));
+  if (!factorInPlace(sc, sSize, SINGULAR_RELATIVE * largest)) {
     return {
       ok: false,
       reason: 'the picks do not fix every time term: shot and geophone terms can trade against each other (no shot at or between geophones ties them); add a shot within the spread',
     };
   }
-  const scInverse = inverseFromCholesky(factor, sSize);
+  const scInverse = inverseFromFactor(sc, sSize);
   const xs = new Float64Array(sSize);
   for (let p = 0; p < sSize; p++) {
     let s = 0;
@@ -213,17 +215,14 @@ export function invertTimeTerms(input: TimeTermInput): TimeTermSolution | TimeTe
     inverseDiagonal[c] = 1 / d[c] + quadratic / (d[c] * d[c]);
   }
 
-  const residualMs = observations.map((_, r) => {
-    let model = 0;
-    for (const e of rows[r].entries) model += e.value * x[e.col];
-    return rows[r].rhs - model;
-  });
-  let rss = 0;
-  for (const row of rows) {
+  // Residuals of every row (observations first, then ties); the RSS counts the ties too.
+  const rowResidual = rows.map((row) => {
     let model = 0;
     for (const e of row.entries) model += e.value * x[e.col];
-    rss += (row.rhs - model) ** 2;
-  }
+    return row.rhs - model;
+  });
+  const residualMs = rowResidual.slice(0, observations.length);
+  const rss = rowResidual.reduce((sum, r) => sum + r * r, 0);
   const dof = rows.length - columns;
   const sigmaMs = Math.max(input.pickSigmaMs, dof > 0 ? Math.sqrt(rss / dof) : 0);
   const sd = (c: number): number => sigmaMs * Math.sqrt(Math.max(0, inverseDiagonal[c]));
@@ -250,47 +249,4 @@ export function invertTimeTerms(input: TimeTermInput): TimeTermSolution | TimeTe
     count: observations.length,
     unknowns: columns,
   };
-}
-
-/** Lower Cholesky factor of a symmetric n×n matrix (row-major), or null when not positive definite. O(n³/3). */
-function cholesky(a: Float64Array, n: number): Float64Array | null {
-  const l = new Float64Array(n * n);
-  let largest = 0;
-  for (let i = 0; i < n; i++) largest = Math.max(largest, Math.abs(a[i * n + i]));
-  for (let j = 0; j < n; j++) {
-    let diag = a[j * n + j];
-    for (let k = 0; k < j; k++) diag -= l[j * n + k] * l[j * n + k];
-    if (!(diag > SINGULAR_RELATIVE * largest)) return null;
-    const ljj = Math.sqrt(diag);
-    l[j * n + j] = ljj;
-    for (let i = j + 1; i < n; i++) {
-      let s = a[i * n + j];
-      for (let k = 0; k < j; k++) s -= l[i * n + k] * l[j * n + k];
-      l[i * n + j] = s / ljj;
-    }
-  }
-  return l;
-}
-
-/** (L·Lᵀ)⁻¹ from the Cholesky factor: the inverse of L, then L⁻ᵀ·L⁻¹. O(n³). */
-function inverseFromCholesky(l: Float64Array, n: number): Float64Array {
-  const li = new Float64Array(n * n);
-  for (let j = 0; j < n; j++) {
-    li[j * n + j] = 1 / l[j * n + j];
-    for (let i = j + 1; i < n; i++) {
-      let s = 0;
-      for (let k = j; k < i; k++) s -= l[i * n + k] * li[k * n + j];
-      li[i * n + j] = s / l[i * n + i];
-    }
-  }
-  const inv = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = 0;
-      for (let k = i; k < n; k++) s += li[k * n + i] * li[k * n + j];
-      inv[i * n + j] = s;
-      inv[j * n + i] = s;
-    }
-  }
-  return inv;
 }

@@ -2,22 +2,14 @@
 // synthetic gather over the closed-form planar refractor) in, the contract's gather picks
 // out (api-v1.md: shot, geophones, sampleIntervalMs, times, confidence); broken files
 // answer 400 invalid_seg2 naming the byte offset; geometry from query parameters.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import type { FastifyInstance } from 'fastify';
-import { buildApp } from '../../server/app.js';
 import { writeSeg2 } from '../../engine/seg2/write.js';
 import { syntheticGather } from '../../engine/forward/synthetic-gather.js';
 import { spec } from '../helpers/picker-lines.js';
+import { memoryApp } from '../helpers/memory-app.js';
 
-let app: FastifyInstance;
-beforeAll(async () => {
-  app = await buildApp({ dataDir: ':memory:', webRoot: null });
-  await app.ready();
-});
-afterAll(async () => {
-  await app.close();
-});
+const server = memoryApp();
 
 const s = spec(-20, 30, 42);
 const { traces, firstArrivalsMs } = syntheticGather(s);
@@ -43,7 +35,7 @@ function gatherFile(geometry = true): Buffer {
 }
 
 const post = (body: Buffer, query = '', type = 'application/octet-stream') =>
-  request(app.server).post(`/api/v1/gathers/picks${query}`).set('Content-Type', type).serialize((b: Buffer) => b as unknown as string).send(body);
+  request(server.app.server).post(`/api/v1/gathers/picks${query}`).set('Content-Type', type).serialize((b: Buffer) => b as unknown as string).send(body);
 
 describe('POST /api/v1/gathers/picks', () => {
   it('answers the contract’s gather picks, geometry from the header strings, times shifted by DELAY', async () => {
@@ -102,7 +94,7 @@ describe('POST /api/v1/gathers/picks', () => {
   });
 
   it('other routes still refuse octet-stream bodies', async () => {
-    const res = await request(app.server).post('/api/v1/interpretations').set('Content-Type', 'application/octet-stream').serialize((b: Buffer) => b as unknown as string).send(gatherFile());
+    const res = await request(server.app.server).post('/api/v1/interpretations').set('Content-Type', 'application/octet-stream').serialize((b: Buffer) => b as unknown as string).send(gatherFile());
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('seg2_file');
   });

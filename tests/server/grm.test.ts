@@ -2,10 +2,9 @@
 // Palmer 1980 for the functions): the interpretation carries the XY functions, the stored
 // line draws them, the preview bundle has them, and time-term is still refused with a 400.
 import { readFileSync } from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import type { FastifyInstance } from 'fastify';
-import { buildApp } from '../../server/app.js';
+import { memoryApp } from '../helpers/memory-app.js';
 
 const demo = JSON.parse(readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8'));
 const withMethod = (method: string) => JSON.stringify({ ...demo, options: { ...(demo.options ?? {}), method } });
@@ -15,18 +14,11 @@ const asText = (r: request.Response, cb: (err: Error | null, body: unknown) => v
   r.on('end', () => cb(null, text));
 };
 
-let app: FastifyInstance;
-beforeAll(async () => {
-  app = await buildApp({ dataDir: ':memory:' });
-  await app.ready();
-});
-afterAll(async () => {
-  await app.close();
-});
+const server = memoryApp({ webRoot: undefined });
 
 describe('options.method "grm"', () => {
   it('interprets by GRM: method echoed, the XY functions in `grm`, one station per geophone', async () => {
-    const res = await request(app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('grm'));
+    const res = await request(server.app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('grm'));
     expect(res.status).toBe(200);
     expect(res.body.method).toBe('grm');
     expect(res.body.stations).toHaveLength(demo.geophones.length);
@@ -39,14 +31,14 @@ describe('options.method "grm"', () => {
   });
 
   it('leaves a plus-minus answer without `grm`', async () => {
-    const res = await request(app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
+    const res = await request(server.app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
     expect(res.status).toBe(200);
     expect(res.body.method).toBe('plus-minus');
     expect(res.body.grm).toBeUndefined();
   });
 
   it('refuses time-term with a 400 naming the field', async () => {
-    const res = await request(app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('time-term'));
+    const res = await request(server.app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('time-term'));
     expect(res.status).toBe(400);
     expect(res.body.error.path).toBe('/options/method');
     expect(res.body.error.problems.map((p: { code: string }) => p.code)).toContain('method-not-available');
@@ -54,25 +46,25 @@ describe('options.method "grm"', () => {
   });
 
   it('draws the stored line\'s GRM functions, and says there are none for a plus-minus line', async () => {
-    const stored = await request(app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(withMethod('grm'));
+    const stored = await request(server.app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(withMethod('grm'));
     expect(stored.status).toBe(201);
-    const res = await request(app.server).get(`/api/v1/surveys/${stored.body.id}/grm.svg`).buffer(true).parse(asText);
+    const res = await request(server.app.server).get(`/api/v1/surveys/${stored.body.id}/grm.svg`).buffer(true).parse(asText);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/^image\/svg\+xml/);
     expect(res.body as string).toContain('data-role="xy-optimum"');
     expect(res.body as string).toContain('generalised reciprocal method');
-    const pm = await request(app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
-    const none = await request(app.server).get(`/api/v1/surveys/${pm.body.id}/grm.svg`).buffer(true).parse(asText);
+    const pm = await request(server.app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
+    const none = await request(server.app.server).get(`/api/v1/surveys/${pm.body.id}/grm.svg`).buffer(true).parse(asText);
     expect(none.status).toBe(200);
     expect(none.body as string).toContain('data-role="grm-none"');
   });
 
   it('puts the GRM functions in the preview bundle only for a GRM line', async () => {
-    const grm = await request(app.server).post('/api/v1/previews').set('Content-Type', 'application/json').send(withMethod('grm'));
+    const grm = await request(server.app.server).post('/api/v1/previews').set('Content-Type', 'application/json').send(withMethod('grm'));
     expect(grm.status).toBe(200);
     expect(grm.body.grmSvg).toMatch(/<svg[\s>]/);
     expect(grm.body.sectionSvg).toContain('generalised reciprocal method');
-    const pm = await request(app.server).post('/api/v1/previews').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
+    const pm = await request(server.app.server).post('/api/v1/previews').set('Content-Type', 'application/json').send(withMethod('plus-minus'));
     expect(pm.body.grmSvg).toBeUndefined();
   });
 });

@@ -2,34 +2,27 @@
 // (samples/, invented data from the closed-form planar refractor) uploaded one per shot
 // build the line revision by revision; refused uploads (broken file, other layout, no
 // write token) leave the store exactly as it was; the stored gathers come back decimated.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import type { FastifyInstance } from 'fastify';
 import { buildApp } from '../../server/app.js';
 import { demoGathers, DEMO_GATHER_RECORDING } from '../../engine/samples/demo-gathers.js';
 import { demoLine, demoLineModel } from '../../engine/samples/demo-lines.js';
 import { syntheticGather } from '../../engine/forward/synthetic-gather.js';
+import { memoryApp } from '../helpers/memory-app.js';
 
 const gathers = demoGathers();
 const line = demoLine();
 const DT = DEMO_GATHER_RECORDING.sampleIntervalMs;
 const fileOf = (shotId: string): Buffer => Buffer.from(gathers.find((g) => g.shotId === shotId)!.bytes);
 
-let app: FastifyInstance;
-beforeAll(async () => {
-  app = await buildApp({ dataDir: ':memory:', webRoot: null });
-  await app.ready();
-});
-afterAll(async () => {
-  await app.close();
-});
+const server = memoryApp();
 
 const upload = (path: string, body: Buffer, headers: Record<string, string> = {}) =>
-  request(app.server).post(path).set({ 'Content-Type': 'application/octet-stream', ...headers }).serialize((b: Buffer) => b as unknown as string).send(body);
+  request(server.app.server).post(path).set({ 'Content-Type': 'application/octet-stream', ...headers }).serialize((b: Buffer) => b as unknown as string).send(body);
 
 /** Everything a refused request must leave alone: row counts and the latest revision's survey. */
 function snapshot(id?: string): unknown {
-  return { rows: app.store.countRows(), latest: id === undefined ? null : app.store.getRevision(id), gathers: id === undefined ? null : app.store.listGathers(id) };
+  return { rows: server.app.store.countRows(), latest: id === undefined ? null : server.app.store.getRevision(id), gathers: id === undefined ? null : server.app.store.listGathers(id) };
 }
 
 describe('uploading one SEG-2 file per shot', () => {
@@ -41,7 +34,7 @@ describe('uploading one SEG-2 file per shot', () => {
     id = res.body.id;
     expect(res.body).toMatchObject({ revision: 1, shotId: 'W-end', replaced: false, author: 'R. Okafor', name: 'Demo A from gathers' });
     expect(res.headers.location).toBe(`/api/v1/surveys/${id}`);
-    const got = await request(app.server).get(`/api/v1/surveys/${id}`);
+    const got = await request(server.app.server).get(`/api/v1/surveys/${id}`);
     expect(got.body.survey.geophones).toEqual(line.geophones);
     expect(got.body.survey.shots).toHaveLength(1);
     expect(got.body.survey.shots[0]).toMatchObject({ id: 'W-end', x: -1.5, elevation: 86 });
@@ -51,7 +44,7 @@ describe('uploading one SEG-2 file per shot', () => {
     expect(got.body.gathers).toEqual([expect.objectContaining({ shotId: 'W-end', revision: 1, traces: `/api/v1/surveys/${id}/gathers/W-end/traces` })]);
     // A one-shot line has no forward and reverse pair: stored anyway, the interpretation says so.
     expect(got.body.interpretation.qc.warnings.map((w: { code: string }) => w.code)).toContain('no-opposing-pair');
-    const section = await request(app.server).get(`/api/v1/surveys/${id}/section.svg`);
+    const section = await request(server.app.server).get(`/api/v1/surveys/${id}/section.svg`);
     expect(section.status).toBe(200);
   });
 
@@ -64,7 +57,7 @@ describe('uploading one SEG-2 file per shot', () => {
       expect(res.body.revision).toBe(revision);
       expect(res.body.author).toBeNull();
     }
-    const got = await request(app.server).get(`/api/v1/surveys/${id}`);
+    const got = await request(server.app.server).get(`/api/v1/surveys/${id}`);
     expect(got.body.survey.shots.map((s: { id: string }) => s.id)).toEqual(['W-end', 'W-off', 'mid', 'E-end', 'E-off']);
     // Every stored pick within 3 samples of Demo A's picks (the closed-form first arrivals,
     // Kearey, Brooks & Hill 2002, ch. 5, rounded to 0.1 ms).
@@ -83,7 +76,7 @@ describe('uploading one SEG-2 file per shot', () => {
     const res = await upload(`/api/v1/surveys/${id}/gathers?shotId=mid&author=Second%20reader`, fileOf('mid'));
     expect(res.status).toBe(201);
     expect(res.body.replaced).toBe(true);
-    const got = await request(app.server).get(`/api/v1/surveys/${id}`);
+    const got = await request(server.app.server).get(`/api/v1/surveys/${id}`);
     expect(got.body.survey.shots).toHaveLength(5);
     expect(got.body.revisions.at(-1)).toMatchObject({ author: 'Second reader' });
   });
@@ -114,7 +107,7 @@ describe('uploading one SEG-2 file per shot', () => {
     expect(snapshot(id)).toEqual(before);
     const merged = await upload(`/api/v1/surveys/${id}/gathers?${query}&layoutChange=confirm`, fileOf('mid'));
     expect(merged.status, JSON.stringify(merged.body.error)).toBe(201);
-    const got = await request(app.server).get(`/api/v1/surveys/${id}`);
+    const got = await request(server.app.server).get(`/api/v1/surveys/${id}`);
     const xs = got.body.survey.geophones.map((g: { x: number }) => g.x);
     expect(xs).toHaveLength(48);
     expect(xs).toEqual([...xs].sort((a, b) => a - b));
@@ -138,7 +131,7 @@ describe('uploading one SEG-2 file per shot', () => {
 
   describe('decimated traces of a stored gather', () => {
     it('min/max per column over the record, each trace scaled to its peak', async () => {
-      const res = await request(app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?columns=64`);
+      const res = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?columns=64`);
       expect(res.status).toBe(200);
       const body = res.body;
       expect(body).toMatchObject({ shotId: 'W-off', revision: 2, scheme: 'min-max', columns: 64, sampleIntervalMs: DT });
@@ -164,23 +157,23 @@ describe('uploading one SEG-2 file per shot', () => {
     });
 
     it('bounded: columns are capped, a window narrows the record, unknown shots are 404', async () => {
-      const big = await request(app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?columns=5000`);
+      const big = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?columns=5000`);
       expect(big.status).toBe(400);
       expect(big.body.error.message).toContain('columns');
-      const window = await request(app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?fromMs=0&toMs=50&columns=100`);
+      const window = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?fromMs=0&toMs=50&columns=100`);
       expect(window.status).toBe(200);
       expect(window.body).toMatchObject({ fromMs: 0, toMs: 50, columns: 100, columnMs: 0.5 });
       window.body.traces.forEach((t: { min: number[]; max: number[] }) => {
         expect(t.min).toHaveLength(100);
         t.min.forEach((v, c) => expect(v).toBeLessThanOrEqual(t.max[c]));
       });
-      const empty = await request(app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?fromMs=500&toMs=600`);
+      const empty = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?fromMs=500&toMs=600`);
       expect(empty.status).toBe(400);
-      const missing = await request(app.server).get(`/api/v1/surveys/${id}/gathers/nope/traces`);
+      const missing = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/nope/traces`);
       expect(missing.status).toBe(404);
       expect(missing.body.error.code).toBe('gather_not_found');
       // The gather as it stood at revision 1: only W-end had been uploaded.
-      const early = await request(app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?revision=1`);
+      const early = await request(server.app.server).get(`/api/v1/surveys/${id}/gathers/W-off/traces?revision=1`);
       expect(early.status).toBe(404);
     });
   });
