@@ -52,7 +52,7 @@ import { resolveOptions, type ResolvedOptions } from '../survey/options.js';
 import type { BranchLine, ShotAnalysis, SideBranches } from '../output/interpretation.js';
 import { fitLine, robustSegmentedFit, type SegmentedFit, type SegmentLine } from './segmented-fit.js';
 import { sidePicks, AT_SHOT_TOLERANCE_M, type Side, type SidePick } from './side-picks.js';
-import { branchLineFromSegment, crossoverDistanceM, timeOnBranchMs } from './branch-line.js';
+import { apparentVelocity, branchLineFromSegment, crossoverDistanceM, timeOnBranchMs } from './branch-line.js';
 import { geophoneSpacingM, shotElevationM, shotPosition } from './shot-geometry.js';
 
 /**
@@ -291,9 +291,9 @@ function withFarOffEndSides(
   choices.forEach((pair) =>
     pair.forEach((c, k) => {
       if (c && !c.overridden && c.refracted.length >= 2) {
-        first.push(c.refracted[0].velocity);
-        second.push(c.refracted[1].velocity);
-        secondByDirection[k].push(c.refracted[1].velocity);
+        first.push(apparentVelocity(c.refracted[0]));
+        second.push(apparentVelocity(c.refracted[1]));
+        secondByDirection[k].push(apparentVelocity(c.refracted[1]));
         if (c.breakPoint) breakOffsets.push(c.breakPoint.breakOffsetM);
       }
     }),
@@ -312,12 +312,12 @@ function withFarOffEndSides(
       // such a side would otherwise give the first refractor a rock velocity. A far
       // off-end shot has no direct wave; an end shot over a rock step does (its few
       // middle-layer picks, too few for a line, go with the rock).
-      if (!forReversal && c && !c.overridden && c.refracted.length === 2 && c.refracted.every((l) => nearerSecond(l.velocity))) {
+      if (!forReversal && c && !c.overridden && c.refracted.length === 2 && c.refracted.every((l) => nearerSecond(apparentVelocity(l)))) {
         const { breakPoint: _notABreak, ...rest } = c;
         return { ...rest, branchOfSidePick: c.branchOfSidePick.map((b): BranchIndex => (b === 0 ? 0 : 2)), refracted: [] };
       }
       if (!c || c.overridden || c.direct || c.refracted.length !== 1 || !c.branchOfSidePick.every((b) => b === 1)) return c;
-      const v = c.refracted[0].velocity;
+      const v = apparentVelocity(c.refracted[0]);
       if (!(Math.abs(Math.log(v / m2)) < Math.abs(Math.log(v / m1)))) return c;
       if (forReversal && !secondByDirection.every((vs) => vs.length > 0 && Math.abs(Math.log(v / median(vs))) < Math.log(SECOND_REFRACTOR_MIN_CONTRAST))) return c;
       const picks = picksOf(s, k);
@@ -371,7 +371,7 @@ function withDirectNearShot(c: SideChoice, picks: SidePick[], v1: number | null,
   // A direct wave is a run with the line's V1 (within SECOND_REFRACTOR_MIN_CONTRAST): one
   // pick near the crossover, or two that run at a head wave's speed, stay refracted.
   const direct = run >= 2 ? lineOf(picks.slice(0, run)) : null;
-  if (!direct || Math.abs(Math.log(direct.velocity / v1)) > Math.log(SECOND_REFRACTOR_MIN_CONTRAST)) return c;
+  if (!direct || Math.abs(Math.log(apparentVelocity(direct) / v1)) > Math.log(SECOND_REFRACTOR_MIN_CONTRAST)) return c;
   const branchOfSidePick = c.branchOfSidePick.map((b, j): BranchIndex => (j < run ? 0 : b));
   const refitted = lineOf(picks.filter((_, j) => branchOfSidePick[j] === 1));
   if (!refitted) return c;
@@ -429,7 +429,7 @@ function withLineCrossover(
     pair.forEach((c, k) => {
       if (!c || c.overridden || c.refracted.length < 2 || !c.breakPoint) return;
       breaks[k].push(c.breakPoint.breakOffsetM);
-      slowness2[k].push(1000 / c.refracted[1].velocity);
+      slowness2[k].push(1000 / apparentVelocity(c.refracted[1]));
     }),
   );
   return choices.map((pair, s) =>
@@ -556,7 +556,7 @@ function provisionalV1(sides: { picks: SidePick[]; override?: BranchOverride; fi
     if (work.override) {
       const k = Math.min(Math.max(0, Math.floor(work.override.directPicks)), work.picks.length);
       const line = lineOf(work.picks.slice(0, k));
-      if (line) velocities.push(line.velocity);
+      if (line) velocities.push(apparentVelocity(line));
       continue;
     }
     const best = bestByBic(work.fits);

@@ -10,7 +10,7 @@ import type { SegmentLine } from './segmented-fit.js';
 export function branchLineFromSegment(seg: SegmentLine, picks: SidePick[]): BranchLine {
   const xs = picks.slice(seg.start, seg.end).map((p) => p.x);
   return {
-    velocity: 1000 / seg.slownessMsPerM,
+    velocity: velocityOfSlowness(seg.slownessMsPerM),
     interceptMs: seg.interceptMs,
     fromX: Math.min(...xs),
     toX: Math.max(...xs),
@@ -19,9 +19,24 @@ export function branchLineFromSegment(seg: SegmentLine, picks: SidePick[]): Bran
   };
 }
 
+/**
+ * Apparent velocity of a fitted slowness, m/s; null for a level branch (slowness 0: picks of
+ * one time, e.g. quantised to the same sample), whose apparent velocity is unbounded and
+ * has no number in JSON.
+ */
+export function velocityOfSlowness(slownessMsPerM: number): number | null {
+  const v = 1000 / slownessMsPerM;
+  return Number.isFinite(v) ? v : null;
+}
+
+/** A branch's apparent velocity for arithmetic: a level branch (null) is infinitely fast, as its slope says. */
+export function apparentVelocity(line: BranchLine): number {
+  return line.velocity ?? Infinity;
+}
+
 /** Time on a branch line at an offset, ms. */
 export function timeOnBranchMs(line: BranchLine, offsetM: number): number {
-  return line.interceptMs + (1000 * offsetM) / line.velocity;
+  return line.interceptMs + (1000 * offsetM) / apparentVelocity(line);
 }
 
 /**
@@ -31,7 +46,7 @@ export function timeOnBranchMs(line: BranchLine, offsetM: number): number {
  */
 export function crossoverDistanceM(direct: BranchLine | null, refracted: BranchLine | undefined): number | null {
   if (!direct || !refracted) return null;
-  const dSlowness = 1000 / direct.velocity - 1000 / refracted.velocity;
+  const dSlowness = 1000 / apparentVelocity(direct) - 1000 / apparentVelocity(refracted);
   if (!(dSlowness > 0)) return null;
   const x = (refracted.interceptMs - direct.interceptMs) / dSlowness;
   return Number.isFinite(x) && x >= 0 ? x : null;

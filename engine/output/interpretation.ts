@@ -44,8 +44,11 @@ export type DelaySource = 'pair' | 'phantom' | 'intercept' | 'interpolated';
 
 /** A straight branch of a time–distance curve: t = interceptMs + 1000·|x − shotX| / velocity. */
 export interface BranchLine {
-  /** Apparent velocity along the line, m/s. */
-  velocity: number;
+  /**
+   * Apparent velocity along the line, m/s; null when the branch's times do not change with
+   * offset (a level branch: apparent velocity unbounded, e.g. picks clipped at one time).
+   */
+  velocity: number | null;
   /** Intercept time at the shot, ms. */
   interceptMs: number;
   /** Extent of the picks on the branch, m along the line. */

@@ -241,7 +241,7 @@ function roundShot(shot: ShotAnalysis, phantoms: EndShotPhantom[]): ShotAnalysis
 }
 
 function roundBranchLine(line: BranchLine): BranchLine {
-  return { ...line, velocity: roundV(line.velocity), interceptMs: roundMs(line.interceptMs), fromX: roundM(line.fromX), toX: roundM(line.toX), rmsMs: roundMs(line.rmsMs) };
+  return { ...line, velocity: line.velocity === null ? null : roundV(line.velocity), interceptMs: roundMs(line.interceptMs), fromX: roundM(line.fromX), toX: roundM(line.toX), rmsMs: roundMs(line.rmsMs) };
 }
 
 function roundSide(side: SideBranches | null): SideBranches | null {

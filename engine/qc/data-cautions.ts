@@ -129,10 +129,12 @@ function sideInversions(interp: Interpretation): Warning[] {
       if (!side) continue;
       const lines = [...(side.direct ? [{ name: 'direct wave', v: side.direct.velocity }] : []), ...side.refracted.map((l, k) => ({ name: `refracted branch ${k + 1}`, v: l.velocity }))];
       for (let k = 1; k < lines.length; k++) {
-        if (isNum(lines[k].v) && isNum(lines[k - 1].v) && !(lines[k].v > lines[k - 1].v)) {
+        const v = lines[k].v;
+        const before = lines[k - 1].v;
+        if (isNum(v) && isNum(before) && !(v > before)) {
           warnings.push({
             code: 'velocity-inversion',
-            message: `On the ${side.side} side of ${shot.id} the ${lines[k].name} (${velocityWords(lines[k].v)}) is not faster than the ${lines[k - 1].name} before it (${velocityWords(lines[k - 1].v)}). First arrivals speed up with offset over layers that get faster with depth; a slower branch means a wrong branch split or a velocity inversion, which refraction first arrivals cannot resolve (ASTM D5777; USACE EM 1110-1-1802).`,
+            message: `On the ${side.side} side of ${shot.id} the ${lines[k].name} (${velocityWords(v)}) is not faster than the ${lines[k - 1].name} before it (${velocityWords(before)}). First arrivals speed up with offset over layers that get faster with depth; a slower branch means a wrong branch split or a velocity inversion, which refraction first arrivals cannot resolve (ASTM D5777; USACE EM 1110-1-1802).`,
             x: shot.x,
           });
         }

@@ -9,6 +9,7 @@
 import { resolveOptions } from '../survey/options.js';
 import type { Survey } from '../survey/survey.js';
 import type { BranchLine, Interpretation, ReciprocalCheck, ShotAnalysis } from '../output/interpretation.js';
+import { timeOnBranchMs } from '../branches/branch-line.js';
 import { CAUTIONS } from '../qc/cautions.js';
 import { createCanvas } from './svg-document.js';
 import { PAGE, TEXT_MM, textWidthMm } from './page.js';
@@ -97,7 +98,7 @@ interface Plot {
 
 /** Time on a fitted branch at x, ms (the BranchLine's own formula). */
 function branchTimeMs(line: BranchLine, shotX: number, x: number): number {
-  return line.interceptMs + (1000 * Math.abs(x - shotX)) / line.velocity;
+  return timeOnBranchMs(line, Math.abs(x - shotX));
 }
 
 function finite(values: readonly (number | null | undefined)[]): number[] {
@@ -122,7 +123,7 @@ export function renderTravelTimes(survey: Survey, interpretation: Interpretation
     if (showModelled && a?.modelledMs) times.push(...finite(a.modelledMs));
     for (const side of [a?.left, a?.right]) {
       for (const line of side ? [side.direct, ...side.refracted] : []) {
-        if (line && Number.isFinite(line.velocity) && line.velocity > 0) times.push(branchTimeMs(line, a!.x, line.fromX), branchTimeMs(line, a!.x, line.toX));
+        if (line && (line.velocity === null || line.velocity > 0)) times.push(branchTimeMs(line, a!.x, line.fromX), branchTimeMs(line, a!.x, line.toX));
       }
     }
   }
@@ -293,7 +294,8 @@ function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot
     if (side.direct && only === 'direct') lines.push({ line: side.direct, kind: 'direct', order: 0 });
     if (only === 'refracted') side.refracted.forEach((line, k) => lines.push({ line, kind: 'refracted', order: k + 1 }));
     for (const { line, kind, order } of lines) {
-      if (!(line.velocity > 0) || !Number.isFinite(line.fromX) || !Number.isFinite(line.toX)) continue;
+      // A level branch (velocity null) is drawn, unlabelled: its apparent velocity has no number.
+      if (!(line.velocity === null || line.velocity > 0) || !Number.isFinite(line.fromX) || !Number.isFinite(line.toX)) continue;
       const x0m = Math.min(line.fromX, line.toX);
       const x1m = Math.max(line.fromX, line.toX);
       const p0 = { x: plot.x(x0m), y: plot.t(branchTimeMs(line, a.x, x0m)) };
@@ -307,8 +309,9 @@ function branchLines(parent: Container, labels: Container, a: ShotAnalysis, plot
         'data-side': side.side,
         'data-kind': kind,
         'data-order': order,
-        'data-velocity': line.velocity,
+        'data-velocity': line.velocity ?? 'level',
       });
+      if (line.velocity === null) continue;
       const text = formatVelocity(line.velocity);
       const angle = Math.atan2(p1.y - p0.y, p1.x - p0.x);
       const size = TEXT_MM.label * 0.9;
@@ -344,7 +347,7 @@ function crossoverMarks(parent: Container, a: ShotAnalysis, plot: Plot): void {
   for (const side of [a.left, a.right]) {
     if (!side || side.crossoverDistance === null || !Number.isFinite(side.crossoverDistance)) continue;
     const line = side.direct ?? side.refracted[0];
-    if (!line || !(line.velocity > 0)) continue;
+    if (!line || !(line.velocity === null || line.velocity > 0)) continue;
     const x = a.x + (side.side === 'right' ? 1 : -1) * side.crossoverDistance;
     const t = branchTimeMs(line, a.x, x);
     parent.circle(2.6).attr({ cx: round3(plot.x(x)), cy: round3(plot.t(t)), fill: 'none', stroke: INK.text, 'stroke-width': 0.3, 'data-role': 'crossover', 'data-shot': a.id, 'data-side': side.side, 'data-x': x });

@@ -54,7 +54,7 @@ export const StationSchema = Type.Object(
 
 export const BranchLineSchema = Type.Object(
   {
-    velocity: num('Apparent velocity along the line, m/s.'),
+    velocity: nullable(num('Apparent velocity along the line, m/s; null for a level branch (times that do not change with offset: unbounded).')),
     interceptMs: num('Intercept time at the shot, ms.'),
     fromX: num('m'),
     toX: num('m'),

@@ -56,7 +56,8 @@ export function opposingPairVelocities(v1: number, left: ShotAnalysis, right: Sh
   if (!(left.x < right.x)) return null;
   const toPlusX = left.right?.refracted[0];
   const toMinusX = right.left?.refracted[0];
-  if (!toPlusX || !toMinusX) return null;
+  // A level branch (velocity null) has no finite apparent velocity to solve with.
+  if (!toPlusX || !toMinusX || toPlusX.velocity === null || toMinusX.velocity === null) return null;
   // Shooting toward +x is shooting down-dip when θ (toward +x) is positive.
   const solved = slopeInterceptDip(v1, toPlusX.velocity, toMinusX.velocity);
   if (!solved) return null;

@@ -74,7 +74,7 @@ describe('a lateral change of refractor velocity is not a second refractor (eiko
       .map((s) => {
         const first2 = s.branchOfPick.findIndex((b, i) => b === 2 && survey.geophones[i].x > s.x);
         const x = survey.geophones[first2].x;
-        return { shotX: s.x, breakX: x, breakOffsetM: x - s.x, ratio: s.right!.refracted[1].velocity / s.right!.refracted[0].velocity };
+        return { shotX: s.x, breakX: x, breakOffsetM: x - s.x, ratio: s.right!.refracted[1].velocity! / s.right!.refracted[0].velocity! };
       });
     expect(breaks.length).toBeGreaterThanOrEqual(2);
     for (const b of breaks) {

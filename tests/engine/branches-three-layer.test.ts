@@ -58,7 +58,7 @@ describe('three-layer branch split (closed-form flat layers, Kearey, Brooks & Hi
     }
     const w = shots[0].right!;
     expect(w.direct!.velocity).toBeCloseTo(V[0], 6);
-    expect(w.refracted.map((l) => l.velocity / V[1 + w.refracted.indexOf(l)])).toEqual([
+    expect(w.refracted.map((l) => l.velocity! / V[1 + w.refracted.indexOf(l)])).toEqual([
       expect.closeTo(1, 8),
       expect.closeTo(1, 8),
     ]);
@@ -71,8 +71,8 @@ describe('three-layer branch split (closed-form flat layers, Kearey, Brooks & Hi
       const shots = assignBranches(survey(0.2, seed));
       for (const s of [shots[0].right!, shots[2].left!]) {
         expect(s.refracted).toHaveLength(2);
-        expect(Math.abs(s.refracted[1].velocity / V[2] - 1)).toBeLessThan(0.03);
-        expect(Math.abs(s.direct!.velocity / V[0] - 1)).toBeLessThan(0.1);
+        expect(Math.abs(s.refracted[1].velocity! / V[2] - 1)).toBeLessThan(0.03);
+        expect(Math.abs(s.direct!.velocity! / V[0] - 1)).toBeLessThan(0.1);
       }
     }
   });

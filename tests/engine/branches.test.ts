@@ -83,8 +83,8 @@ describe('assignBranches on closed-form times (Kearey, Brooks & Hill 2002, ch. 5
     for (const s of shots) {
       expect(s.branchOfPick).toEqual(trueBranches(DIPPING, s.x));
       // Refractor deepens toward +x: shooting right is shooting down-dip.
-      if (s.right) expect(s.right.refracted[0].velocity / vDown).toBeCloseTo(1, 8);
-      if (s.left) expect(s.left.refracted[0].velocity / vUp).toBeCloseTo(1, 8);
+      if (s.right) expect(s.right.refracted[0].velocity! / vDown).toBeCloseTo(1, 8);
+      if (s.left) expect(s.left.refracted[0].velocity! / vUp).toBeCloseTo(1, 8);
     }
   });
 
@@ -108,7 +108,7 @@ describe('assignBranches on closed-form times (Kearey, Brooks & Hill 2002, ch. 5
         const vApparent = DIPPING.v1 / Math.sin(side.side === 'right' ? ic + theta : ic - theta);
         // A branch of 3–4 picks spanning a few metres cannot pin its slope under 0.2 ms noise:
         // hold only the long branches (8 picks or more) to 3 %.
-        if (side.refracted[0].count >= 8) expect(Math.abs(side.refracted[0].velocity / vApparent - 1)).toBeLessThan(0.03);
+        if (side.refracted[0].count >= 8) expect(Math.abs(side.refracted[0].velocity! / vApparent - 1)).toBeLessThan(0.03);
       }
     }
     const w = shots.find((s) => s.id === 'W-end')!;

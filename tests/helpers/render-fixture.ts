@@ -151,8 +151,8 @@ export function renderFixture(options: RenderFixtureOptions = {}): RenderFixture
       const refracted = fitLine(pts(1));
       let crossover: number | null = null;
       if (direct && refracted) {
-        const sd = 1000 / direct.velocity;
-        const sr = 1000 / refracted.velocity;
+        const sd = 1000 / direct.velocity!;
+        const sr = 1000 / refracted.velocity!;
         crossover = (refracted.interceptMs - direct.interceptMs) / (sd - sr);
       }
       return { side: which, direct, refracted: refracted ? [refracted] : [], crossoverDistance: crossover, overridden: false };

@@ -148,7 +148,7 @@ describe('three flat layers on an eikonal line: branch lines against the closed 
     const xc23 = (ti3 - ti2) / (1000 / v2 - 1000 / v3);
     for (const side of [wEnd, eEnd]) {
       const [a, b] = side.refracted;
-      const fitted = (b.interceptMs - a.interceptMs) / (1000 / a.velocity - 1000 / b.velocity);
+      const fitted = (b.interceptMs - a.interceptMs) / (1000 / a.velocity! - 1000 / b.velocity!);
       expect(Math.abs(fitted / xc23 - 1)).toBeLessThan(0.05);
     }
   });
@@ -180,7 +180,7 @@ describe('the issue line: branches read against the whole line', () => {
     expect(mid.branchOfPick).not.toContain(2);
     for (const side of [mid.left!, mid.right!]) {
       expect(side.refracted).toHaveLength(1);
-      expect(Math.abs(side.refracted[0].velocity / ISSUE_LINE.v[1] - 1)).toBeLessThan(0.03);
+      expect(Math.abs(side.refracted[0].velocity! / ISSUE_LINE.v[1] - 1)).toBeLessThan(0.03);
     }
   });
   it('without the hint and without residuals (so no layer choice), the branch assignment alone finds the reversed rock', () => {

@@ -79,7 +79,7 @@ describe('renderTravelTimes', () => {
           expect(Math.abs(x2 - Math.max(line!.fromX, line!.toX))).toBeLessThan(0.01);
           // The drawn end time is the branch's own t = intercept + 1000·|x − shot x| / V.
           const t1 = toT(Number(drawn!.getAttribute('y1')));
-          expect(Math.abs(t1 - (line!.interceptMs + (1000 * Math.abs(x1 - a.x)) / line!.velocity))).toBeLessThan(0.01);
+          expect(Math.abs(t1 - (line!.interceptMs + (1000 * Math.abs(x1 - a.x)) / line!.velocity!))).toBeLessThan(0.01);
         }
       }
     }
