@@ -49,6 +49,8 @@ export interface AppOptions {
    * its body is cut off. Default DEFAULT_REQUEST_TIMEOUT_MS.
    */
   requestTimeoutMs?: number;
+  /** Largest the store file may grow, MB; a write past it answers 507 store_full (a quota, and how disk-full is tested). Default: no limit. */
+  storeMaxMb?: number;
 }
 
 /**
@@ -66,7 +68,7 @@ declare module 'fastify' {
   }
 }
 
-function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToken' | 'webRoot' | 'compute'>> & Pick<AppOptions, 'writeToken'> {
+function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToken' | 'webRoot' | 'compute' | 'storeMaxMb'>> & Pick<AppOptions, 'writeToken'> {
   if (options === null || typeof options !== 'object') throw new ConfigError('buildApp needs an options object.');
   if (typeof options.dataDir !== 'string' || options.dataDir.trim() === '') {
     throw new ConfigError('dataDir must name a folder for the store (or be ":memory:").');
@@ -139,7 +141,7 @@ function textOf(body: Buffer): string {
 
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const checked = checkOptions(options);
-  const store = new SurveyStore(checked.dataDir);
+  const store = new SurveyStore(checked.dataDir, { maxMb: options.storeMaxMb });
   const compute = new ComputePool(options.compute);
   const app = Fastify({
     logger: checked.logger,

@@ -29,6 +29,8 @@ export interface ServiceConfig {
   maxQueued: number | undefined;
   timeLimitMs: number | undefined;
   requestTimeoutMs: number | undefined;
+  /** Largest the store file may grow, MB (ARCLINE_STORE_MAX_MB); writes beyond get 507 store_full. */
+  storeMaxMb: number | undefined;
 }
 
 export const CONFIG_DEFAULTS = { host: '127.0.0.1', port: 8080, dataDir: './data' } as const;
@@ -85,5 +87,6 @@ export function readConfig(env: NodeJS.ProcessEnv): ServiceConfig {
     maxQueued: readWhole('ARCLINE_QUEUE', env.ARCLINE_QUEUE, 0, 10_000),
     timeLimitMs: readWhole('ARCLINE_TIME_LIMIT_MS', env.ARCLINE_TIME_LIMIT_MS, 100, 3_600_000),
     requestTimeoutMs: readWhole('ARCLINE_REQUEST_TIMEOUT_MS', env.ARCLINE_REQUEST_TIMEOUT_MS, 100, 3_600_000),
+    storeMaxMb: readWhole('ARCLINE_STORE_MAX_MB', env.ARCLINE_STORE_MAX_MB, 1, 1_000_000),
   };
 }

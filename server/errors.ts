@@ -6,6 +6,7 @@
  * Bad input never gives a 500; an unexpected failure gives a 500 with a generic message
  * and is logged with its stack.
  */
+import { storeFailureOf } from './store-failures.js';
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
 import type { Problem } from '../engine/survey/problem.js';
 import type { LayoutChange } from './revision-layout.js';
@@ -63,6 +64,9 @@ export const ERROR_CATALOGUE = {
   },
   compute_time_limit: { status: 422, message: "The computation took longer than this service's time limit and was stopped; nothing was stored." },
   client_closed: { status: 499, message: 'The client closed the connection; the computation was stopped.' },
+  store_full: { status: 507, message: 'The data folder of the store is full; nothing was stored. Ask whoever runs the service to free disk space.' },
+  store_read_only: { status: 503, message: 'The store cannot be written just now (its data folder is read-only); nothing was stored. Ask whoever runs the service.' },
+  store_unavailable: { status: 503, message: 'The store cannot be read or written just now (a disk error); nothing was stored. Ask whoever runs the service.' },
   internal_error: { status: 500, message: 'Something went wrong on the server; the error has been logged.' },
 } as const satisfies Record<string, CatalogueEntry>;
 
@@ -219,6 +223,12 @@ export function toAppError(error: unknown, request?: FastifyRequest): { appError
       };
     default:
       break;
+  }
+  const failure = storeFailureOf(error);
+  if (failure !== null) {
+    const code = failure === 'full' ? 'store_full' : failure === 'read-only' ? 'store_read_only' : 'store_unavailable';
+    // Logged as unexpected: whoever runs the service must see it.
+    return { appError: new AppError(code), unexpected: true };
   }
   const status = fastifyError?.statusCode;
   if (typeof status === 'number' && status === 413) {

@@ -1,6 +1,7 @@
 /** Entry point (`npm start`): start from the environment, log the URL, close cleanly on a signal. */
 import { ConfigError } from './config.js';
 import { startService } from './start.js';
+import { StoreUnavailableError } from './store-failures.js';
 
 /** Longest wait for answers in flight after SIGTERM or SIGINT, ms. Our choice. */
 const SHUTDOWN_GRACE_MS = 1_000;
@@ -23,6 +24,8 @@ async function main(): Promise<void> {
   } catch (error) {
     if (error instanceof ConfigError) {
       console.error(`arcline: configuration error: ${error.message}`);
+    } else if (error instanceof StoreUnavailableError) {
+      console.error(`arcline: cannot open the store: ${error.message}`);
     } else {
       const code = (error as NodeJS.ErrnoException | null)?.code;
       if (code === 'EADDRINUSE') console.error('arcline: the port is already in use; set PORT to a free one.');

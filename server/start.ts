@@ -15,6 +15,7 @@ export async function startService(env: NodeJS.ProcessEnv, options: { logger?: b
     seedDemo: config.seedDemo,
     compute: { threads: config.threads, maxQueued: config.maxQueued, timeLimitMs: config.timeLimitMs },
     requestTimeoutMs: config.requestTimeoutMs,
+    storeMaxMb: config.storeMaxMb,
     logger: options.logger ?? true,
   });
   try {

@@ -8,6 +8,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import Database from 'better-sqlite3';
+import { StoreUnavailableError, storeFailureOf } from './store-failures.js';
 import type { Survey } from '../engine/survey/survey.js';
 import type { Interpretation } from '../engine/output/interpretation.js';
 
@@ -150,15 +151,34 @@ export class SurveyStore {
   private readonly now: () => Date;
 
   /** @param dataDir folder for the database file (created if missing), or ':memory:'. */
-  constructor(dataDir: string, options: { now?: () => Date } = {}) {
+  constructor(dataDir: string, options: { now?: () => Date; maxMb?: number } = {}) {
     this.now = options.now ?? (() => new Date());
     if (dataDir === ':memory:') {
       this.db = new Database(':memory:');
-    } else {
+      this.setUp(options.maxMb);
+      return;
+    }
+    try {
       mkdirSync(dataDir, { recursive: true });
       this.db = new Database(join(dataDir, STORE_FILE_NAME));
-      this.db.pragma('journal_mode = WAL');
+    } catch (error) {
+      throw new StoreUnavailableError(dataDir, storeFailureOf(error) ?? 'unavailable', error);
     }
+    try {
+      this.db.pragma('journal_mode = WAL');
+      this.setUp(options.maxMb);
+      // A store that opens but cannot be written (a read-only folder with the file in it)
+      // is found now, not at a colleague's first save: one empty write transaction.
+      this.db.exec('BEGIN IMMEDIATE; COMMIT;');
+    } catch (error) {
+      this.db.close();
+      throw new StoreUnavailableError(dataDir, storeFailureOf(error) ?? 'unavailable', error);
+    }
+  }
+
+  private setUp(maxMb?: number): void {
+    // A cap on the file's pages: SQLite answers SQLITE_FULL past it, as on a full disk.
+    if (maxMb !== undefined) this.db.pragma(`max_page_count = ${Math.max(1, Math.floor((maxMb * 1024 * 1024) / (this.db.pragma('page_size', { simple: true }) as number)))}`);
     this.db.pragma('foreign_keys = ON');
     this.db.pragma('busy_timeout = 5000');
     this.migrate();

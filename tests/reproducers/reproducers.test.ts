@@ -4,7 +4,7 @@
  * the engine gives finite numbers or the validator names problems, and the service answers
  * it with a 2xx or a coded 4xx, never a 5xx (api-v1.md). A new reproducer is a JSON file in
  * this folder: either a survey document, or {"method", "url", "contentType", "body"}
- * (body as text) for a request.
+ * (body as text, bodyEncoding "latin1" for bytes) for a request.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -24,6 +24,8 @@ interface RequestReproducer {
   contentType?: string;
   headers?: Record<string, string>;
   body?: string;
+  /** How the body text maps to bytes: latin1 (one byte per character, as the fuzzer writes) or utf8 (default). */
+  bodyEncoding?: 'latin1' | 'utf8';
 }
 
 function isRequest(doc: unknown): doc is RequestReproducer {
@@ -44,7 +46,7 @@ describe('reproducers of past failures', () => {
         method: request.method,
         url: request.url,
         headers: { ...(request.contentType ? { 'content-type': request.contentType } : {}), ...(request.headers ?? {}) },
-        payload: request.body,
+        payload: request.body === undefined ? undefined : Buffer.from(request.body, 'bodyEncoding' in request && request.bodyEncoding === 'latin1' ? 'latin1' : 'utf8'),
       });
       expect(res.statusCode, res.body.slice(0, 300)).toBeLessThan(500);
       if (res.statusCode >= 400) expect(res.json().error.code).toMatch(/^[a-z0-9_]+$/);
