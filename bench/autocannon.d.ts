@@ -7,6 +7,8 @@ declare module 'autocannon' {
     body?: string;
     connections?: number;
     duration?: number;
+    /** Per-request timeout, s. */
+    timeout?: number;
   }
   interface Histogram {
     average: number;
@@ -20,6 +22,8 @@ declare module 'autocannon' {
     non2xx: number;
     errors: number;
     timeouts: number;
+    /** Answers by status code, e.g. {"200": {count: 812}, "503": {count: 3}}. */
+    statusCodeStats?: Record<string, { count: number }>;
   }
   export default function autocannon(options: Options): Promise<Result>;
 }

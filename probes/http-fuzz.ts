@@ -130,15 +130,17 @@ function mutateJson(text: string): string {
   for (let t = 0; t < times; t++) {
     const path = pick(paths);
     if (path.length === 0) continue;
-    let parent: Record<string | number, unknown> = doc;
-    for (const key of path.slice(0, -1)) parent = parent[key] as Record<string | number, unknown>;
+    // An earlier edit may have removed or replaced part of the path: walk only what is left.
+    let parent: unknown = doc;
+    for (const key of path.slice(0, -1)) parent = parent !== null && typeof parent === 'object' ? (parent as Record<string | number, unknown>)[key] : undefined;
     if (parent === null || typeof parent !== 'object') continue;
     const last = path[path.length - 1];
     const r = rng();
-    if (r < 0.5) parent[last] = pick(oddValues);
-    else if (r < 0.7) delete parent[last];
-    else if (r < 0.85 && Array.isArray(parent)) parent.push(parent[last as number]);
-    else parent[`${String(last)}_extra`] = pick(oddValues);
+    const target = parent as Record<string | number, unknown>;
+    if (r < 0.5) target[last] = pick(oddValues);
+    else if (r < 0.7) delete target[last];
+    else if (r < 0.85 && Array.isArray(target)) target.push(target[last as number]);
+    else target[`${String(last)}_extra`] = pick(oddValues);
   }
   return JSON.stringify(doc);
 }
@@ -243,12 +245,17 @@ function makeRequest(route: RouteEntry, ids: { id: string; token: string; shotId
 }
 
 // ---- the service ---------------------------------------------------------------------
+/** The service process now running, killed when this script ends however it ends. */
+let current: ChildProcess | null = null;
+process.on('exit', () => current?.kill('SIGKILL'));
+
 async function startService(dataDir: string, port: number): Promise<ChildProcess> {
   const child = spawn(process.execPath, [join(root, 'dist/server/main.js')], {
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_REQUEST_TIMEOUT_MS: '3000' },
     stdio: ['ignore', 'ignore', 'pipe'],
   });
   child.stderr?.on('data', () => undefined);
+  current = child;
   for (let k = 0; k < 100; k++) {
     try {
       const res = await fetch(`http://127.0.0.1:${port}/healthz`);
@@ -269,8 +276,12 @@ async function storeDemo(port: number): Promise<{ id: string; token: string; sho
   return { id: stored.id, token, shotId };
 }
 
+/** Real ids in a URL become placeholders, which the replay fills from a line it stores itself. */
+let placeholders: { id: string; token: string; shotId: string } | null = null;
+
 function saveReproducer(r: FuzzRequest, why: string): string {
-  const doc = { why, method: r.method, url: r.url, contentType: r.contentType, headers: r.headers, body: r.body, bodyEncoding: 'latin1' };
+  const url = placeholders ? r.url.split(placeholders.id).join('{id}').split(placeholders.token).join('{token}') : r.url;
+  const doc = { why, method: r.method, url, contentType: r.contentType, headers: r.headers, body: r.body, bodyEncoding: 'latin1' };
   const name = `http-${createHash('sha256').update(JSON.stringify(doc)).digest('hex').slice(0, 12)}.json`;
   writeFileSync(join(root, 'tests/reproducers', name), JSON.stringify(doc) + '\n');
   return name;
@@ -283,6 +294,7 @@ async function main(): Promise<void> {
   let crashes = 0;
   child.on('exit', () => crashes++);
   const ids = await storeDemo(port);
+  placeholders = ids;
   const routes = await routeTable(port);
   const byClass = new Map<string, number>();
   let fiveXx = 0;
@@ -333,4 +345,7 @@ async function main(): Promise<void> {
   process.exitCode = fiveXx + hangs + crashes > 0 ? 1 : 0;
 }
 
-await main();
+await main().catch((error: unknown) => {
+  console.error('the fuzzer failed:', error);
+  process.exitCode = 2;
+});

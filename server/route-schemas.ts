@@ -249,13 +249,15 @@ const sectionSheetQuery = {
   arcs: Type.Optional(Type.Boolean({ description: 'Draw the depth arcs (default true).' })),
 };
 export const sectionPdfQuerySchema = Type.Object(sectionSheetQuery);
+const pngSheet = Type.Optional(Type.Integer({ minimum: 1, description: 'Which sheet of a drawing paged over several (default 1); the answer\'s Arcline-Sheet-Count header gives how many.' }));
 export const sectionPngQuerySchema = Type.Object({
   ...sectionSheetQuery,
   dpi,
-  sheet: Type.Optional(Type.Integer({ minimum: 1, description: 'Which sheet of a section paged over several (default 1); the answer\'s Arcline-Sheet-Count header gives how many.' })),
+  sheet: pngSheet,
 });
 export const travelTimesPdfQuerySchema = Type.Object({ revision: exportRevision, paper });
-export const travelTimesPngQuerySchema = Type.Object({ revision: exportRevision, dpi });
+// The time–distance plot is one sheet; `sheet` is taken (1, or a clear 400 beyond) so a link built for the section works.
+export const travelTimesPngQuerySchema = Type.Object({ revision: exportRevision, dpi, sheet: pngSheet });
 
 /** A binary file answer (PDF, PNG), for the OpenAPI document. */
 export function binaryFileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {

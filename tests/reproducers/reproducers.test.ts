@@ -4,7 +4,8 @@
  * the engine gives finite numbers or the validator names problems, and the service answers
  * it with a 2xx or a coded 4xx, never a 5xx (api-v1.md). A new reproducer is a JSON file in
  * this folder: either a survey document, or {"method", "url", "contentType", "body"}
- * (body as text, bodyEncoding "latin1" for bytes) for a request.
+ * (body as text, bodyEncoding "latin1" for bytes) for a request, whose URL may name the
+ * demo line stored for the replay as {id}, its share token as {token} and a shot as {shotId}.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -28,6 +29,18 @@ interface RequestReproducer {
   bodyEncoding?: 'latin1' | 'utf8';
 }
 
+let demo: { id: string; token: string; shotId: string } | null = null;
+
+/** The demo line stored once, so that reproducers' {id}, {token} and {shotId} name a real line. */
+async function storedDemo(): Promise<{ id: string; token: string; shotId: string }> {
+  if (demo) return demo;
+  const body = readFileSync(`${folder}/../../samples/demo-line.json`, 'utf8');
+  const res = await server.app.inject({ method: 'POST', url: '/api/v1/surveys', headers: { 'content-type': 'application/json' }, payload: body });
+  const stored = res.json() as { id: string; shareUrl: string };
+  demo = { id: stored.id, token: stored.shareUrl.split('/').pop()!, shotId: (JSON.parse(body) as { shots: { id: string }[] }).shots[0].id };
+  return demo;
+}
+
 function isRequest(doc: unknown): doc is RequestReproducer {
   return typeof doc === 'object' && doc !== null && 'url' in doc && 'method' in doc;
 }
@@ -39,8 +52,9 @@ describe('reproducers of past failures', () => {
   for (const file of files) {
     const doc: unknown = JSON.parse(readFileSync(`${folder}/${file}`, 'utf8'));
     it(`${file}: never a 5xx from the service`, async () => {
+      const ids = await storedDemo();
       const request = isRequest(doc)
-        ? doc
+        ? { ...doc, url: doc.url.split('{id}').join(ids.id).split('{token}').join(ids.token).split('{shotId}').join(ids.shotId) }
         : { method: 'POST' as const, url: '/api/v1/interpretations', contentType: 'application/json', body: JSON.stringify(doc) };
       const res = await server.app.inject({
         method: request.method,
