@@ -116,6 +116,14 @@ const DecimatedGatherSchema = Type.Object(
     traces: Type.Array(
       Type.Object({ channel: Type.Number(), x: Type.Number(), peak: Type.Number(), min: Envelope, max: Envelope }, { additionalProperties: false }),
     ),
+    automatic: Type.Object(
+      {
+        times: Type.Array(Type.Union([Type.Number(), Type.Null()]), { description: 'The picker\'s first break per trace, ms after the shot (before any review).' }),
+        confidence: Type.Array(Type.Number({ minimum: 0, maximum: 1 }), { description: 'The picker\'s confidence per trace, 0 (none) to 1.' }),
+        status: Type.Array(Type.Union([Type.Literal('picked'), Type.Literal('repicked'), Type.Literal('dead'), Type.Literal('outlier')])),
+      },
+      { additionalProperties: false, description: 'The automatic picker\'s answer for this file, in the order of `traces` (the same as POST /api/v1/gathers/picks).' },
+    ),
   },
   { additionalProperties: false, title: 'DecimatedGather' },
 );
