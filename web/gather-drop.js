@@ -1,0 +1,243 @@
+// Seismograph files onto the page: a drop zone (and a button for choosing files) that takes
+// one SEG-2 file per shot, sends each as its raw bytes to the gather upload routes (the
+// first makes a new stored line, or joins the open one; the rest join it), shows each
+// file's progress (sent, then "picking…" while the service reads, picks and interprets) and
+// the service's own error beside the file, then opens the line, whose pick review and
+// section appear under the figures. "Load the demo gathers" fetches Demo A's files from the
+// service and sends them the same way. Files are sent one after another: each upload makes
+// the next revision of the line, built on the one before.
+// Text reaches the DOM through textContent only; states are CSS classes (no inline style).
+
+import { uploadGatherFile } from './api.js';
+import { DEMO_GATHER_FILES, DEMO_GATHER_LINE_NAME, isSeg2Name, lineNameFor, percentSent, shotIdsFor, storedFileText, uploadPath } from './drop-files.js';
+
+/**
+ * @template {HTMLElement} T
+ * @param {string} id
+ * @param {{ new (): T }} kind
+ * @returns {T}
+ */
+function $(id, kind) {
+  const node = document.getElementById(id);
+  if (!(node instanceof kind)) throw new Error('Arcline page is missing #' + id + ' (or it is not a ' + kind.name + ')');
+  return node;
+}
+
+const ui = {
+  zone: $('drop-zone', HTMLElement),
+  input: $('gather-files', HTMLInputElement),
+  choose: $('gather-files-button', HTMLElement),
+  demo: $('demo-gathers-button', HTMLButtonElement),
+  targetNew: $('drop-target-new', HTMLInputElement),
+  targetOpen: $('drop-target-open', HTMLInputElement),
+  targetOpenText: $('drop-target-open-text', HTMLElement),
+  name: $('drop-line-name', HTMLInputElement),
+  list: $('drop-list', HTMLElement),
+  status: $('drop-status', HTMLElement),
+};
+
+/** @typedef {{ id: string, name: string, fromGathers: boolean } | null} OpenLine */
+
+const state = {
+  busy: false,
+  /** @type {() => OpenLine} */ openLine: () => null,
+  /** @type {(id: string) => Promise<void>} */ showLine: async () => {},
+};
+
+/**
+ * One row of the list: the file's name, a progress bar, and its state in words.
+ * @param {string} name
+ */
+function fileRow(name) {
+  const item = document.createElement('li');
+  item.className = 'drop-file waiting';
+  const title = document.createElement('span');
+  title.className = 'drop-file-name';
+  title.textContent = name;
+  const bar = document.createElement('progress');
+  bar.max = 100;
+  bar.value = 0;
+  bar.setAttribute('aria-label', 'Upload of ' + name);
+  const words = document.createElement('span');
+  words.className = 'drop-file-state';
+  words.textContent = 'Waiting.';
+  item.append(title, bar, words);
+  ui.list.append(item);
+  return {
+    item,
+    /** @param {'waiting'|'sending'|'picking'|'stored'|'failed'} kind @param {string} text */
+    set(kind, text) {
+      item.className = 'drop-file ' + kind;
+      item.dataset.state = kind;
+      words.textContent = text;
+      if (kind === 'picking' || kind === 'stored') bar.value = 100;
+      // A bar without a value is the browser's "working" bar: the service is picking.
+      if (kind === 'picking') bar.removeAttribute('value');
+      if (kind === 'stored') bar.value = 100;
+    },
+    /** @param {number} percent */
+    sent(percent) {
+      bar.value = percent;
+      words.textContent = 'Sending… ' + percent + ' %';
+    },
+  };
+}
+
+/** Which line the drop goes into, as chosen in the panel: '' for a new line. */
+function targetLineId() {
+  const open = state.openLine();
+  return ui.targetOpen.checked && open !== null ? open.id : '';
+}
+
+/**
+ * Sends the files one after another and opens the line they went into. O(files) requests.
+ * @param {File[]} files
+ * @param {string} [lineName] name of a new line (default: the name field, else from the file names)
+ */
+async function sendFiles(files, lineName) {
+  if (state.busy || files.length === 0) return;
+  state.busy = true;
+  setControls();
+  ui.list.replaceChildren();
+  const seg2 = files.filter((f) => isSeg2Name(f.name));
+  const shotIds = shotIdsFor(seg2.map((f) => f.name));
+  let lineId = targetLineId();
+  const name = lineName ?? (ui.name.value.trim() || lineNameFor(seg2.map((f) => f.name)));
+  let stored = 0;
+  let failed = 0;
+  for (const file of files) {
+    if (!isSeg2Name(file.name)) {
+      fileRow(file.name).set('failed', 'Not sent: only SEG-2 files (.sg2, .seg2, .dat) are taken here. Pick tables and survey documents go under "Load a line".');
+      failed += 1;
+    }
+  }
+  ui.status.textContent = 'Sending ' + seg2.length + (seg2.length === 1 ? ' file…' : ' files…');
+  const rows = seg2.map((f) => fileRow(f.name));
+  // One at a time: every upload is the next revision of the line (O(files) round trips).
+  for (let i = 0; i < seg2.length; i++) {
+    const row = rows[i];
+    const shotId = shotIds[i];
+    row.set('sending', 'Sending… 0 %');
+    const path = uploadPath({ lineId, shotId, name });
+    const progress = { onSent: (/** @type {number} */ loaded, /** @type {number} */ total) => row.sent(percentSent(loaded, total)), onPicking: () => row.set('picking', 'Picking first breaks…') };
+    let result = await uploadGatherFile(path, seg2[i], progress);
+    // Someone stored a revision meanwhile: the service asks to send it again (once).
+    if (!result.ok && result.failure.code === 'survey_changed') result = await uploadGatherFile(path, seg2[i], progress);
+    if (result.ok) {
+      lineId = result.data.id;
+      row.set('stored', storedFileText(result.data.picks, result.data.shotId));
+      stored += 1;
+    } else {
+      row.set('failed', errorText(result.failure));
+      failed += 1;
+    }
+  }
+  ui.status.textContent =
+    (stored === 0 ? 'No file was stored.' : stored + ' of ' + (stored + failed) + (stored + failed === 1 ? ' file' : ' files') + ' stored.') +
+    (failed > 0 ? ' The problems are listed beside each file.' : '') +
+    (stored > 0 ? ' The line is open: review its picks under the figures.' : '');
+  state.busy = false;
+  setControls();
+  if (stored > 0) await state.showLine(lineId);
+}
+
+/**
+ * The service's words, and where a file is broken (the byte offset), for the row.
+ * @param {import('./api.js').Failure} failure
+ */
+function errorText(failure) {
+  const problems = failure.problems.map((p) => p.message).filter((m) => m && m !== failure.message);
+  return 'Not stored: ' + failure.message + (problems.length > 0 ? ' ' + problems.join(' ') : '');
+}
+
+/** Demo A's five files, fetched from the service and sent like dropped ones. */
+async function loadDemoGathers() {
+  if (state.busy) return;
+  ui.status.textContent = 'Fetching the demo files…';
+  /** @type {File[]} */
+  const files = [];
+  for (const name of DEMO_GATHER_FILES) {
+    try {
+      const response = await fetch('samples/' + name);
+      if (!response.ok) throw new Error(String(response.status));
+      files.push(new File([await response.blob()], name, { type: 'application/octet-stream' }));
+    } catch {
+      ui.status.textContent = 'The demo file ' + name + ' could not be fetched from the service.';
+      return;
+    }
+  }
+  ui.targetNew.checked = true;
+  syncNameField();
+  await sendFiles(files, DEMO_GATHER_LINE_NAME);
+}
+
+function setControls() {
+  ui.input.disabled = state.busy;
+  ui.choose.classList.toggle('disabled', state.busy);
+  ui.demo.disabled = state.busy;
+  ui.zone.classList.toggle('busy', state.busy);
+}
+
+/**
+ * The "into the open line" choice follows the line on show; it is chosen by default when
+ * that line was made from seismograph files (the next files of the same line).
+ */
+export function updateDropTarget() {
+  const open = state.openLine();
+  ui.targetOpen.disabled = open === null;
+  ui.targetOpenText.textContent = open === null ? 'into the open line (none open)' : 'into “' + open.name + '”';
+  if (open === null) {
+    ui.targetNew.checked = true;
+  } else if (open.fromGathers) {
+    ui.targetOpen.checked = true;
+  }
+  syncNameField();
+}
+
+/** The name field serves a new line only. */
+function syncNameField() {
+  ui.name.disabled = ui.targetOpen.checked;
+}
+
+/** @param {DragEvent} event */
+function hasFiles(event) {
+  return Array.from(event.dataTransfer?.types ?? []).includes('Files');
+}
+
+/**
+ * Wires the panel.
+ * @param {{ openLine: () => OpenLine, showLine: (id: string) => Promise<void> }} hooks
+ *   openLine: the stored line on show at its latest revision, or null; showLine: open a stored line.
+ */
+export function initGatherDrop(hooks) {
+  state.openLine = hooks.openLine;
+  state.showLine = hooks.showLine;
+  ui.input.addEventListener('change', () => {
+    const files = Array.from(ui.input.files ?? []);
+    ui.input.value = '';
+    void sendFiles(files);
+  });
+  ui.demo.addEventListener('click', () => void loadDemoGathers());
+  ui.targetNew.addEventListener('change', syncNameField);
+  ui.targetOpen.addEventListener('change', syncNameField);
+  ui.zone.addEventListener('dragover', (event) => {
+    if (!hasFiles(event)) return;
+    event.preventDefault();
+    if (event.dataTransfer) event.dataTransfer.dropEffect = 'copy';
+    ui.zone.classList.add('over');
+  });
+  ui.zone.addEventListener('dragleave', () => ui.zone.classList.remove('over'));
+  ui.zone.addEventListener('drop', (event) => {
+    event.preventDefault();
+    ui.zone.classList.remove('over');
+    void sendFiles(Array.from(event.dataTransfer?.files ?? []));
+  });
+  // A file let go beside the zone would make the browser leave the page to show it.
+  window.addEventListener('dragover', (event) => {
+    if (hasFiles(event)) event.preventDefault();
+  });
+  window.addEventListener('drop', (event) => {
+    if (hasFiles(event)) event.preventDefault();
+  });
+  updateDropTarget();
+}
