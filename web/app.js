@@ -870,9 +870,13 @@ async function loadChosenFile() {
     // say what it is instead, and leave the input as it was.
     const kind = binaryKind(new Uint8Array(await file.slice(0, 4096).arrayBuffer()));
     if (kind !== null) {
+      // A seismograph file has its own way in: the drop zone above picks its first breaks.
+      const instead = kind === 'a SEG-2 seismograph record'
+        ? 'Put the seismograph files of the line under “Seismograph files” above (drop them or choose them there): their first breaks are picked for you.'
+        : 'Pick the first breaks first and export them in one of these forms.';
       showError({
-        message: 'The file “' + file.name + '” is ' + kind + ', not a pick file. Arcline reads first-break picks: '
-          + 'a JSON survey or a CSV pick table (see the README for both). Pick the first breaks first and export them in one of these forms.',
+        message: 'The file “' + file.name + '” is ' + kind + ', not a pick file. Here Arcline reads first-break picks: '
+          + 'a JSON survey or a CSV pick table (see the README for both). ' + instead,
         path: '', problems: [],
       });
       ui.fileInput.value = '';

@@ -82,18 +82,33 @@ export function lineNameFor(names) {
 
 /**
  * The route of one upload: a new line (POST api/v1/surveys/gathers) or the line `lineId`
- * extended (POST api/v1/surveys/:id/gathers), with the shot id, and the name and reviewer
- * when given. Relative, like every path of the page (api.js).
- * @param {{ lineId: string, shotId: string, name?: string, author?: string }} target
+ * extended (POST api/v1/surveys/:id/gathers), with the shot id, the name and reviewer when
+ * given, and positions the file lacks (`overrides`: shotX, geophoneX0, geophoneSpacing, m).
+ * Relative, like every path of the page (api.js).
+ * @param {{ lineId: string, shotId: string, name?: string, author?: string, overrides?: Record<string, number> }} target
  */
 export function uploadPath(target) {
   const query = ['shotId=' + encodeURIComponent(target.shotId)];
   if (target.lineId === '' && target.name) query.push('name=' + encodeURIComponent(target.name));
   if (target.author) query.push('author=' + encodeURIComponent(target.author));
+  for (const [key, value] of Object.entries(target.overrides ?? {})) {
+    if (Number.isFinite(value)) query.push(encodeURIComponent(key) + '=' + encodeURIComponent(String(value)));
+  }
   const base = target.lineId === '' ? 'api/v1/surveys/gathers' : 'api/v1/surveys/' + encodeURIComponent(target.lineId) + '/gathers';
   return base + '?' + query.join('&');
 }
 
+/**
+ * The positions to ask for when the service says a file lacks them: its error's `path` names
+ * the query parameter that supplies the missing header (server/routes/gathers.ts, seg2Error).
+ * @param {string} path
+ * @returns {{ key: string, label: string }[]}
+ */
+export function missingPositions(path) {
+  if (path === '/shotX') return [{ key: 'shotX', label: 'Shot x (m)' }];
+  if (path === '/geophoneX0') return [{ key: 'geophoneX0', label: 'First geophone x (m)' }, { key: 'geophoneSpacing', label: 'Geophone spacing (m)' }];
+  return [];
+}
 
 /**
  * What a stored file says: its picks and how many of them to check first.

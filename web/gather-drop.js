@@ -9,7 +9,7 @@
 // Text reaches the DOM through textContent only; states are CSS classes (no inline style).
 
 import { uploadGatherFile } from './api.js';
-import { DEMO_GATHER_FILES, DEMO_GATHER_LINE_NAME, isSeg2Name, lineNameFor, percentSent, shotIdsFor, storedFileText, uploadPath } from './drop-files.js';
+import { DEMO_GATHER_FILES, DEMO_GATHER_LINE_NAME, isSeg2Name, lineNameFor, missingPositions, percentSent, shotIdsFor, storedFileText, uploadPath } from './drop-files.js';
 
 /**
  * @template {HTMLElement} T
@@ -40,6 +40,8 @@ const ui = {
 
 const state = {
   busy: false,
+  /** The line the last drop went into ('' when none was stored): a file sent again joins it. */
+  lineId: '',
   /** @type {() => OpenLine} */ openLine: () => null,
   /** @type {(id: string) => Promise<void>} */ showLine: async () => {},
 };
@@ -61,15 +63,19 @@ function fileRow(name) {
   const words = document.createElement('span');
   words.className = 'drop-file-state';
   words.textContent = 'Waiting.';
-  item.append(title, bar, words);
+  const extra = document.createElement('div');
+  extra.className = 'drop-file-extra';
+  item.append(title, bar, words, extra);
   ui.list.append(item);
   return {
     item,
+    extra,
     /** @param {'waiting'|'sending'|'picking'|'stored'|'failed'} kind @param {string} text */
     set(kind, text) {
       item.className = 'drop-file ' + kind;
       item.dataset.state = kind;
       words.textContent = text;
+      extra.replaceChildren();
       if (kind === 'picking' || kind === 'stored') bar.value = 100;
       // A bar without a value is the browser's "working" bar: the service is picking.
       if (kind === 'picking') bar.removeAttribute('value');
@@ -115,23 +121,15 @@ async function sendFiles(files, lineName) {
   const rows = seg2.map((f) => fileRow(f.name));
   // One at a time: every upload is the next revision of the line (O(files) round trips).
   for (let i = 0; i < seg2.length; i++) {
-    const row = rows[i];
-    const shotId = shotIds[i];
-    row.set('sending', 'Sending… 0 %');
-    const path = uploadPath({ lineId, shotId, name });
-    const progress = { onSent: (/** @type {number} */ loaded, /** @type {number} */ total) => row.sent(percentSent(loaded, total)), onPicking: () => row.set('picking', 'Picking first breaks…') };
-    let result = await uploadGatherFile(path, seg2[i], progress);
-    // Someone stored a revision meanwhile: the service asks to send it again (once).
-    if (!result.ok && result.failure.code === 'survey_changed') result = await uploadGatherFile(path, seg2[i], progress);
-    if (result.ok) {
-      lineId = result.data.id;
-      row.set('stored', storedFileText(result.data.picks, result.data.shotId));
+    const id = await sendOne(rows[i], seg2[i], { lineId, shotId: shotIds[i], name }, {});
+    if (id !== null) {
+      lineId = id;
       stored += 1;
     } else {
-      row.set('failed', errorText(result.failure));
       failed += 1;
     }
   }
+  state.lineId = lineId;
   ui.status.textContent =
     (stored === 0 ? 'No file was stored.' : stored + ' of ' + (stored + failed) + (stored + failed === 1 ? ' file' : ' files') + ' stored.') +
     (failed > 0 ? ' The problems are listed beside each file.' : '') +
@@ -142,12 +140,92 @@ async function sendFiles(files, lineName) {
 }
 
 /**
+ * Sends one file; on success the row says what was stored and the line's id is returned,
+ * else the row shows the service's words (and, when the file lacks positions, fields to
+ * give them and send it again).
+ * @param {ReturnType<typeof fileRow>} row
+ * @param {File} file
+ * @param {{ lineId: string, shotId: string, name: string }} target
+ * @param {Record<string, number>} overrides positions given for this file
+ * @returns {Promise<string | null>}
+ */
+async function sendOne(row, file, target, overrides) {
+  row.set('sending', 'Sending… 0 %');
+  const path = uploadPath({ ...target, overrides });
+  const progress = { onSent: (/** @type {number} */ loaded, /** @type {number} */ total) => row.sent(percentSent(loaded, total)), onPicking: () => row.set('picking', 'Picking first breaks…') };
+  let result = await uploadGatherFile(path, file, progress);
+  // Someone stored a revision meanwhile: the service asks to send it again (once).
+  if (!result.ok && result.failure.code === 'survey_changed') result = await uploadGatherFile(path, file, progress);
+  if (result.ok) {
+    row.set('stored', storedFileText(result.data.picks, result.data.shotId));
+    return result.data.id;
+  }
+  row.set('failed', errorText(result.failure));
+  const asked = missingPositions(result.failure.path);
+  if (asked.length > 0) askPositions(row, file, target, overrides, asked);
+  return null;
+}
+
+/**
+ * Fields for the positions a file lacks, beside it, and "Send again": the file then joins
+ * the line the drop went into (or makes it, when nothing was stored yet).
+ * @param {ReturnType<typeof fileRow>} row
+ * @param {File} file
+ * @param {{ lineId: string, shotId: string, name: string }} target
+ * @param {Record<string, number>} overrides
+ * @param {{ key: string, label: string }[]} asked
+ */
+function askPositions(row, file, target, overrides, asked) {
+  const form = document.createElement('form');
+  form.className = 'drop-positions';
+  const inputs = asked.map(({ key, label }) => {
+    const wrap = document.createElement('label');
+    wrap.textContent = label + ' ';
+    const input = document.createElement('input');
+    input.type = 'number';
+    input.step = 'any';
+    input.required = true;
+    input.name = key;
+    input.dataset.key = key;
+    wrap.append(input);
+    form.append(wrap);
+    return input;
+  });
+  const again = document.createElement('button');
+  again.type = 'submit';
+  again.className = 'button small';
+  again.textContent = 'Send again';
+  form.append(again);
+  form.addEventListener('submit', (event) => {
+    event.preventDefault();
+    if (state.busy) return;
+    /** @type {Record<string, number>} */
+    const given = { ...overrides };
+    for (const input of inputs) given[input.name] = Number(input.value);
+    void (async () => {
+      state.busy = true;
+      setControls();
+      const id = await sendOne(row, file, { ...target, lineId: state.lineId }, given);
+      state.busy = false;
+      setControls();
+      if (id !== null) {
+        state.lineId = id;
+        ui.status.textContent = 'Stored. The line is open: review its picks under the figures.';
+        await state.showLine(id);
+      }
+    })();
+  });
+  row.extra.append(form);
+}
+
+/**
  * The service's words, and where a file is broken (the byte offset), for the row.
  * @param {import('./api.js').Failure} failure
  */
 function errorText(failure) {
   const problems = failure.problems.map((p) => p.message).filter((m) => m && m !== failure.message);
-  return 'Not stored: ' + failure.message + (problems.length > 0 ? ' ' + problems.join(' ') : '');
+  const asked = missingPositions(failure.path).length > 0 ? ' Give it below and send the file again.' : '';
+  return 'Not stored: ' + failure.message + (problems.length > 0 ? ' ' + problems.join(' ') : '') + asked;
 }
 
 /** Demo A's five files, fetched from the service and sent like dropped ones. */

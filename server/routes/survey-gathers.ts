@@ -24,7 +24,7 @@ import { AppError, problemsError } from '../errors.js';
 import { clientGone } from '../compute/client-gone.js';
 import { errorResponses, authorQuerySchema } from '../route-schemas.js';
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
-import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties } from './gathers.js';
+import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties, seg2Error } from './gathers.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { links } from './surveys.js';
 import { LAYOUT_CHANGE_CONFIRM, layoutChangeMessage } from '../revision-layout.js';
@@ -165,7 +165,7 @@ export async function surveyGatherRoutes(app: FastifyInstance, options: SurveyGa
 
   const pick = async (bytes: Uint8Array, overrides: GatherOverrides, signal: ReturnType<typeof clientGone>): Promise<GatherPicksResponse> => {
     const result = await app.compute.run('gatherPicks', { bytes, overrides }, signal);
-    if (!result.ok) throw new AppError('invalid_seg2', { message: result.error.message, byteOffset: result.error.byteOffset });
+    if (!result.ok) throw seg2Error(result.error);
     return result.picks;
   };
 

@@ -17,6 +17,9 @@ import { openArcline, servePageInChromium, SAMPLES_DIR, type ServedPage } from '
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun } from './browser.js';
 import { plotLayout } from '../../web/gather-plot.js';
 import { DEMO_GATHER_FILES } from '../../web/drop-files.js';
+import { writeSeg2 } from '../../engine/seg2/write.js';
+import { syntheticGather } from '../../engine/forward/synthetic-gather.js';
+import { spec } from '../helpers/picker-lines.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
 
@@ -149,8 +152,11 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     // The open line is the one dropped above, made from files: joining it is the default; a new line is chosen here.
     expect(await page.isChecked('#drop-target-open')).toBe(true);
     await page.check('#drop-target-new');
-    await page.focus('#gather-files');
+    // Listening first: Playwright turns on its file-chooser interception asynchronously, and a
+    // key press is quicker than a click; the focus round trip lets it take effect.
     const chooser = page.waitForEvent('filechooser');
+    await page.focus('#gather-files');
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('gather-files');
     await page.keyboard.press('Space');
     const picked = await chooser;
     expect(picked.isMultiple()).toBe(true);
@@ -165,6 +171,46 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     expect(trouble.pageErrors).toEqual([]);
     expect(trouble.cspViolations).toEqual([]);
     expect(trouble.consoleErrors).toEqual([]);
+    await context.close();
+  });
+
+  it('asks beside a file for the positions its headers lack, and stores it when they are given', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    // A synthetic gather (closed-form planar refractor, tests/helpers/picker-lines.ts) written
+    // without RECEIVER_LOCATION and SOURCE_LOCATION: 48 geophones from 0 m every 2 m, shot at -20 m.
+    const { traces } = syntheticGather(spec(-20, 30, 42));
+    const bare = Buffer.from(writeSeg2({
+      littleEndian: true,
+      revision: 1,
+      strings: [{ keyword: 'UNITS', value: 'METERS' }],
+      traces: traces.map((samples, i) => ({
+        format: 4,
+        samples: samples.map(Math.fround),
+        strings: [{ keyword: 'CHANNEL_NUMBER', value: String(i + 1) }, { keyword: 'SAMPLE_INTERVAL', value: '0.00025' }, { keyword: 'DELAY', value: '-0.010' }],
+      })),
+    }));
+    const { context, page, trouble } = await openArcline(served.launched, served.baseUrl);
+    await page.check('#drop-target-new');
+    await page.setInputFiles('#gather-files', { name: 'bare-shot.sg2', mimeType: 'application/octet-stream', buffer: bare });
+    await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('failed');
+    expect((await rows(page))[0].words).toMatch(/RECEIVER_LOCATION.*Give it below and send the file again\.$/);
+    await page.locator('#drop-list').screenshot({ path: join(SCREENSHOTS, 'gather-drop-ask.png') });
+    await page.fill('#drop-list input[name="geophoneX0"]', '0');
+    await page.fill('#drop-list input[name="geophoneSpacing"]', '2');
+    await page.locator('#drop-list input[name="geophoneSpacing"]').press('Enter');
+    // Then the shot position, which the file lacks as well.
+    await expect.poll(async () => (await rows(page))[0].words, POLL).toMatch(/SOURCE_LOCATION/);
+    await page.fill('#drop-list input[name="shotX"]', '-20');
+    await page.click('#drop-list button[type="submit"]');
+    await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('stored');
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe('bare-shot');
+    const id = await page.evaluate(() => decodeURIComponent(location.hash.replace(/^#line=/, '').split('&')[0]));
+    const line = (await (await page.request.get(new URL(`api/v1/surveys/${id}`, served.baseUrl).href)).json()) as { survey: { geophones: { x: number }[]; shots: { x: number }[] } };
+    expect(line.survey.geophones.map((g) => g.x)).toEqual(Array.from({ length: 48 }, (_, i) => 2 * i));
+    expect(line.survey.shots[0].x).toBe(-20);
+    await page.locator('aside.sidebar').screenshot({ path: join(SCREENSHOTS, 'gather-drop-positions.png') });
+    expect(trouble.pageErrors).toEqual([]);
+    expect(trouble.cspViolations).toEqual([]);
+    expect(trouble.consoleErrors.filter((t) => !/status of 400/.test(t))).toEqual([]);
     await context.close();
   });
 });
