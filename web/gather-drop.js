@@ -224,7 +224,9 @@ function askPositions(row, file, target, overrides, asked) {
  */
 function errorText(failure) {
   const problems = failure.problems.map((p) => p.message).filter((m) => m && m !== failure.message);
-  const asked = missingPositions(failure.path).length > 0 ? ' Give it below and send the file again.' : '';
+  const asked =
+    failure.path === '/shotX' ? ' Give the shot position below and send the file again.'
+      : failure.path === '/geophoneX0' ? ' Give the first geophone\'s x and the spacing below and send the file again.' : '';
   return 'Not stored: ' + failure.message + (problems.length > 0 ? ' ' + problems.join(' ') : '') + asked;
 }
 

@@ -192,7 +192,7 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     await page.check('#drop-target-new');
     await page.setInputFiles('#gather-files', { name: 'bare-shot.sg2', mimeType: 'application/octet-stream', buffer: bare });
     await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('failed');
-    expect((await rows(page))[0].words).toMatch(/RECEIVER_LOCATION.*Give it below and send the file again\.$/);
+    expect((await rows(page))[0].words).toMatch(/RECEIVER_LOCATION.*Give the first geophone's x and the spacing below and send the file again\.$/);
     await page.locator('#drop-list').screenshot({ path: join(SCREENSHOTS, 'gather-drop-ask.png') });
     await page.fill('#drop-list input[name="geophoneX0"]', '0');
     await page.fill('#drop-list input[name="geophoneSpacing"]', '2');
