@@ -165,10 +165,10 @@ function draw() {
     const half = layout.spacing * 0.45;
     if (mark.kind === 'low') {
       ctx.strokeStyle = colour;
-      ctx.lineWidth = 1.5;
-      ctx.strokeRect(cx - half, y - 3, 2 * half, 6);
+      ctx.lineWidth = 2;
+      ctx.strokeRect(cx - half, y - 4, 2 * half, 8);
       ctx.lineWidth = 1;
-      if (i === state.selected) ctx.strokeRect(cx - half - 2, y - 5, 2 * half + 4, 10);
+      if (i === state.selected) ctx.strokeRect(cx - half - 3, y - 7, 2 * half + 6, 14);
       return;
     }
     ctx.fillStyle = colour;
@@ -202,7 +202,7 @@ function showCheckList() {
     ui.check.replaceChildren(head);
     return;
   }
-  head.textContent = 'Check first: ' + order.length + ' of ' + own + " of the picker's picks with confidence under " + LOW_PICK_CONFIDENCE + ':';
+  head.textContent = 'Check first: ' + order.length + ' of the picker\'s ' + own + ' picks ' + (order.length === 1 ? 'has' : 'have') + ' confidence under ' + LOW_PICK_CONFIDENCE + ':';
   const buttons = order.map((i) => {
     const button = document.createElement('button');
     button.type = 'button';

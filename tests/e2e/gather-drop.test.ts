@@ -174,10 +174,10 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     await context.close();
   });
 
-  it('asks beside a file for the positions its headers lack, and stores it when they are given', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
-    // A synthetic gather (closed-form planar refractor, tests/helpers/picker-lines.ts) written
-    // without RECEIVER_LOCATION and SOURCE_LOCATION: 48 geophones from 0 m every 2 m, shot at -20 m.
-    const { traces } = syntheticGather(spec(-20, 30, 42));
+  it('asks beside a file for the positions its headers lack, stores it when they are given, and lists its low-confidence picks to check first', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    // A noisy synthetic gather (SNR 4; closed-form planar refractor, tests/helpers/picker-lines.ts)
+    // written without RECEIVER_LOCATION and SOURCE_LOCATION: 48 geophones from 0 m every 2 m, shot at -20 m.
+    const { traces } = syntheticGather(spec(-20, 4, 42));
     const bare = Buffer.from(writeSeg2({
       littleEndian: true,
       revision: 1,
@@ -208,6 +208,26 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     expect(line.survey.geophones.map((g) => g.x)).toEqual(Array.from({ length: 48 }, (_, i) => 2 * i));
     expect(line.survey.shots[0].x).toBe(-20);
     await page.locator('aside.sidebar').screenshot({ path: join(SCREENSHOTS, 'gather-drop-positions.png') });
+
+    // Check first: the picks the service's picker gives under 0.5 confidence for this file, least confident first.
+    const picks = (await (await page.request.post(new URL('api/v1/gathers/picks?shotX=-20&geophoneX0=0&geophoneSpacing=2', served.baseUrl).href, {
+      headers: { 'Content-Type': 'application/octet-stream' },
+      data: bare,
+    })).json()) as { times: (number | null)[]; confidence: number[]; traces: { channel: number }[] };
+    const low = picks.times
+      .map((t, i) => ({ t, i, c: picks.confidence[i] }))
+      .filter(({ t, c }) => t !== null && t >= 0 && c < 0.5)
+      .sort((a, b) => a.c - b.c || a.i - b.i);
+    expect(low.length).toBeGreaterThan(0);
+    await page.waitForSelector('#gather-canvas[data-shot="bare-shot"]');
+    const buttons = await page.$$eval('#pick-check button', (b) => b.map((x) => x.textContent));
+    expect(buttons).toEqual(low.map(({ i, c }) => `ch ${picks.traces[i].channel} (${c.toFixed(2)})`));
+    expect(await page.textContent('#pick-check .pick-check-head')).toMatch(new RegExp(`^Check first: ${low.length} of the picker's \\d+ picks ha(s|ve) confidence under 0\\.5:$`));
+    await page.click('#pick-check button >> nth=0');
+    expect(await page.textContent('#gather-status')).toBe(
+      `Channel ${picks.traces[low[0].i].channel} (x = ${2 * low[0].i} m): pick at ${(low[0].t as number).toFixed(2)} ms, the picker's, confidence ${low[0].c.toFixed(2)} (low: check it).`,
+    );
+    await page.locator('#gather-review').screenshot({ path: join(SCREENSHOTS, 'gather-drop-low-confidence.png') });
     expect(trouble.pageErrors).toEqual([]);
     expect(trouble.cspViolations).toEqual([]);
     expect(trouble.consoleErrors.filter((t) => !/status of 400/.test(t))).toEqual([]);
