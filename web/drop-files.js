@@ -85,10 +85,13 @@ export function lineNameFor(names) {
  * extended (POST api/v1/surveys/:id/gathers), with the shot id, the name and reviewer when
  * given, and positions the file lacks (`overrides`: shotX, geophoneX0, geophoneSpacing, m).
  * Relative, like every path of the page (api.js).
- * @param {{ lineId: string, shotId: string, name?: string, author?: string, overrides?: Record<string, number> }} target
+ * `confirmLayout` adds `layoutChange=confirm` (a file whose geophones are not the line's is
+ * added anyway, the layouts merged).
+ * @param {{ lineId: string, shotId: string, name?: string, author?: string, overrides?: Record<string, number>, confirmLayout?: boolean }} target
  */
 export function uploadPath(target) {
   const query = ['shotId=' + encodeURIComponent(target.shotId)];
+  if (target.lineId !== '' && target.confirmLayout) query.push('layoutChange=confirm');
   if (target.lineId === '' && target.name) query.push('name=' + encodeURIComponent(target.name));
   if (target.author) query.push('author=' + encodeURIComponent(target.author));
   for (const [key, value] of Object.entries(target.overrides ?? {})) {

@@ -163,7 +163,55 @@ async function sendOne(row, file, target, overrides) {
   row.set('failed', errorText(result.failure));
   const asked = missingPositions(result.failure.path);
   if (asked.length > 0) askPositions(row, file, target, overrides, asked);
+  if (result.failure.layoutChange) askLayout(row, file, target, overrides);
   return null;
+}
+
+/**
+ * Runs one more upload of a file from its row (a second try the user asked for), then
+ * opens the line it went into.
+ * @param {ReturnType<typeof fileRow>} row
+ * @param {File} file
+ * @param {{ lineId: string, shotId: string, name: string, confirmLayout?: boolean }} target
+ * @param {Record<string, number>} overrides
+ */
+async function sendAgain(row, file, target, overrides) {
+  if (state.busy) return;
+  state.busy = true;
+  setControls();
+  const id = await sendOne(row, file, target, overrides);
+  state.busy = false;
+  setControls();
+  if (id !== null) {
+    state.lineId = id;
+    ui.status.textContent = 'Stored. The line is open: review its picks under the figures.';
+    await state.showLine(id);
+  }
+}
+
+/**
+ * A file whose geophones are not the line's (409 layout_changed, the service's description
+ * shown above): add it anyway (the layouts merged) or make a new line of it.
+ * @param {ReturnType<typeof fileRow>} row
+ * @param {File} file
+ * @param {{ lineId: string, shotId: string, name: string }} target
+ * @param {Record<string, number>} overrides
+ */
+function askLayout(row, file, target, overrides) {
+  const anyway = document.createElement('button');
+  anyway.type = 'button';
+  anyway.className = 'button small';
+  anyway.textContent = 'Add it anyway';
+  anyway.addEventListener('click', () => void sendAgain(row, file, { ...target, confirmLayout: true }, overrides));
+  const apart = document.createElement('button');
+  apart.type = 'button';
+  apart.className = 'button small';
+  apart.textContent = 'Store it as a new line';
+  apart.addEventListener('click', () => void sendAgain(row, file, { ...target, lineId: '', name: lineNameFor([file.name]) }, overrides));
+  const actions = document.createElement('div');
+  actions.className = 'drop-layout';
+  actions.append(anyway, apart);
+  row.extra.append(actions);
 }
 
 /**
@@ -198,22 +246,10 @@ function askPositions(row, file, target, overrides, asked) {
   form.append(again);
   form.addEventListener('submit', (event) => {
     event.preventDefault();
-    if (state.busy) return;
     /** @type {Record<string, number>} */
     const given = { ...overrides };
     for (const input of inputs) given[input.name] = Number(input.value);
-    void (async () => {
-      state.busy = true;
-      setControls();
-      const id = await sendOne(row, file, { ...target, lineId: state.lineId }, given);
-      state.busy = false;
-      setControls();
-      if (id !== null) {
-        state.lineId = id;
-        ui.status.textContent = 'Stored. The line is open: review its picks under the figures.';
-        await state.showLine(id);
-      }
-    })();
+    void sendAgain(row, file, { ...target, lineId: state.lineId }, given);
   });
   row.extra.append(form);
 }
@@ -223,6 +259,7 @@ function askPositions(row, file, target, overrides, asked) {
  * @param {import('./api.js').Failure} failure
  */
 function errorText(failure) {
+  if (failure.layoutChange) return 'Not added: ' + failure.layoutChange + ' Add it anyway (the geophones of both are kept), or store it as a line of its own.';
   const problems = failure.problems.map((p) => p.message).filter((m) => m && m !== failure.message);
   const asked =
     failure.path === '/shotX' ? ' Give the shot position below and send the file again.'

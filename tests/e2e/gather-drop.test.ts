@@ -228,9 +228,23 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
       `Channel ${picks.traces[low[0].i].channel} (x = ${2 * low[0].i} m): pick at ${(low[0].t as number).toFixed(2)} ms, the picker's, confidence ${low[0].c.toFixed(2)} (low: check it).`,
     );
     await page.locator('#gather-review').screenshot({ path: join(SCREENSHOTS, 'gather-drop-low-confidence.png') });
+
+    // A shot of another spread (Demo A: 24 geophones every 3 m) into this line (48 every 2 m):
+    // the service's description of the change beside the file, then "Add it anyway" merges the layouts.
+    expect(await page.isChecked('#drop-target-open')).toBe(true);
+    await page.setInputFiles('#gather-files', join(SAMPLES_DIR, 'demo-line-W-end.sg2'));
+    await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('failed');
+    expect((await rows(page))[0].words).toMatch(/^Not added: The new revision has 24 geophones .* Add it anyway \(the geophones of both are kept\), or store it as a line of its own\.$/);
+    await page.click('#drop-list button:has-text("Add it anyway")');
+    await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('stored');
+    const merged = (await (await page.request.get(new URL(`api/v1/surveys/${id}`, served.baseUrl).href)).json()) as { survey: { geophones: { x: number }[]; shots: { id: string }[] } };
+    const union = new Set([...Array.from({ length: 48 }, (_, i) => 2 * i), ...Array.from({ length: 24 }, (_, i) => 3 * i)]);
+    expect(merged.survey.geophones.map((g) => g.x)).toEqual([...union].sort((a, b) => a - b));
+    expect(merged.survey.shots.map((s) => s.id)).toEqual(['bare-shot', 'demo-line-W-end']);
     expect(trouble.pageErrors).toEqual([]);
     expect(trouble.cspViolations).toEqual([]);
-    expect(trouble.consoleErrors.filter((t) => !/status of 400/.test(t))).toEqual([]);
+    // The refused uploads' 400s and the 409 are the console errors failed requests leave.
+    expect(trouble.consoleErrors.filter((t) => !/status of 40[09]/.test(t))).toEqual([]);
     await context.close();
   });
 });

@@ -3,7 +3,7 @@
 // README "Shot gathers into stored lines"), and the words of a stored file. The expected
 // values follow from the rules stated in the module, worked by hand here.
 import { describe, expect, it } from 'vitest';
-import { DEMO_GATHER_FILES, MAX_SHOT_ID_LENGTH, isSeg2Name, lineNameFor, percentSent, sharedPrefix, shotIdsFor, storedFileText, uploadPath } from '../../web/drop-files.js';
+import { DEMO_GATHER_FILES, MAX_SHOT_ID_LENGTH, isSeg2Name, missingPositions, lineNameFor, percentSent, sharedPrefix, shotIdsFor, storedFileText, uploadPath } from '../../web/drop-files.js';
 import { demoGathers } from '../../engine/samples/demo-gathers.js';
 import { SURVEY_LIMITS } from '../../engine/survey/survey.js';
 
@@ -48,6 +48,16 @@ describe('upload routes', () => {
   it('a new line, or the open one, with the shot id (and name, reviewer) encoded', () => {
     expect(uploadPath({ lineId: '', shotId: 'W end', name: 'Line 3 & 4' })).toBe('api/v1/surveys/gathers?shotId=W%20end&name=Line%203%20%26%204');
     expect(uploadPath({ lineId: 'ab/c', shotId: 'mid', name: 'ignored for an existing line', author: 'R. O.' })).toBe('api/v1/surveys/ab%2Fc/gathers?shotId=mid&author=R.%20O.');
+    // Positions the file lacks, and the layout change confirmed (only for an existing line).
+    expect(uploadPath({ lineId: 'L1', shotId: 's', overrides: { shotX: -20, geophoneX0: 0, geophoneSpacing: 2.5 }, confirmLayout: true })).toBe(
+      'api/v1/surveys/L1/gathers?shotId=s&layoutChange=confirm&shotX=-20&geophoneX0=0&geophoneSpacing=2.5',
+    );
+    expect(uploadPath({ lineId: '', shotId: 's', confirmLayout: true })).toBe('api/v1/surveys/gathers?shotId=s');
+  });
+  it('asks for the positions the service names as missing', () => {
+    expect(missingPositions('/shotX').map((p) => p.key)).toEqual(['shotX']);
+    expect(missingPositions('/geophoneX0').map((p) => p.key)).toEqual(['geophoneX0', 'geophoneSpacing']);
+    expect(missingPositions('')).toEqual([]);
   });
 });
 
