@@ -101,7 +101,11 @@ function targetLineId() {
  * @param {string} [lineName] name of a new line (default: the name field, else from the file names)
  */
 async function sendFiles(files, lineName) {
-  if (state.busy || files.length === 0) return;
+  if (files.length === 0) return;
+  if (state.busy) {
+    ui.status.textContent = 'Files are still being sent: drop these again when those listed are done.';
+    return;
+  }
   state.busy = true;
   setControls();
   ui.list.replaceChildren();
@@ -176,7 +180,10 @@ async function sendOne(row, file, target, overrides) {
  * @param {Record<string, number>} overrides
  */
 async function sendAgain(row, file, target, overrides) {
-  if (state.busy) return;
+  if (state.busy) {
+    ui.status.textContent = 'Files are still being sent: send this one again when they are done.';
+    return;
+  }
   state.busy = true;
   setControls();
   const id = await sendOne(row, file, target, overrides);
