@@ -53,6 +53,7 @@ const state = {
 function fileRow(name) {
   const item = document.createElement('li');
   item.className = 'drop-file waiting';
+  item.dataset.state = 'waiting';
   const title = document.createElement('span');
   title.className = 'drop-file-name';
   title.textContent = name;
@@ -76,10 +77,10 @@ function fileRow(name) {
       item.dataset.state = kind;
       words.textContent = text;
       extra.replaceChildren();
-      if (kind === 'picking' || kind === 'stored') bar.value = 100;
       // A bar without a value is the browser's "working" bar: the service is picking.
       if (kind === 'picking') bar.removeAttribute('value');
-      if (kind === 'stored') bar.value = 100;
+      else if (kind === 'stored') bar.value = 100;
+      else if (kind === 'sending') bar.value = 0;
     },
     /** @param {number} percent */
     sent(percent) {
