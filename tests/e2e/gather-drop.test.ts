@@ -77,6 +77,7 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     // A broken file among them: Demo A's mid file cut short in its trace data.
     const mid = (await readFile(join(SAMPLES_DIR, 'demo-line-mid.sg2'))).subarray(0, 3000).toString('base64');
     const dropped = [...files.slice(0, 3), { name: 'demo-line-cut.sg2', base64: mid }, ...files.slice(3)];
+    const droppedAt = Date.now();
     await page.evaluate((list) => {
       const transfer = new DataTransfer();
       for (const f of list) transfer.items.add(new File([Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0))], f.name, { type: 'application/octet-stream' }));
@@ -86,6 +87,8 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     }, dropped);
 
     await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('stored,stored,stored,failed,stored,stored');
+    // Reported, never asserted (speed is measured, not tested).
+    console.log(`gather drop: 6 files (5 stored, 1 refused) done ${Date.now() - droppedAt} ms after the drop`);
     const listed = await rows(page);
     expect(listed.map((r) => r.name)).toEqual(dropped.map((f) => f.name));
     for (const r of listed.filter((x) => x.state === 'stored')) {
