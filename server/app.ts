@@ -13,6 +13,7 @@ import { addSecurityHeaders } from './security-headers.js';
 import { SurveyStore } from './store.js';
 import { isLoopbackHost, writeGuard } from './write-auth.js';
 import { seedDemoLine } from './seed.js';
+import { demoGathersRoute, findSamplesDir } from './demo-gathers-route.js';
 import { findWebRoot } from './web-root.js';
 import { displayRulesRoute } from './display-rules-route.js';
 import { healthRoutes } from './routes/health.js';
@@ -222,6 +223,9 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       await app.register(fastifyStatic, { root: webRoot, prefix: '/', index: ['index.html'] });
       // The page imports the display rules from the engine (one copy for every reader).
       await app.register(displayRulesRoute);
+      // Demo A's seismograph files for the page's "Load the demo gathers".
+      const samplesDir = findSamplesDir();
+      if (samplesDir !== null) await app.register(demoGathersRoute, { samplesDir });
     }
 
     if (checked.seedDemo) {

@@ -296,7 +296,9 @@ export function storeRevision(id, bodyText, format, confirmLayoutChange = false,
 /**
  * A stored gather decimated for display (min/max per time column).
  * @typedef {{ channel: number, x: number, peak: number, min: number[], max: number[] }} DecimatedTrace
- * @typedef {{ shotId: string, fromMs: number, toMs: number, columns: number, columnMs: number, traces: DecimatedTrace[] }} DecimatedGather
+ * The picker's own answer for the file (the page shows a pick's confidence where the line's pick is still this one).
+ * @typedef {{ times: (number|null)[], confidence: number[], status: string[] }} AutomaticPicks
+ * @typedef {{ shotId: string, fromMs: number, toMs: number, columns: number, columnMs: number, traces: DecimatedTrace[], automatic?: AutomaticPicks }} DecimatedGather
  */
 
 /**
@@ -311,6 +313,56 @@ export function fetchGatherTraces(id, shotId, window) {
   if (window.fromMs !== undefined) query.push('fromMs=' + window.fromMs);
   if (window.toMs !== undefined) query.push('toMs=' + window.toMs);
   return request('api/v1/surveys/' + encodeURIComponent(id) + '/gathers/' + encodeURIComponent(shotId) + '/traces?' + query.join('&'), GET);
+}
+
+/**
+ * POST /api/v1/surveys/gathers and …/:id/gathers (201): the stored revision and the picker's
+ * answer for the file.
+ * @typedef {object} GatherStored
+ * @property {string} id
+ * @property {string} name
+ * @property {number} revision
+ * @property {string} shotId
+ * @property {boolean} replaced
+ * @property {{ times: (number|null)[], confidence: number[] }} picks
+ */
+
+/**
+ * One SEG-2 file sent as its raw bytes (application/octet-stream) to a gather upload route,
+ * with the write token when one is set. XMLHttpRequest rather than fetch: its upload events
+ * say how much of the body has gone, which fetch does not. `onSent(loaded, total)` is called
+ * as the body goes out, `onPicking()` once all of it is sent (the service then reads, picks
+ * and interprets).
+ * @param {string} path relative, from uploadPath (drop-files.js)
+ * @param {Blob} file
+ * @param {{ onSent: (loaded: number, total: number) => void, onPicking: () => void }} progress
+ * @returns {Promise<Result<GatherStored>>}
+ */
+export function uploadGatherFile(path, file, progress) {
+  return new Promise((resolve) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', path);
+    xhr.setRequestHeader('Content-Type', 'application/octet-stream');
+    xhr.setRequestHeader('Accept', 'application/json');
+    const token = readWriteToken();
+    if (token) xhr.setRequestHeader('Authorization', 'Bearer ' + token);
+    xhr.upload.addEventListener('progress', (event) => progress.onSent(event.loaded, event.lengthComputable ? event.total : file.size));
+    xhr.upload.addEventListener('load', () => progress.onPicking());
+    xhr.addEventListener('error', () => resolve({ ok: false, failure: unreachable() }));
+    xhr.addEventListener('abort', () => resolve({ ok: false, failure: failure(0, 'aborted', 'The upload was stopped before the service answered.') }));
+    xhr.addEventListener('load', () => {
+      /** @type {unknown} */
+      let body = null;
+      try {
+        body = xhr.responseText ? JSON.parse(xhr.responseText) : null;
+      } catch {
+        body = null;
+      }
+      if (xhr.status >= 200 && xhr.status < 300) resolve({ ok: true, status: xhr.status, data: /** @type {GatherStored} */ (body) });
+      else resolve({ ok: false, failure: failureFromBody(xhr.status, body) });
+    });
+    xhr.send(file);
+  });
 }
 
 /**

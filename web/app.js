@@ -6,6 +6,7 @@ import {
   storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { showGatherReview } from './gather-review.js';
+import { initGatherDrop, updateDropTarget } from './gather-drop.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
@@ -470,7 +471,12 @@ function showShareLink(shareUrl) {
   ui.sharePanel.hidden = false;
 }
 
+/** The stored line on show, for the seismograph-file drop: its name and whether it was made from files. */
+/** @type {{ id: string, name: string, fromGathers: boolean } | null} */
+let openLineInfo = null;
+
 function markOpenInList() {
+  updateDropTarget();
   for (const button of ui.storedList.querySelectorAll('button[data-line-id]')) {
     if (!(button instanceof HTMLElement)) continue;
     if (button.dataset.lineId === openLineId) button.setAttribute('aria-current', 'true');
@@ -526,6 +532,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   }
   const name = lineName(survey, 'Stored line ' + id);
   openLineId = id;
+  openLineInfo = { id, name: revisionBaseName(result.data?.revisions, integerOr(result.data?.latestRevision, 1), name), fromGathers: Array.isArray(result.data?.gathers) && result.data.gathers.length > 0 };
   const shown = integerOr(result.data?.revision, 1);
   const latest = integerOr(result.data?.latestRevision, shown);
   const revisions = Array.isArray(result.data?.revisions) ? result.data.revisions : [];
@@ -863,9 +870,13 @@ async function loadChosenFile() {
     // say what it is instead, and leave the input as it was.
     const kind = binaryKind(new Uint8Array(await file.slice(0, 4096).arrayBuffer()));
     if (kind !== null) {
+      // A seismograph file has its own way in: the drop zone above picks its first breaks.
+      const instead = kind === 'a SEG-2 seismograph record'
+        ? 'Put the seismograph files of the line under “Seismograph files” above (drop them or choose them there): their first breaks are picked for you.'
+        : 'Pick the first breaks first and export them in one of these forms.';
       showError({
-        message: 'The file “' + file.name + '” is ' + kind + ', not a pick file. Arcline reads first-break picks: '
-          + 'a JSON survey or a CSV pick table (see the README for both). Pick the first breaks first and export them in one of these forms.',
+        message: 'The file “' + file.name + '” is ' + kind + ', not a pick file. Here Arcline reads first-break picks: '
+          + 'a JSON survey or a CSV pick table (see the README for both). ' + instead,
         path: '', problems: [],
       });
       ui.fileInput.value = '';
@@ -931,8 +942,26 @@ function wire() {
   updateFormatHint();
 }
 
+/**
+ * The name of the line's latest revision (what a new revision joins), else `fallback`.
+ * @param {RevisionEntry[] | undefined} revisions
+ * @param {number} latest
+ * @param {string} fallback
+ */
+function revisionBaseName(revisions, latest, fallback) {
+  const named = Array.isArray(revisions) ? revisions.find((r) => r?.revision === latest)?.name : undefined;
+  return typeof named === 'string' && named.trim() ? named.trim() : fallback;
+}
+
 async function start() {
   wire();
+  initGatherDrop({
+    openLine: () => (openLineId !== null && openLineInfo?.id === openLineId ? openLineInfo : null),
+    showLine: async (id) => {
+      await refreshList();
+      await openStoredLine(id);
+    },
+  });
   const lines = await refreshList();
   const wanted = lineFromHash();
   const first = wanted?.id ?? lines[0]?.id;

@@ -77,3 +77,57 @@ export function withPick(times, index, ms) {
   out[index] = ms === null ? null : Math.round(ms * 100) / 100;
   return out;
 }
+
+/**
+ * Confidence under which an automatic pick is drawn hollow and listed to be checked first.
+ * Our choice: confidence 1 − 1/s² (engine/picking/pick-gather.ts) is 0.5 where the signal
+ * after the pick is √2 times the noise before it.
+ */
+export const LOW_PICK_CONFIDENCE = 0.5;
+
+/** Thinnest and thickest pick bar, px: thickness grows with the picker's confidence (our choice). */
+export const PICK_BAR_PX = Object.freeze({ thin: 2, thick: 6 });
+
+/**
+ * @typedef {object} PickMark
+ * @property {'none'|'automatic'|'low'|'reviewed'|'edited'} kind
+ *   automatic: the picker's pick, stored as it picked it; low: the same with low confidence
+ *   (drawn hollow); reviewed: a stored pick that is not the picker's (a person set it);
+ *   edited: changed here, not stored yet; none: no pick.
+ * @property {number|null} confidence the picker's confidence where the pick is still its own
+ * @property {number} thickness bar thickness, px
+ */
+
+/**
+ * How each trace's pick is drawn. A pick is the picker's own when it is within 0.005 ms of
+ * the picker's time (the service keeps times to 0.01 ms). O(traces).
+ * @param {(number|null)[]} shown    the times on show (edited or stored)
+ * @param {(number|null)[]} stored   the stored times
+ * @param {{ times: (number|null)[], confidence: number[] } | undefined} automatic the picker's answer, when the service sent it
+ * @returns {PickMark[]}
+ */
+export function pickMarks(shown, stored, automatic) {
+  return shown.map((t, i) => {
+    if (t === null || t === undefined) return { kind: 'none', confidence: null, thickness: 0 };
+    if (t !== stored[i]) return { kind: 'edited', confidence: null, thickness: 3 };
+    const auto = automatic?.times[i];
+    const c = automatic?.confidence[i];
+    if (typeof auto !== 'number' || typeof c !== 'number' || Math.abs(auto - t) > 0.005) return { kind: 'reviewed', confidence: null, thickness: 3 };
+    const thickness = PICK_BAR_PX.thin + (PICK_BAR_PX.thick - PICK_BAR_PX.thin) * Math.max(0, Math.min(1, c));
+    return { kind: c < LOW_PICK_CONFIDENCE ? 'low' : 'automatic', confidence: c, thickness };
+  });
+}
+
+/**
+ * The traces whose pick to check first: the picker's own picks with low confidence, least
+ * confident first. O(traces log traces).
+ * @param {PickMark[]} marks
+ * @returns {number[]} trace indices
+ */
+export function checkFirst(marks) {
+  return marks
+    .map((m, i) => ({ m, i }))
+    .filter(({ m }) => m.kind === 'low')
+    .sort((a, b) => /** @type {number} */ (a.m.confidence) - /** @type {number} */ (b.m.confidence) || a.i - b.i)
+    .map(({ i }) => i);
+}

@@ -9,7 +9,7 @@
 // Text reaches the DOM through textContent only; colours come from style.css.
 
 import { fetchGatherTraces, previewLine, storeRevision } from './api.js';
-import { plotLayout, reviewWindow, withPick } from './gather-plot.js';
+import { LOW_PICK_CONFIDENCE, checkFirst, pickMarks, plotLayout, reviewWindow, withPick } from './gather-plot.js';
 
 /**
  * @typedef {import('./api.js').StoredLine} StoredLine
@@ -40,6 +40,7 @@ const ui = {
   preview: $('pick-preview', HTMLElement),
   previewImage: $('pick-preview-image', HTMLImageElement),
   previewNote: $('pick-preview-note', HTMLElement),
+  check: $('pick-check', HTMLElement),
 };
 
 /** Wait after the last edit before interpreting, ms: a burst of clicks costs one request (our choice). */
@@ -144,13 +145,14 @@ function draw() {
     }
   });
 
-  // Picks: stored ones in one colour, moved ones in another, the selected one thicker.
-  const times = timesOf(state.shotId);
-  const stored = storedTimesOf(state.shotId);
-  times.forEach((t, i) => {
+  // Picks: the picker's own ones solid, thicker the more confident, hollow when the
+  // confidence is low; picks a person set in an earlier revision solid; changed ones orange.
+  const marks = currentMarks();
+  marks.forEach((mark, i) => {
     if (i >= n) return;
     const cx = layout.traceX(i);
-    if (t === null) {
+    const t = timesOf(state.shotId)[i];
+    if (mark.kind === 'none' || t === null) {
       if (i === state.selected) {
         ctx.strokeStyle = cssColour('--pick-edited');
         ctx.strokeRect(cx - layout.spacing * 0.4, layout.top, layout.spacing * 0.8, layout.height);
@@ -158,10 +160,64 @@ function draw() {
       return;
     }
     const y = layout.timeY(t);
-    ctx.fillStyle = cssColour(t === stored[i] ? '--pick' : '--pick-edited');
-    const thick = i === state.selected ? 5 : 3;
-    ctx.fillRect(cx - layout.spacing * 0.45, y - thick / 2, layout.spacing * 0.9, thick);
+    const colour = cssColour(mark.kind === 'edited' ? '--pick-edited' : '--pick');
+    const thick = mark.thickness + (i === state.selected ? 2 : 0);
+    const half = layout.spacing * 0.45;
+    if (mark.kind === 'low') {
+      ctx.strokeStyle = colour;
+      ctx.lineWidth = 2;
+      ctx.strokeRect(cx - half, y - 4, 2 * half, 8);
+      ctx.lineWidth = 1;
+      if (i === state.selected) ctx.strokeRect(cx - half - 3, y - 7, 2 * half + 6, 14);
+      return;
+    }
+    ctx.fillStyle = colour;
+    ctx.fillRect(cx - half, y - thick / 2, 2 * half, thick);
   });
+}
+
+/** How each pick of the shot on show is drawn (gather-plot.js). */
+function currentMarks() {
+  return pickMarks(timesOf(state.shotId), storedTimesOf(state.shotId), state.gather?.automatic);
+}
+
+/** The low-confidence picks of the shot on show, as buttons that select the trace, least confident first. */
+function showCheckList() {
+  const gather = state.gather;
+  if (!gather) {
+    ui.check.replaceChildren();
+    return;
+  }
+  if (!gather.automatic) {
+    ui.check.textContent = 'The service sent no confidence for these picks.';
+    return;
+  }
+  const marks = currentMarks();
+  const order = checkFirst(marks);
+  const own = marks.filter((m) => m.kind === 'automatic' || m.kind === 'low').length;
+  const head = document.createElement('span');
+  head.className = 'pick-check-head';
+  if (order.length === 0) {
+    head.textContent = 'Check first: none. ' + own + (own === 1 ? ' pick is' : ' picks are') + " the picker's own, each with confidence " + LOW_PICK_CONFIDENCE + ' or more.';
+    ui.check.replaceChildren(head);
+    return;
+  }
+  head.textContent = 'Check first: ' + order.length + ' of the picker\'s ' + own + ' picks ' + (order.length === 1 ? 'has' : 'have') + ' confidence under ' + LOW_PICK_CONFIDENCE + ':';
+  const buttons = order.map((i) => {
+    const button = document.createElement('button');
+    button.type = 'button';
+    button.className = 'button small pick-check-item';
+    button.dataset.trace = String(i);
+    button.textContent = 'ch ' + gather.traces[i].channel + ' (' + Number(marks[i].confidence).toFixed(2) + ')';
+    button.addEventListener('click', () => {
+      state.selected = i;
+      describeSelected(i);
+      draw();
+      ui.canvas.focus();
+    });
+    return button;
+  });
+  ui.check.replaceChildren(head, ...buttons);
 }
 
 /** @param {number} index */
@@ -170,8 +226,15 @@ function describeSelected(index) {
   if (!gather || index < 0) return;
   const trace = gather.traces[index];
   const t = timesOf(state.shotId)[index];
+  const mark = currentMarks()[index];
+  const status = gather.automatic?.status[index];
+  const why = status === 'dead' ? ' (dead trace)' : status === 'outlier' ? ' (the picker rejected its pick: off its neighbours\' trend)' : '';
+  const whose =
+    mark?.kind === 'automatic' || mark?.kind === 'low'
+      ? ", the picker's, confidence " + Number(mark.confidence).toFixed(2) + (mark.kind === 'low' ? ' (low: check it)' : '')
+      : mark?.kind === 'edited' ? ', changed here' : mark?.kind === 'reviewed' ? ', set by a person' : '';
   ui.status.textContent =
-    'Channel ' + trace.channel + ' (x = ' + trace.x + ' m): ' + (t === null || t === undefined ? 'no pick' : 'pick at ' + t.toFixed(2) + ' ms') + '.';
+    'Channel ' + trace.channel + ' (x = ' + trace.x + ' m): ' + (t === null || t === undefined ? 'no pick' + why : 'pick at ' + t.toFixed(2) + ' ms' + whose) + '.';
 }
 
 /** @param {number} index @param {number|null} ms */
@@ -181,6 +244,7 @@ function setPick(index, ms) {
   describeSelected(index);
   updateEdits();
   draw();
+  showCheckList();
   schedulePreview();
 }
 
@@ -189,6 +253,7 @@ async function loadShot() {
   state.gather = null;
   state.selected = -1;
   draw();
+  showCheckList();
   ui.status.textContent = 'Loading the traces of shot ' + state.shotId + '…';
   const window = reviewWindow(timesOf(state.shotId), -Infinity, Infinity);
   const plotRows = ui.canvas.height - 32;
@@ -208,6 +273,7 @@ async function loadShot() {
   ui.canvas.dataset.shot = state.shotId;
   ui.status.textContent = 'Shot ' + state.shotId + ': ' + result.data.traces.length + ' traces, ' + result.data.fromMs + ' to ' + result.data.toMs + ' ms. Click a trace to move its pick.';
   draw();
+  showCheckList();
 }
 
 /** @param {MouseEvent} event */

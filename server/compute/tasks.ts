@@ -15,7 +15,7 @@ import { exportFile, type ExportRequest } from '../export/export-file.js';
 import type { ExportResult } from '../export/section-pages.js';
 import { gatherPicksFromSeg2, type GatherPicksResult } from '../../engine/picking/gather-picks.js';
 import type { GatherOverrides } from '../../engine/seg2/gather.js';
-import { decimatedGatherFromSeg2, type DecimatedGatherResult } from '../../engine/seg2/decimate.js';
+import { reviewGatherFromSeg2, type ReviewGatherResult } from '../../engine/picking/review-gather.js';
 
 /** `grm`: the GRM functions of every XY (a page saying there are none on a line not interpreted by GRM). */
 export type Figure = 'section' | 'traveltimes' | 'grm';
@@ -39,8 +39,8 @@ export interface TaskTable {
   exportFile: { input: ExportRequest; result: Promise<ExportResult> };
   /** One SEG-2 shot gather read and picked (POST /api/v1/gathers/picks). */
   gatherPicks: { input: { bytes: Uint8Array; overrides: GatherOverrides }; result: GatherPicksResult };
-  /** A stored SEG-2 gather read and decimated for display (GET …/gathers/:shotId/traces). */
-  gatherTraces: { input: { bytes: Uint8Array; overrides: GatherOverrides; columns?: number; fromMs?: number; toMs?: number }; result: DecimatedGatherResult };
+  /** A stored SEG-2 gather read and decimated for display, with the picker's own picks (GET …/gathers/:shotId/traces). */
+  gatherTraces: { input: { bytes: Uint8Array; overrides: GatherOverrides; columns?: number; fromMs?: number; toMs?: number }; result: ReviewGatherResult };
 }
 
 /** Both drawings of a line: the section's first sheet, every sheet of it (a long line is paged), and the plot. */
@@ -85,7 +85,7 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
   },
   exportFile: (request) => exportFile(request),
   gatherPicks: ({ bytes, overrides }) => gatherPicksFromSeg2(bytes, overrides),
-  gatherTraces: ({ bytes, overrides, columns, fromMs, toMs }) => decimatedGatherFromSeg2(bytes, overrides, { columns, fromMs, toMs }),
+  gatherTraces: ({ bytes, overrides, columns, fromMs, toMs }) => reviewGatherFromSeg2(bytes, overrides, { columns, fromMs, toMs }),
 };
 
 /** Runs one task here, in this thread (the worker's entry calls this). */

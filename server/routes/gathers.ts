@@ -36,6 +36,16 @@ export const gatherOverrideProperties = {
 };
 const querySchema = Type.Object(gatherOverrideProperties, { additionalProperties: false });
 
+/**
+ * The `invalid_seg2` error of a file the picker could not read. A file without the positions
+ * a request can supply names, as `path`, the query parameter that supplies them ("/shotX",
+ * "/geophoneX0"), so a client can ask for that value and send the file again.
+ */
+export function seg2Error(error: { code: string; message: string; byteOffset: number }): AppError {
+  const path = error.code === 'no-source-location' ? '/shotX' : error.code === 'no-receiver-location' ? '/geophoneX0' : undefined;
+  return new AppError('invalid_seg2', { message: error.message, byteOffset: error.byteOffset, ...(path === undefined ? {} : { path }) });
+}
+
 const Point = Type.Object({ x: Type.Number(), elevation: Type.Number() }, { additionalProperties: false });
 export const GatherPicksSchema = Type.Object(
   {
@@ -80,7 +90,7 @@ export async function gatherRoutes(app: FastifyInstance): Promise<void> {
     if (body.length === 0) throw new AppError('empty_body', { message: 'The request has no body: send the SEG-2 file itself as application/octet-stream.' });
     const bytes = new Uint8Array(body.buffer, body.byteOffset, body.byteLength);
     const result = await app.compute.run('gatherPicks', { bytes, overrides: { ...request.query } }, clientGone(reply));
-    if (!result.ok) throw new AppError('invalid_seg2', { message: result.error.message, byteOffset: result.error.byteOffset });
+    if (!result.ok) throw seg2Error(result.error);
     return result.picks;
   });
 }

@@ -24,7 +24,7 @@ import { AppError, problemsError } from '../errors.js';
 import { clientGone } from '../compute/client-gone.js';
 import { errorResponses, authorQuerySchema } from '../route-schemas.js';
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
-import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties } from './gathers.js';
+import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties, seg2Error } from './gathers.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { links } from './surveys.js';
 import { LAYOUT_CHANGE_CONFIRM, layoutChangeMessage } from '../revision-layout.js';
@@ -116,6 +116,14 @@ const DecimatedGatherSchema = Type.Object(
     traces: Type.Array(
       Type.Object({ channel: Type.Number(), x: Type.Number(), peak: Type.Number(), min: Envelope, max: Envelope }, { additionalProperties: false }),
     ),
+    automatic: Type.Object(
+      {
+        times: Type.Array(Type.Union([Type.Number(), Type.Null()]), { description: 'The picker\'s first break per trace, ms after the shot (before any review).' }),
+        confidence: Type.Array(Type.Number({ minimum: 0, maximum: 1 }), { description: 'The picker\'s confidence per trace, 0 (none) to 1.' }),
+        status: Type.Array(Type.Union([Type.Literal('picked'), Type.Literal('repicked'), Type.Literal('dead'), Type.Literal('outlier')])),
+      },
+      { additionalProperties: false, description: 'The automatic picker\'s answer for this file, in the order of `traces` (the same as POST /api/v1/gathers/picks).' },
+    ),
   },
   { additionalProperties: false, title: 'DecimatedGather' },
 );
@@ -157,7 +165,7 @@ export async function surveyGatherRoutes(app: FastifyInstance, options: SurveyGa
 
   const pick = async (bytes: Uint8Array, overrides: GatherOverrides, signal: ReturnType<typeof clientGone>): Promise<GatherPicksResponse> => {
     const result = await app.compute.run('gatherPicks', { bytes, overrides }, signal);
-    if (!result.ok) throw new AppError('invalid_seg2', { message: result.error.message, byteOffset: result.error.byteOffset });
+    if (!result.ok) throw seg2Error(result.error);
     return result.picks;
   };
 

@@ -374,6 +374,7 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     const text = (await box.textContent()) ?? '';
     expect(text).toContain('“shot-01.sg2” is a SEG-2 seismograph record, not a pick file');
     expect(text).toContain('CSV pick table');
+    expect(text).toContain('under “Seismograph files” above');
     expect(await page.inputValue('#survey-text')).toBe('# name: kept\n');
     expect(await page.inputValue('#file-input')).toBe('');
 

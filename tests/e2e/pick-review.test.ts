@@ -75,7 +75,7 @@ describe.skipIf(!browserTestsRun)('Pick review of stored shot gathers', () => {
     // Reported, never asserted (speed is measured, not tested): click to section on screen.
     console.log(`pick review: section preview shown ${Date.now() - clickedAt} ms after the click (150 ms of it the edit debounce); ${await page.textContent('#pick-preview-note')}`);
     expect((await get()).revisions).toHaveLength(5);
-    expect(await page.textContent('#gather-status')).toMatch(/^Channel 6 \(x = 15 m\): pick at \d+\.\d\d ms\.$/);
+    expect(await page.textContent('#gather-status')).toMatch(/^Channel 6 \(x = 15 m\): pick at \d+\.\d\d ms, changed here\.$/);
     // The next trace selected by →, its pick cleared by Delete.
     await page.keyboard.press('ArrowRight');
     await page.keyboard.press('Delete');

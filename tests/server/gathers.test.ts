@@ -63,6 +63,13 @@ describe('POST /api/v1/gathers/picks', () => {
     expect(refused.status).toBe(400);
     expect(refused.body.error.code).toBe('invalid_seg2');
     expect(refused.body.error.message).toContain('geophoneX0 and geophoneSpacing');
+    // The missing header named, and the parameter that supplies it as the path (what the page asks for).
+    expect(refused.body.error.message).toContain('RECEIVER_LOCATION');
+    expect(refused.body.error.path).toBe('/geophoneX0');
+    const noShot = await post(bare, '?geophoneX0=0&geophoneSpacing=2');
+    expect(noShot.status).toBe(400);
+    expect(noShot.body.error.message).toContain('SOURCE_LOCATION');
+    expect(noShot.body.error.path).toBe('/shotX');
     const res = await post(bare, '?shotX=-20&geophoneX0=0&geophoneSpacing=2');
     expect(res.status).toBe(200);
     expect(res.body.geophones[47].x).toBe(94);

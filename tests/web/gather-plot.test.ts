@@ -2,7 +2,7 @@
 // time it was drawn at (the mappings are each other's inverses, a property of the linear
 // maps, not a recorded answer), the window and the edited picks.
 import { describe, expect, it } from 'vitest';
-import { plotLayout, reviewWindow, withPick, PLOT_MARGIN } from '../../web/gather-plot.js';
+import { plotLayout, reviewWindow, withPick, PLOT_MARGIN, pickMarks, checkFirst, PICK_BAR_PX, LOW_PICK_CONFIDENCE } from '../../web/gather-plot.js';
 
 describe('plotLayout', () => {
   const layout = plotLayout(960, 440, 24, -10, 58);
@@ -34,5 +34,32 @@ describe('reviewWindow and withPick', () => {
     expect(withPick(times, 1, 7.12345)).toEqual([1, 7.12, 3]);
     expect(withPick(times, 2, null)).toEqual([1, 2, null]);
     expect(times).toEqual([1, 2, 3]);
+  });
+});
+
+describe('pick marks and the check-first list', () => {
+  // The picker's answer for five traces; confidence as engine/picking/pick-gather.ts gives it.
+  const automatic = { times: [10, 12.5, 15, null, 20], confidence: [0.9, 0.3, 0.1, 0, 1] };
+
+  it("shows confidence only where the pick is still the picker's, thicker the more confident, hollow under 0.5", () => {
+    const stored = [10, 12.5, 15.5, null, 20];
+    const shown = [10, 12.5, 15.5, null, 21];
+    const marks = pickMarks(shown, stored, automatic);
+    expect(marks.map((m) => m.kind)).toEqual(['automatic', 'low', 'reviewed', 'none', 'edited']);
+    expect(marks[0].confidence).toBe(0.9);
+    expect(marks[2].confidence).toBeNull();
+    // Linear from the thin bar at confidence 0 to the thick one at 1.
+    expect(marks[0].thickness).toBeCloseTo(PICK_BAR_PX.thin + 0.9 * (PICK_BAR_PX.thick - PICK_BAR_PX.thin), 9);
+    expect(marks[0].thickness).toBeGreaterThan(marks[1].thickness);
+    expect(LOW_PICK_CONFIDENCE).toBe(0.5);
+  });
+
+  it('lists the low-confidence picks, least confident first', () => {
+    const marks = pickMarks([10, 12.5, 15, null, 20], [10, 12.5, 15, null, 20], automatic);
+    expect(checkFirst(marks)).toEqual([2, 1]);
+  });
+
+  it('without the picker\'s answer every stored pick is plain', () => {
+    expect(pickMarks([1, null], [1, null], undefined).map((m) => m.kind)).toEqual(['reviewed', 'none']);
   });
 });
