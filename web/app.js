@@ -6,6 +6,7 @@ import {
   storeLine, storeRevision, withSheetQuery,
 } from './api.js';
 import { showGatherReview } from './gather-review.js';
+import { setCompareSource, setupMethodCompare } from './method-compare.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
@@ -241,6 +242,7 @@ function hideStoredParts() {
   ui.travelTimesImage.removeAttribute('src');
   ui.grmImage.removeAttribute('src');
   ui.grmFigure.hidden = true;
+  setCompareSource(null, '');
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.revisionRow.hidden = true;
@@ -558,6 +560,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
   void showStoredSheets(urls.section, urls.sectionSheets, 'Depth section of ' + name, figureRound);
+  setCompareSource({ url: urls.methods }, name);
 
   const stem = fileStem(name) + (several ? '-r' + shown : '');
   exportFiles = { urls, stem };
@@ -713,6 +716,7 @@ async function interpretInput() {
   ui.unsavedNote.hidden = false;
   history.replaceState(null, '', window.location.pathname + window.location.search);
   showPreviews(result.data, name);
+  setCompareSource({ bodyText, format }, name);
   const warningCount = Array.isArray(interpretation.qc?.warnings) ? interpretation.qc.warnings.length : 0;
   setStatus('Interpreted “' + name + '”: ' + stationCount + ' stations'
     + (warningCount ? ', ' + warningCount + ' warning' + (warningCount === 1 ? '' : 's') : '') + '.');
@@ -928,6 +932,14 @@ function wire() {
   }
   ui.travelTimesImage.addEventListener('error', imageFailed);
   ui.grmImage.addEventListener('error', imageFailed);
+  setupMethodCompare({
+    button: $('methods-button', HTMLButtonElement),
+    status: $('methods-status', HTMLElement),
+    frame: $('methods-frame', HTMLElement),
+    image: $('methods-image', HTMLImageElement),
+    table: $('methods-table', HTMLTableElement),
+    body: $('methods-body', HTMLTableSectionElement),
+  });
   updateFormatHint();
 }
 

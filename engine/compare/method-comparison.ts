@@ -25,7 +25,8 @@ export interface MethodRun {
 
 /** One stretch of consecutive stations where two methods differ by more than their combined σ. */
 export interface MethodDifference {
-  methods: [MethodName, MethodName];
+  /** The two methods compared (always two). */
+  methods: MethodName[];
   /** First and last station of the stretch, m. */
   from: number;
   to: number;

@@ -249,7 +249,7 @@ function differenceTable(parent: Container, comparison: MethodComparison, topMm:
     addText(group, 'Nowhere: at every station where two methods give a depth, they agree within their combined 1σ.', left, y, { sizeMm: TEXT_MM.tick, role: 'table-none' });
     return;
   }
-  const columns = [0, 62, 100, 130, 165, 205];
+  const columns = [0, 62, 92, 112, 170, 200];
   const header = ['methods', 'from – to', 'stations', 'largest |Δ depth|', 'at', 'deeper by'];
   header.forEach((h, k) => addText(group, h, left + columns[k], y, { sizeMm: TEXT_MM.tick, weight: 'bold', fill: INK.muted }));
   const rows = [...comparison.differences].sort((a, b) => b.largest / b.combinedSigma - a.largest / a.combinedSigma);
@@ -259,7 +259,8 @@ function differenceTable(parent: Container, comparison: MethodComparison, topMm:
       `${describeMethod(d.methods[0])} / ${describeMethod(d.methods[1])}`.replace(/ method/g, ''),
       d.from === d.to ? `${formatMetres(d.from)}` : `${formatMetres(d.from)} – ${formatMetres(d.to)}`,
       String(d.stations),
-      `${formatMetres(d.largest)} (1σ ${formatMetres(d.combinedSigma)})`,
+      // The ratio too: at the shown 0.1 m a difference just over its σ can print as the same number.
+      `${formatMetres(d.largest)} = ${fixed(d.largest / d.combinedSigma, 1)}σ (1σ ${formatMetres(d.combinedSigma)})`,
       `x = ${formatMetres(d.atX)}`,
       describeMethod(d.deeperBy).replace(/ method/, ''),
     ];

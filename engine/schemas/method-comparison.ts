@@ -26,7 +26,8 @@ export const MethodComparisonSchema = Type.Object(
     differences: Type.Array(
       Type.Object(
         {
-          methods: Type.Tuple([method, method]),
+          // An array of two, not a tuple: the response serialiser does not match unions inside tuple items.
+          methods: Type.Array(method, { minItems: 2, maxItems: 2, description: 'The two methods compared.' }),
           from: Type.Number({ description: 'First station of the stretch, m.' }),
           to: Type.Number({ description: 'Last station of the stretch, m.' }),
           stations: Type.Integer({ minimum: 0 }),

@@ -6,6 +6,9 @@ import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { memoryApp } from '../helpers/memory-app.js';
 import { CAUTIONS } from '../../engine/qc/cautions.js';
+import { syntheticSurvey } from '../../engine/forward/synthetic.js';
+import type { ModelPoint } from '../../engine/forward/model.js';
+import { CELL_M, LAYOUT, SEVEN_SHOTS, level } from '../reference/structure-lines.js';
 
 const demo = JSON.parse(readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8'));
 const server = memoryApp({ webRoot: undefined });
@@ -49,6 +52,21 @@ describe('method comparison routes', () => {
     const bad = await request(server.app.server).post('/api/v1/previews/methods').set('Content-Type', 'application/json').send(JSON.stringify({ ...demo, options: { method: 'best' } }));
     expect(bad.status).toBe(400);
     expect(bad.body.error.path).toBe('/options/method');
+  });
+
+  it('sends the stretches where methods differ (an undulating eikonal line, ±1.5 m over 40 m, 0.2 ms of seeded noise), each beyond its combined σ', async () => {
+    const top: ModelPoint[] = [{ x: -1000, elevation: 92 }];
+    for (let x = -40; x <= 140; x++) top.push({ x, elevation: 92 + 1.5 * Math.sin((2 * Math.PI * x) / 40) });
+    top.push({ x: 1000, elevation: 92 });
+    const line = syntheticSurvey({ surface: level(100), layers: [{ velocity: 600 }, { velocity: 2400, top }] }, { ...LAYOUT, shots: SEVEN_SHOTS }, { cellM: CELL_M, noiseMs: 0.2, seed: 3 });
+    const res = await request(server.app.server).post('/api/v1/previews/methods').set('Content-Type', 'application/json').send(JSON.stringify(line));
+    expect(res.status).toBe(200);
+    const differences = res.body.comparison.differences as { methods: string[]; largest: number; combinedSigma: number }[];
+    expect(differences.length).toBeGreaterThan(0);
+    for (const d of differences) {
+      expect(d.methods).toHaveLength(2);
+      expect(d.largest).toBeGreaterThan(d.combinedSigma);
+    }
   });
 
   it('answers 404 for a line that does not exist', async () => {
