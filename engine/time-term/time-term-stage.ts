@@ -27,8 +27,22 @@ export interface TimeTermStageInput {
   pickSigmaMs: number;
 }
 
-/** The solution with the shots' ids and the breaks actually used. */
-export type TimeTermResult = (TimeTermSolution & { shotIds: string[]; breaksM: number[] }) | TimeTermFailure;
+/**
+ * The solution with the shots' ids, the breaks actually used, and whether each geophone has
+ * head-wave picks from shots on both sides (reversed) — one-way terms are drawn as one-way.
+ */
+export type TimeTermResult = (TimeTermSolution & { shotIds: string[]; breaksM: number[]; reversed: boolean[] }) | TimeTermFailure;
+
+/** Whether each geophone has picks from a shot on its left and one on its right. O(picks + geophones). */
+function reversedGeophones(geophoneXsM: readonly number[], shotXsM: readonly number[], observations: readonly TimeTermObservation[]): boolean[] {
+  const fromLeft = geophoneXsM.map(() => false);
+  const fromRight = geophoneXsM.map(() => false);
+  for (const o of observations) {
+    if (shotXsM[o.shot] < geophoneXsM[o.geophone]) fromLeft[o.geophone] = true;
+    else fromRight[o.geophone] = true;
+  }
+  return geophoneXsM.map((_, j) => fromLeft[j] && fromRight[j]);
+}
 
 /** Every first-refractor pick of every shot, both sides, as time-term rows. O(shots · geophones). */
 export function headWaveObservations(survey: Survey, shots: readonly ShotAnalysis[]): TimeTermObservation[] {
@@ -56,7 +70,7 @@ export function timeTermStage(input: TimeTermStageInput): TimeTermResult {
     const solution = invertTimeTerms({ geophoneXsM, shotXsM, observations, slownessBreaksM: breaksM, pickSigmaMs });
     // A segment slowness ≤ 0 is not a refractor: retry with one slowness for the line.
     if (solution.ok && solution.segments.every((s) => s.velocityMPerS > 0 && Number.isFinite(s.velocityMPerS))) {
-      return { ...solution, shotIds: shots.map((s) => s.id), breaksM };
+      return { ...solution, shotIds: shots.map((s) => s.id), breaksM, reversed: reversedGeophones(geophoneXsM, shotXsM, observations) };
     }
     if (!solution.ok) last = solution;
     else last = { ok: false, reason: 'the fitted refractor slowness is not positive' };
@@ -67,14 +81,15 @@ export function timeTermStage(input: TimeTermStageInput): TimeTermResult {
 /**
  * The plus-minus stage's record with the geophone time terms as delay times, T+ = 2·a and
  * σ(T+) = 2·σ(a). Pairs and their flags stay the plus-minus ones (coverage warnings speak of
- * the picks). A geophone the picks reach but no pair covers counts as covered ('pair'). O(N).
+ * the picks). Coverage is the time terms' own: 'pair' where head waves reach the geophone
+ * from both sides, 'phantom' (drawn as phantomed or one-way) where from one side only. O(N).
  */
-export function withTimeTerms(plus: RefractorPlusTimes, solution: TimeTermSolution): RefractorPlusTimes {
+export function withTimeTerms(plus: RefractorPlusTimes, solution: TimeTermSolution & { reversed: readonly boolean[] }): RefractorPlusTimes {
   const a = solution.geophoneTermMs;
   return {
     ...plus,
     delayTimeMs: a.slice(),
-    delaySource: plus.delaySource.map((s, i) => (a[i] === null ? null : s ?? 'pair')),
+    delaySource: a.map((t, i) => (t === null ? null : solution.reversed[i] ? 'pair' : 'phantom')),
     combined: {
       ...plus.combined,
       plusTimeMs: a.map((t) => (t === null ? null : 2 * t)),

@@ -121,6 +121,20 @@ describe('time-term depth uncertainty from the inversion covariance (Bevington &
   });
 });
 
+describe('time-term coverage', () => {
+  it('is "pair" where head waves reach a geophone from both sides and one-way ("phantom") where from one side only', () => {
+    const c = planarCases[0];
+    const layout = fiveShotLayout();
+    const full = interpret({ ...planarSurvey(c.model, layout), options: TIME_TERM });
+    expect(full.stations.every((s) => s.coverage === 'pair')).toBe(true);
+    // Without the east shots, the geophones east of the mid shot hear head waves from the west only.
+    const west = interpret({ ...planarSurvey(c.model, { ...layout, shots: layout.shots.filter((s) => !s.id.startsWith('E-')) }), options: TIME_TERM });
+    expect(west.method).toBe('time-term');
+    expect(west.stations[0].coverage).toBe('pair');
+    expect(west.stations[west.stations.length - 1].coverage).toBe('phantom');
+  });
+});
+
 describe('time terms on a three-layer line', () => {
   it('falls back to plus-minus and says why (README: time terms map one refractor)', () => {
     const model: LayeredModel = {
