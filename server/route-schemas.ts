@@ -13,6 +13,7 @@
 import { Type, type TSchema } from '@sinclair/typebox';
 import { SurveySchema } from '../engine/schemas/survey.js';
 import { InterpretationSchema } from '../engine/schemas/interpretation.js';
+import { MethodComparisonSchema } from '../engine/schemas/method-comparison.js';
 import { EXPORT_DEFAULTS, EXPORT_LIMITS } from './export/export-options.js';
 
 const closed = { additionalProperties: false } as const;
@@ -263,3 +264,12 @@ export const travelTimesPngQuerySchema = Type.Object({ revision: exportRevision,
 export function binaryFileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {
   return { description, content: { [mediaType]: { schema: Type.String({ format: 'binary' }) } } };
 }
+
+/** The answer of GET …/methods.json and POST /api/v1/previews/methods: the comparison and its figure. */
+export const MethodsAnswerSchema = Type.Object(
+  {
+    comparison: MethodComparisonSchema,
+    methodsSvg: Type.String({ description: 'The refractor by every method on one section, an SVG document.' }),
+  },
+  { additionalProperties: false, title: 'MethodsAnswer' },
+);

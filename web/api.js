@@ -59,6 +59,13 @@
  * @typedef {{ interpretation: Interpretation, sectionSvg: string, sectionSheets: string[], travelTimesSvg: string, grmSvg?: string }} PreviewBundle
  */
 
+/**
+ * GET /api/v1/surveys/:id/methods.json and POST /api/v1/previews/methods: the line by every
+ * method, where they differ by more than their combined 1σ, and the overlay figure (SVG text).
+ * @typedef {import('../engine/compare/method-comparison.js').MethodComparisonSummary} MethodComparisonSummary
+ * @typedef {{ comparison: MethodComparisonSummary, methodsSvg: string }} MethodsAnswer
+ */
+
 /** GET /api/v1/surveys/:id/section-sheets.json. @typedef {{ sheetCount: number, sheets?: string[] }} SectionSheets */
 
 /**
@@ -249,6 +256,34 @@ export async function previewLine(bodyText, format) {
 }
 
 /**
+ * The answer of the method comparison when it has the promised shape, else null.
+ * @param {unknown} data
+ * @returns {MethodsAnswer | null}
+ */
+export function readMethodsAnswer(data) {
+  if (!isRecord(data) || typeof data.methodsSvg !== 'string' || !isRecord(data.comparison)) return null;
+  if (!Array.isArray(data.comparison.runs) || !Array.isArray(data.comparison.differences)) return null;
+  return /** @type {MethodsAnswer} */ (data);
+}
+
+/**
+ * The line by every method: of a stored line (its methods.json URL from lineFileUrls) or of
+ * the text interpreted last (POST /api/v1/previews/methods, nothing stored).
+ * @param {{ url: string } | { bodyText: string, format: BodyFormat }} source
+ * @returns {Promise<Result<MethodsAnswer>>}
+ */
+export async function compareMethods(source) {
+  /** @type {Result<unknown>} */
+  const result = 'url' in source ? await request(source.url, GET) : await request('api/v1/previews/methods', surveyPost(source.bodyText, source.format));
+  if (!result.ok) return result;
+  const answer = readMethodsAnswer(result.data);
+  if (answer === null) {
+    return { ok: false, failure: failure(result.status, 'unexpected_answer', 'The service answered the method comparison in a shape the page does not know.') };
+  }
+  return { ok: true, status: result.status, data: answer };
+}
+
+/**
  * POST /api/v1/surveys — stores the line; sends the write token when one is set.
  * @param {string} bodyText
  * @param {BodyFormat} format
@@ -433,7 +468,7 @@ export function withSheetQuery(url, sheet, withScale) {
  * Relative URLs of the files of a stored line; of one revision when `revision` is given.
  * @param {string} id
  * @param {number} [revision]
- * @returns {{ section: string, sectionSheets: string, travelTimes: string, grm: string, stations: string, interpretation: string,
+ * @returns {{ section: string, sectionSheets: string, travelTimes: string, grm: string, methods: string, stations: string, interpretation: string,
  *   sectionPdf: string, sectionPng: string, travelTimesPdf: string, travelTimesPng: string }}
  */
 export function lineFileUrls(id, revision) {
@@ -444,6 +479,7 @@ export function lineFileUrls(id, revision) {
     sectionSheets: base + 'section-sheets.json' + query,
     travelTimes: base + 'traveltimes.svg' + query,
     grm: base + 'grm.svg' + query,
+    methods: base + 'methods.json' + query,
     stations: base + 'stations.csv' + query,
     interpretation: base + 'interpretation.json' + query,
     sectionPdf: base + 'section.pdf' + query,

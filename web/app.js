@@ -7,6 +7,7 @@ import {
 } from './api.js';
 import { showGatherReview } from './gather-review.js';
 import { initGatherDrop, updateDropTarget } from './gather-drop.js';
+import { setCompareSource, setupMethodCompare } from './method-compare.js';
 import { binaryKind, detectFormat, fileStem, formatLabel, pickTableName, when } from './describe.js';
 import {
   el, markFiguresAsPreview, renderAllowance, renderFailure, renderLineNotes, renderStationTable, renderSummary, renderWarnings,
@@ -242,6 +243,7 @@ function hideStoredParts() {
   ui.travelTimesImage.removeAttribute('src');
   ui.grmImage.removeAttribute('src');
   ui.grmFigure.hidden = true;
+  setCompareSource(null, '');
   releasePreviewUrls();
   markFiguresAsPreview(ui.figures, false);
   ui.revisionRow.hidden = true;
@@ -565,6 +567,7 @@ async function openStoredLine(id, shareUrlFromStore, revision) {
   markFiguresAsPreview(ui.figures, false);
   ui.figures.hidden = false;
   void showStoredSheets(urls.section, urls.sectionSheets, 'Depth section of ' + name, figureRound);
+  setCompareSource({ url: urls.methods }, name);
 
   const stem = fileStem(name) + (several ? '-r' + shown : '');
   exportFiles = { urls, stem };
@@ -720,6 +723,7 @@ async function interpretInput() {
   ui.unsavedNote.hidden = false;
   history.replaceState(null, '', window.location.pathname + window.location.search);
   showPreviews(result.data, name);
+  setCompareSource({ bodyText, format }, name);
   const warningCount = Array.isArray(interpretation.qc?.warnings) ? interpretation.qc.warnings.length : 0;
   setStatus('Interpreted “' + name + '”: ' + stationCount + ' stations'
     + (warningCount ? ', ' + warningCount + ' warning' + (warningCount === 1 ? '' : 's') : '') + '.');
@@ -939,6 +943,14 @@ function wire() {
   }
   ui.travelTimesImage.addEventListener('error', imageFailed);
   ui.grmImage.addEventListener('error', imageFailed);
+  setupMethodCompare({
+    button: $('methods-button', HTMLButtonElement),
+    status: $('methods-status', HTMLElement),
+    frame: $('methods-frame', HTMLElement),
+    image: $('methods-image', HTMLImageElement),
+    table: $('methods-table', HTMLTableElement),
+    body: $('methods-body', HTMLTableSectionElement),
+  });
   updateFormatHint();
 }
 

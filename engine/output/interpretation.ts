@@ -277,6 +277,23 @@ export interface Interpretation {
   cautions: string[];
   /** method "grm" only: the functions at every XY tried and the optimum (engine/grm/). */
   grm?: GrmAnalysis;
+  /** method "time-term" only: the inversion's fit, refractor velocities and shot terms (engine/time-term/). */
+  timeTerm?: TimeTermAnalysis;
+}
+
+/** The time-term inversion's own results (Willmore & Bancroft 1960); the geophone terms are stations[].delayTime. */
+export interface TimeTermAnalysis {
+  /** Head-wave picks used (rows), and unknowns solved for. */
+  picks: number;
+  unknowns: number;
+  /** RMS of pick − model over the picks, ms. */
+  rmsMs: number;
+  /** Noise the standard errors are scaled by: the larger of the pick uncertainty and the fit's own estimate, ms. */
+  noiseMs: number;
+  /** Refractor velocity per slowness segment, with one standard deviation, m/s. */
+  segments: { from: number; to: number; velocity: number; standardError: number }[];
+  /** Time term of each shot, with one standard deviation, ms (null where the shot has no head-wave pick). */
+  shots: { shot: string; x: number; timeTerm: number | null; standardError: number | null }[];
 }
 
 /** The generalised reciprocal method's analysis (Palmer 1980): every XY, for the geophysicist to judge. */

@@ -18,6 +18,7 @@ import { CAUTIONS } from '../qc/cautions.js';
 import type { MethodName } from '../survey/survey.js';
 import type { GrmResult } from '../grm/grm.js';
 import { grmOutput } from '../grm/grm-output.js';
+import { timeTermOutput, type TimeTermRecord } from '../time-term/time-term-output.js';
 import type { EndShotPhantom } from '../plus-minus/end-shot-phantoms.js';
 import type { RefractorPlusTimes } from '../plus-minus/refractor-plus-times.js';
 import type { FirstRefractorSection } from '../depth/first-refractor-section.js';
@@ -60,6 +61,8 @@ export interface LineRecord {
   method?: MethodName;
   /** GRM's functions and optimum (engine/grm/grm.ts), rounded here by grmOutput. */
   grm?: GrmResult | null;
+  /** The time-term inversion (engine/time-term/), when it made the delay times: its σ of each geophone term replaces the pairs' in depthUncertainty. */
+  timeTerm?: TimeTermRecord | null;
 }
 
 /** The declared output of one line (see the file comment). */
@@ -71,6 +74,8 @@ export function toInterpretation(r: LineRecord): Interpretation {
   // On GRM lines the same pairs, with as many picks each, stand behind every time-depth (read
   // at X and Y instead of G), so the same shared-pick propagation applies.
   const plusSigmaMs = plusSigmaWithSharedPicksMs(plus.pairs, plus.combined.contributing, r.pickSigmaMs);
+  // Time terms: σ of each term from the inversion's covariance (time-terms.ts), which counts every pick once.
+  const delaySigmaMs = r.timeTerm ? r.timeTerm.geophoneTermSigmaMs : plusSigmaMs.map((s) => (s === null ? null : s / 2));
   const stations: Station[] = survey.geophones.map((g, i) => {
     const depth = verticalDepthM[i];
     return {
@@ -85,7 +90,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
       depthUncertainty: roundMOrNull(
         depthUncertaintyM({
           depthM: depth,
-          delaySigmaMs: plusSigmaMs[i] === null ? null : (plusSigmaMs[i] as number) / 2,
+          delaySigmaMs: delaySigmaMs[i],
           v1: r.v1At[i],
           v1SigmaMPerS: r.v1SigmaMPerS,
           v2: section.v2At[i],
@@ -199,6 +204,7 @@ export function toInterpretation(r: LineRecord): Interpretation {
     },
     cautions: [...CAUTIONS],
     ...(r.grm ? { grm: grmOutput(r.grm) } : {}),
+    ...(r.timeTerm ? { timeTerm: timeTermOutput(r.timeTerm, r.shots.map((s) => s.x), coveredX) } : {}),
   };
 }
 

@@ -42,6 +42,11 @@ import { toInterpretation } from '../output/to-interpretation.js';
 import { isFiniteNumber } from '../shared/numbers.js';
 import { grmTimeDepths } from '../grm/grm.js';
 import { withTimeDepths } from '../grm/grm-output.js';
+import { timeTermStage, withTimeTerms } from '../time-term/time-term-stage.js';
+import type { TimeTermRecord } from '../time-term/time-term-output.js';
+import { timeTermFailedWarning, timeTermThreeLayerWarning } from '../qc/method-warnings.js';
+import type { RefractorPlusTimes } from '../plus-minus/refractor-plus-times.js';
+import type { Warning } from '../output/interpretation.js';
 
 /**
  * The interpretation of a line. Unforced (no options.layers) and with residuals on, a line
@@ -70,7 +75,7 @@ export function interpretGrmAtXy(survey: Survey, steps: number): Interpretation 
 }
 
 /** One pass of the stages with the survey's own options (see the file comment). */
-function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation {
+function interpretOnce(survey: Survey, grmForcedSteps?: number, fallbackNote?: Warning): Interpretation {
   const options = resolveOptions(survey.options);
   const sigmaMs = options.pickUncertaintyMs;
   const xs = survey.geophones.map((g) => g.x);
@@ -93,22 +98,39 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation 
     options.method === 'grm'
       ? grmTimeDepths({ pairs: pairInputs, geophoneXM: xs, spacingM: geophoneSpacingM(survey.geophones), plusMinusDelayMs: plusMinusTimes.delayTimeMs, v1MPerS: v1, v2MPerS: lineV2.velocity, forcedSteps: grmForcedSteps })
       : null;
-  const plus = grm ? withTimeDepths(plusMinusTimes, grm) : plusMinusTimes;
   const topLayer = localTopLayerVelocities(xs, directSides(survey, shots, sigmaMs), v1);
-  const section = firstRefractorSection({
-    xsM: xs,
-    elevationM: elevation,
-    spacingM: geophoneSpacingM(survey.geophones),
-    delayTimeMs: plus.delayTimeMs,
-    plusSigmaMs: plus.combined.plusSigmaMs,
-    minusPairs: lineV2.minusPairs,
-    v1,
-    v1At: topLayer.v1MPerS,
-    lineV2: lineV2.velocity,
-    lineFit: lineV2.fit,
-    branches: refractedBranches(survey, shots),
-    pickSigmaMs: sigmaMs,
-  });
+  const sectionOf = (times: RefractorPlusTimes) =>
+    firstRefractorSection({
+      xsM: xs,
+      elevationM: elevation,
+      spacingM: geophoneSpacingM(survey.geophones),
+      delayTimeMs: times.delayTimeMs,
+      plusSigmaMs: times.combined.plusSigmaMs,
+      minusPairs: lineV2.minusPairs,
+      v1,
+      v1At: topLayer.v1MPerS,
+      lineV2: lineV2.velocity,
+      lineFit: lineV2.fit,
+      branches: refractedBranches(survey, shots),
+      pickSigmaMs: sigmaMs,
+    });
+  let plus = grm ? withTimeDepths(plusMinusTimes, grm) : plusMinusTimes;
+  let section = sectionOf(plus);
+  // Time terms (engine/time-term/): one slowness per segment between the plus-minus section's
+  // velocity changes; the geophone terms take the place of the delay times and the section is
+  // drawn again from them. O(section) more than plus-minus.
+  const methodNotes = [...(fallbackNote ? [fallbackNote] : [])];
+  let timeTerm: TimeTermRecord | null = null;
+  if (options.method === 'time-term') {
+    const solved = timeTermStage({ survey, shots, velocityChangeXsM: section.changes.map((c) => c.x), pickSigmaMs: sigmaMs });
+    if (solved.ok) {
+      timeTerm = solved;
+      plus = withTimeTerms(plusMinusTimes, solved);
+      section = sectionOf(plus);
+    } else {
+      methodNotes.push(timeTermFailedWarning(solved.reason));
+    }
+  }
   const v2 = layerVelocity(section.segments, xs.filter((_, i) => plus.delayTimeMs[i] !== null)) ?? lineV2.velocity;
 
   const verticalDepthM = section.depths.verticalDepthM;
@@ -118,6 +140,11 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation 
     { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM },
     options,
   );
+  // Time terms map the first refractor only (two-layer lines): a line with a mapped second
+  // refractor is interpreted by plus-minus instead, and says so (README, options.method).
+  if (options.method === 'time-term' && threeLayer?.map?.mapped && threeLayer.map.velocitiesMPerS[2] !== null) {
+    return interpretOnce({ ...survey, options: { ...survey.options, method: 'plus-minus' } }, undefined, timeTermThreeLayerWarning());
+  }
   // The first refractor's dip from the depths the section shows: on a three-layer line the
   // map's (branch-1 picks only), not the two-layer section's, which mixed in rock arrivals.
   const mapped = threeLayer?.map?.mapped ? threeLayer.map : null;
@@ -138,6 +165,7 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation 
 
   const twoLayerWarnings = [
     ...methodWarnings(options),
+    ...methodNotes,
     ...branchWarnings(v1, shots),
     ...reciprocal.warnings,
     ...phantomWarnings(phantoms, sigmaMs),
@@ -169,8 +197,9 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number): Interpretation 
     pickSigmaMs: sigmaMs,
     v1SigmaMPerS: lineV1SigmaMPerS(v1, topLayer.sides),
     // The method actually run: one asked for but not available yet fell back to plus-minus (warned).
-    method: grm ? 'grm' : 'plus-minus',
+    method: grm ? 'grm' : timeTerm ? 'time-term' : 'plus-minus',
     grm,
+    timeTerm,
   });
   const interpretation = withDataCautions(survey, output);
   return options.residuals ? withResiduals(survey, interpretation) : interpretation;

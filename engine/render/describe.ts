@@ -32,9 +32,12 @@ export function surveyDateText(text: string): string {
 }
 
 /** The method in words for a title block; GRM adds the XY it took (Palmer 1980), as a geophysicist reading the sheet needs it. */
-export function describeInterpretationMethod(interpretation: Pick<Interpretation, 'method' | 'grm'>): string {
+export function describeInterpretationMethod(interpretation: Pick<Interpretation, 'method' | 'grm' | 'timeTerm'>): string {
   const words = describeMethod(interpretation.method);
-  return interpretation.method === 'grm' && interpretation.grm ? `${words}, optimum XY ${formatMetres(interpretation.grm.optimumXy)}` : words;
+  if (interpretation.method === 'grm' && interpretation.grm) return `${words}, optimum XY ${formatMetres(interpretation.grm.optimumXy)}`;
+  // Time terms: the inversion's misfit is what tells the reader how well one delay per position fits.
+  if (interpretation.method === 'time-term' && interpretation.timeTerm) return `${words}, ${interpretation.timeTerm.picks} head-wave picks, RMS ${formatMs(interpretation.timeTerm.rmsMs)}`;
+  return words;
 }
 
 export function describeMethod(method: MethodName | undefined): string {

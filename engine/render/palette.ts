@@ -17,6 +17,8 @@
  *   says "exceeds".
  */
 
+import type { MethodName } from '../survey/survey.js';
+
 /** Depth-section roles. */
 export const SECTION_COLOURS = {
   /** Ground surface line. */
@@ -50,6 +52,17 @@ export const GRM_COLOURS = {
   optimum: '#1d3f8f',
   other: '#767676',
 } as const;
+
+/**
+ * The refractor of each method on the comparison (method-comparison.ts): plus-minus in the
+ * section's refractor blue, solid; GRM wine, dashed; time terms green, dotted (wine and green
+ * from the shot colours' colour-blind-safe scheme). The dash pattern alone tells them apart.
+ */
+export const METHOD_STYLES = {
+  'plus-minus': { colour: '#1d3f8f', widthMm: 0.6, dash: null, words: 'solid' },
+  grm: { colour: '#882255', widthMm: 0.5, dash: '2.2 1.1', words: 'dashed' },
+  'time-term': { colour: '#117733', widthMm: 0.75, dash: '0.05 1.1', words: 'dotted' },
+} as const satisfies Record<MethodName, { colour: string; widthMm: number; dash: string | null; words: string }>;
 
 /** Shared text and frame colours. */
 export const INK = {

@@ -39,6 +39,8 @@ const PHRASES: Readonly<Record<string, string>> = {
   'layer-count-chosen': 'layer count chosen by the picks’ misfit',
   'method-not-available': 'method asked for not available; plus-minus used',
   'method-unavailable': 'method asked for not available; plus-minus used',
+  'time-term-failed': 'time terms could not be solved; plus-minus used',
+  'time-term-two-layer-only': 'second refractor: time terms not used, plus-minus instead',
   'elevation-missing': 'elevations missing: flat datum assumed',
   'refractor-not-seen': 'a refractor was not seen',
   'second-refractor-one-way': 'second refractor seen one way only',

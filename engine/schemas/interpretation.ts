@@ -255,6 +255,18 @@ export const GrmAnalysisSchema = Type.Object(
   { ...closed, title: 'GrmAnalysis', description: 'Generalised reciprocal method (Palmer 1980): the functions at every XY tried and the optimum.' },
 );
 
+export const TimeTermAnalysisSchema = Type.Object(
+  {
+    picks: int('Head-wave picks used.'),
+    unknowns: int('Unknowns solved for.'),
+    rmsMs: num('RMS of pick − model, ms.'),
+    noiseMs: num('Noise the standard errors are scaled by, ms.'),
+    segments: Type.Array(Type.Object({ from: num(), to: num(), velocity: num('m/s'), standardError: num('m/s') }, closed)),
+    shots: Type.Array(Type.Object({ shot: str(), x: num(), timeTerm: nullable(num('ms')), standardError: nullable(num('ms')) }, closed)),
+  },
+  { ...closed, title: 'TimeTermAnalysis', description: 'Time-term inversion (Willmore & Bancroft 1960): fit, refractor velocities and shot terms; the geophone terms are stations[].delayTime.' },
+);
+
 export const InterpretationSchema = Type.Object(
   {
     method: literals(KNOWN_METHODS, 'The method used.'),
@@ -292,6 +304,7 @@ export const InterpretationSchema = Type.Object(
     velocityAnalysis: VelocityAnalysisSchema,
     cautions: Type.Array(Type.String()),
     grm: opt(GrmAnalysisSchema),
+    timeTerm: opt(TimeTermAnalysisSchema),
   },
   { ...closed, title: 'Interpretation', description: 'What the engine says about a line (api-v1.md). Units: m, ms, m/s, degrees.' },
 );

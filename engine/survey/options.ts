@@ -40,7 +40,7 @@ export const NUMERIC_OPTIONS = {
 /** Methods the contract names (api-v1.md). */
 export const KNOWN_METHODS: readonly MethodName[] = ['plus-minus', 'grm', 'time-term'];
 /** Methods the engine can run today; the others are refused with "method-not-available". */
-export const AVAILABLE_METHODS: readonly MethodName[] = ['plus-minus', 'grm'];
+export const AVAILABLE_METHODS: readonly MethodName[] = ['plus-minus', 'grm', 'time-term'];
 /** Method used when `options.method` is absent (api-v1.md). */
 export const DEFAULT_METHOD: MethodName = 'plus-minus';
 

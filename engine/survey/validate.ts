@@ -299,6 +299,15 @@ function ruleProblems(input: Record<string, unknown>, found: Found): { problems:
         message: `options.method is "${method}", which is not available yet; only ${AVAILABLE_METHODS.map((m) => `"${m}"`).join(', ')} can be run now.`,
       });
     }
+    // Time terms map one refractor (engine/time-term/): three layers asked for cannot be answered by them.
+    if (found.clean('/options/method') && method === 'time-term' && options.layers === 3) {
+      problems.push({
+        path: '/options/method',
+        code: 'method-two-layer-only',
+        message:
+          'options.method "time-term" maps the first refractor of a two-layer line only, and options.layers asks for 3; use "plus-minus" or "grm" for a three-layer line, or options.layers 2.',
+      });
+    }
     if (Array.isArray(options.branchOverrides) && options.branchOverrides.length <= MAX_BRANCH_OVERRIDES) {
       overrideRules(options.branchOverrides as BranchOverride[], found, shots, geophones, problems);
     }

@@ -7,6 +7,8 @@
 import { interpret } from '../../engine/pipeline/interpret.js';
 import { renderSection, renderSectionSheet, renderSectionSheets, renderTravelTimes, sectionSheetCount } from '../../engine/render/index.js';
 import { renderGrmFunctions } from '../../engine/render/grm-functions.js';
+import { renderMethodComparison } from '../../engine/render/method-comparison.js';
+import { compareMethods, comparisonSummary, type MethodComparisonSummary } from '../../engine/compare/method-comparison.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
 import type { Survey } from '../../engine/survey/survey.js';
 import { syntheticSurveyFromRequest, type SyntheticRequest } from '../../engine/forward/synthetic-request.js';
@@ -26,6 +28,8 @@ export interface TaskTable {
   /** One interpretation and both drawings of it (every sheet of the section). */
   preview: { input: { survey: Survey }; result: { interpretation: Interpretation } & Drawings };
   drawing: { input: { figure: Figure; survey: Survey; interpretation: Interpretation }; result: string };
+  /** The line by every method (the interpretation given is reused for its own method): the overlay figure and where they differ. */
+  methods: { input: { survey: Survey; interpretation?: Interpretation }; result: { methodsSvg: string; comparison: MethodComparisonSummary } };
   /** One sheet (1-based) of the section at the default options, and how many there are; svg null past the last. */
   sectionSheet: { input: { survey: Survey; interpretation: Interpretation; sheet: number }; result: { svg: string | null; sheetCount: number } };
   /** How many sheets the section has at the default options (planned, none drawn). */
@@ -67,6 +71,10 @@ const TASKS: { [K in TaskName]: (input: TaskTable[K]['input']) => TaskTable[K]['
     return { interpretation, ...TASKS.drawings({ survey, interpretation }) };
   },
   drawing: ({ figure, survey, interpretation }) => drawing(figure, survey, interpretation),
+  methods: ({ survey, interpretation }) => {
+    const comparison = compareMethods(survey, interpretation);
+    return { methodsSvg: renderMethodComparison(survey, comparison), comparison: comparisonSummary(comparison) };
+  },
   sectionSheet: ({ survey, interpretation, sheet }) => renderSectionSheet(survey, interpretation, sheet),
   sectionSheetCount: ({ survey, interpretation }) => sectionSheetCount(survey, interpretation),
   drawings: ({ survey, interpretation }) => {

@@ -21,7 +21,7 @@ import type { FastifyInstance, FastifyReply } from 'fastify';
 import { Type } from '@sinclair/typebox';
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import { surveyFromRequest, surveyInput } from '../survey-input.js';
-import { errorResponses, fileResponse } from '../route-schemas.js';
+import { errorResponses, fileResponse, MethodsAnswerSchema } from '../route-schemas.js';
 import { clientGone } from '../compute/client-gone.js';
 import type { Figure } from '../compute/tasks.js';
 
@@ -65,6 +65,21 @@ export async function previewRoutes(app: FastifyInstance): Promise<void> {
     reply.header('Cache-Control', 'no-store');
     return bundle;
   });
+  // The line by every method (not stored): what the page's "Compare methods" shows for a preview.
+  app.post(
+    '/api/v1/previews/methods',
+    surveyInput({
+      summary: 'Interpret a line that is not stored by plus-minus, GRM and time terms: where they differ by more than their combined 1σ, and the overlay figure.',
+      tags: ['previews'],
+      response: { 200: MethodsAnswerSchema, ...errorResponses(400, 413, 422, 503) },
+    }),
+    async (request, reply) => {
+      const survey = surveyFromRequest(request);
+      const answer = await app.compute.run('methods', { survey }, clientGone(reply));
+      reply.header('Cache-Control', 'no-store');
+      return answer;
+    },
+  );
   for (const { path, figure } of PREVIEWS) {
     const svg = fileResponse('image/svg+xml', 'The drawing as SVG.');
     app.post(path, surveyInput({ summary: 'Draw a line that is not stored.', tags: ['previews'], response: { 200: svg, ...errorResponses(400, 413, 422, 503) } }), async (request, reply) => {

@@ -13,6 +13,7 @@ import {
   authorQuerySchema,
   errorResponses,
   fileResponse,
+  MethodsAnswerSchema,
   revisionQuerySchema,
   revisionWriteQuerySchema,
   sectionSvgQuerySchema,
@@ -195,6 +196,29 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
       const { stored } = fetchRevision(request.params.id, request.query.revision);
       const svg = await app.compute.run('drawing', { figure: 'grm', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
       return setSvg(reply, svg);
+    },
+  );
+
+  // The refractor by every method on one section (engine/render/method-comparison.ts); the stored interpretation is reused for its own method.
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/methods.svg',
+    revisionRead(
+      'The first refractor by plus-minus, GRM and time terms on one section, each in its own line style, with where they differ by more than their combined 1σ.',
+      fileResponse('image/svg+xml', 'The method comparison as SVG.'),
+    ),
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      const { methodsSvg } = await app.compute.run('methods', { survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      return setSvg(reply, methodsSvg);
+    },
+  );
+
+  app.get<{ Params: IdParams; Querystring: RevisionQuery }>(
+    '/api/v1/surveys/:id/methods.json',
+    revisionRead('The method comparison as data: whether each method ran, where they differ by more than their combined 1σ, and the figure.', MethodsAnswerSchema),
+    async (request, reply) => {
+      const { stored } = fetchRevision(request.params.id, request.query.revision);
+      return app.compute.run('methods', { survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
     },
   );
 

@@ -233,11 +233,14 @@ describe('interpret: checks and degenerate lines', () => {
     expectCleanJson(result);
   });
 
-  it('says so when another method is asked for', () => {
-    const survey = planarSurvey(model, fiveShotLayout());
+  it('falls back to plus-minus, and says why, when no shot ties the time terms (Willmore & Bancroft 1960: shot and geophone terms trade off without a shot at or between geophones)', () => {
+    const layout = fiveShotLayout();
+    const survey = planarSurvey(model, { ...layout, shots: layout.shots.filter((s) => s.id !== 'Mid') });
     survey.options = { method: 'time-term' };
     const result = interpret(survey);
     expect(result.method).toBe('plus-minus');
-    expect(result.qc.warnings.map((w) => w.code)).toContain('method-unavailable');
+    expect(result.timeTerm).toBeUndefined();
+    const warning = result.qc.warnings.find((w) => w.code === 'time-term-failed');
+    expect(warning?.message).toContain('plus-minus');
   });
 });

@@ -347,10 +347,14 @@ describe('validateSurvey checks the options', () => {
   it('method-unknown', () => {
     expectProblem(withOptions({ method: 'delay-sum' }), 'method-unknown', '/options/method');
   });
-  it('method-not-available for time-term says which methods run now', () => {
-    const p = expectProblem(withOptions({ method: 'time-term' }), 'method-not-available', '/options/method');
-    expect(p.message).toContain('"plus-minus"');
-    expect(p.message).toContain('"grm"');
+  it('accepts method "time-term" on a line left to two layers (api-v1.md)', () => {
+    expect(problemsOf(withOptions({ method: 'time-term' }))).toEqual([]);
+    expect(problemsOf(withOptions({ method: 'time-term', layers: 2 }))).toEqual([]);
+  });
+  it('method-two-layer-only: time-term with three layers forced names options.method and why', () => {
+    const p = expectProblem(withOptions({ method: 'time-term', layers: 3 }), 'method-two-layer-only', '/options/method');
+    expect(p.message).toContain('options.layers');
+    expect(p.message).toContain('two-layer');
   });
   it('accepts method "grm" (api-v1.md)', () => {
     expect(problemsOf(withOptions({ method: 'grm' }))).toEqual([]);

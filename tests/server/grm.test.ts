@@ -1,6 +1,6 @@
 // options.method "grm" through the service (api-v1.md: method echoed at the top level;
 // Palmer 1980 for the functions): the interpretation carries the XY functions, the stored
-// line draws them, the preview bundle has them, and time-term is still refused with a 400.
+// line draws them, and the preview bundle has them (time-term: tests/server/time-term.test.ts).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
@@ -35,14 +35,6 @@ describe('options.method "grm"', () => {
     expect(res.status).toBe(200);
     expect(res.body.method).toBe('plus-minus');
     expect(res.body.grm).toBeUndefined();
-  });
-
-  it('refuses time-term with a 400 naming the field', async () => {
-    const res = await request(server.app.server).post('/api/v1/interpretations').set('Content-Type', 'application/json').send(withMethod('time-term'));
-    expect(res.status).toBe(400);
-    expect(res.body.error.path).toBe('/options/method');
-    expect(res.body.error.problems.map((p: { code: string }) => p.code)).toContain('method-not-available');
-    expect(res.body.error.problems[0].message).toContain('time-term');
   });
 
   it('draws the stored line\'s GRM functions, and says there are none for a plus-minus line', async () => {

@@ -1,7 +1,7 @@
 // The page's request building and answer reading (web/api.js): everything but fetch itself.
 import { describe, expect, it } from 'vitest';
 import {
-  contentTypeOf, failureFromBody, lineFileUrls, sectionSheetUrl, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
+  contentTypeOf, failureFromBody, lineFileUrls, readMethodsAnswer, sectionSheetUrl, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
 } from '../../web/api.js';
 
 describe('request building', () => {
@@ -30,6 +30,7 @@ describe('request building', () => {
       sectionSheets: 'api/v1/surveys/a%2Fb%20c/section-sheets.json',
       travelTimes: 'api/v1/surveys/a%2Fb%20c/traveltimes.svg',
       grm: 'api/v1/surveys/a%2Fb%20c/grm.svg',
+      methods: 'api/v1/surveys/a%2Fb%20c/methods.json',
       stations: 'api/v1/surveys/a%2Fb%20c/stations.csv',
       interpretation: 'api/v1/surveys/a%2Fb%20c/interpretation.json',
       sectionPdf: 'api/v1/surveys/a%2Fb%20c/section.pdf',
@@ -40,6 +41,15 @@ describe('request building', () => {
     expect(lineFileUrls('id', 2).sectionPdf).toBe('api/v1/surveys/id/section.pdf?revision=2');
     expect(lineFileUrls('id', 2).section).toBe('api/v1/surveys/id/section.svg?revision=2');
     expect(lineFileUrls('id', 2).sectionSheets).toBe('api/v1/surveys/id/section-sheets.json?revision=2');
+    expect(lineFileUrls('id', 2).methods).toBe('api/v1/surveys/id/methods.json?revision=2');
+  });
+
+  it('accepts a method comparison only in the promised shape (GET …/methods.json, POST /api/v1/previews/methods)', () => {
+    const good = { methodsSvg: '<svg></svg>', comparison: { runs: [], differences: [] } };
+    expect(readMethodsAnswer(good)).toEqual(good);
+    expect(readMethodsAnswer({ methodsSvg: '<svg></svg>' })).toBeNull();
+    expect(readMethodsAnswer({ ...good, comparison: { runs: [] } })).toBeNull();
+    expect(readMethodsAnswer(null)).toBeNull();
   });
 
   it('names sheet k of a section after any revision, and the first sheet by the section\'s own URL', () => {

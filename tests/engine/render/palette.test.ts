@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { SECTION_COLOURS, SHOT_COLOURS, INK, GRM_COLOURS } from '../../../engine/render/palette.js';
+import { SECTION_COLOURS, SHOT_COLOURS, INK, GRM_COLOURS, METHOD_STYLES } from '../../../engine/render/palette.js';
 
 // Relative luminance and contrast ratio: W3C, Web Content Accessibility Guidelines 2.1,
 // definitions "relative luminance" and "contrast ratio"; 3:1 for graphical objects is
@@ -51,7 +51,7 @@ function deltaE(a: [number, number, number], b: [number, number, number]): numbe
 
 describe('palette', () => {
   it('gives every shot colour and every line/marker role at least 3:1 contrast on white (WCAG 2.1, 1.4.11)', () => {
-    const lines = [...SHOT_COLOURS, SECTION_COLOURS.ground, SECTION_COLOURS.refractor, SECTION_COLOURS.refractor2, SECTION_COLOURS.geophone, SECTION_COLOURS.shot, SECTION_COLOURS.step, SECTION_COLOURS.velocityChange, INK.alert, GRM_COLOURS.optimum, GRM_COLOURS.other];
+    const lines = [...SHOT_COLOURS, SECTION_COLOURS.ground, SECTION_COLOURS.refractor, SECTION_COLOURS.refractor2, SECTION_COLOURS.geophone, SECTION_COLOURS.shot, SECTION_COLOURS.step, SECTION_COLOURS.velocityChange, INK.alert, GRM_COLOURS.optimum, GRM_COLOURS.other, ...Object.values(METHOD_STYLES).map((m) => m.colour)];
     for (const c of lines) expect(contrast(c, '#ffffff')).toBeGreaterThanOrEqual(3);
   });
 
