@@ -33,7 +33,7 @@ describe('interpret on generated lines (property)', () => {
           expect(firstNonFinite(result)).toBeNull();
           for (const w of result.qc.warnings) expect(w.code).toMatch(/^[a-z0-9-]+$/);
         }),
-        runs(60, 10_000),
+        runs(Number(process.env.PROPERTY_RUNS) || 60, 10_000),
       );
       // The generator must mostly make lines the engine takes, or the property proves little.
       expect(interpreted).toBeGreaterThan(refused);

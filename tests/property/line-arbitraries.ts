@@ -78,7 +78,7 @@ const optionsArb: fc.Arbitrary<SurveyOptions | undefined> = fc.oneof(
       {
         layers: fc.constantFrom<2 | 3>(2, 3),
         reciprocalToleranceMs: fc.double({ min: 0.01, max: 50, noNaN: true }),
-        method: fc.constantFrom<'plus-minus' | 'grm'>('plus-minus', 'grm'),
+        method: fc.constantFrom<'plus-minus' | 'grm' | 'time-term'>('plus-minus', 'grm', 'time-term'),
         residuals: fc.boolean(),
         pickUncertaintyMs: fc.double({ min: 0.01, max: 10, noNaN: true }),
       },
