@@ -52,6 +52,14 @@ export const ERROR_CATALOGUE = {
     message: 'This service needs a write token: send "Authorization: Bearer <token>".',
   },
   write_token_invalid: { status: 401, message: 'The write token is not the one this service was given.' },
+  cross_origin_write: {
+    status: 403,
+    message: 'This write came from a page of another site (its Origin or Referer names another host than this service); it was refused. Write from the Arcline page itself, or from a script that sends no Origin header.',
+  },
+  host_not_allowed: {
+    status: 421,
+    message: 'This service does not answer to that host name. Use the address it was started on, or add the name to ARCLINE_ALLOWED_HOSTS.',
+  },
   not_found: { status: 404, message: 'Nothing here.' },
   survey_not_found: { status: 404, message: 'No stored survey has this id.' },
   revision_not_found: { status: 404, message: 'This survey has no such revision.' },

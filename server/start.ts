@@ -11,6 +11,7 @@ export async function startService(env: NodeJS.ProcessEnv, options: { logger?: b
   const app = await buildApp({
     dataDir: config.dataDir,
     host: config.host,
+    allowedHosts: config.allowedHosts,
     writeToken: config.writeToken,
     seedDemo: config.seedDemo,
     compute: { threads: config.threads, maxQueued: config.maxQueued, timeLimitMs: config.timeLimitMs },

@@ -11,7 +11,7 @@ import { openArcline, SAMPLES_DIR, servePageInChromium, type ServedPage } from '
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
 // Invented for this test only.
-const WRITE_TOKEN = 'e2e-token-4f9c2a71';
+const WRITE_TOKEN = 'e2e-token-4f9c2a71-b03d6e58a9c41f27';
 
 describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
   let launched: LaunchedBrowser;
