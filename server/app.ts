@@ -9,7 +9,8 @@ import fastifySwagger from '@fastify/swagger';
 import { ConfigError, checkWriteToken, readAllowedHosts } from './config.js';
 import { AppError, handleError, handleNotFound } from './errors.js';
 import { binaryBody } from './binary-body.js';
-import { addSecurityHeaders } from './security-headers.js';
+import { preRoutingHeaders, securityHeaders } from './security-headers.js';
+import { withLimit, writeLimiter } from './write-limit.js';
 import { SurveyStore } from './store.js';
 import { isLoopbackHost, writeGuard, writerCheck } from './write-auth.js';
 import { hostCheck, originCheck } from './request-origin.js';
@@ -35,6 +36,12 @@ export interface AppOptions {
   host?: string;
   /** Bearer token for write routes. Required when host is not loopback; enforced whenever set; at least MIN_WRITE_TOKEN_LENGTH characters. */
   writeToken?: string;
+  /**
+   * Writes per minute per client address on the guarded write routes (server/write-limit.ts);
+   * 0 for no limit. Default 0 here (tests); the service started from the environment uses
+   * ARCLINE_WRITE_RATE_LIMIT, default DEFAULT_WRITES_PER_MINUTE.
+   */
+  writeRateLimit?: number;
   /** Further host names the service answers to (the Host header), beside those of `host` (server/request-origin.ts). */
   allowedHosts?: string[];
   /** Store the demo line when the store is empty. Default false. */
@@ -94,6 +101,10 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
   const rawToken = options.writeToken === '' ? undefined : options.writeToken;
   if (rawToken !== undefined && typeof rawToken !== 'string') throw new ConfigError('The write token must be a string.');
   const writeToken = rawToken === undefined ? undefined : checkWriteToken(rawToken, 'The write token');
+  const writeRateLimit = options.writeRateLimit ?? 0;
+  if (!Number.isInteger(writeRateLimit) || writeRateLimit < 0) {
+    throw new ConfigError(`writeRateLimit must be a whole number of writes per minute (0 for no limit); got ${String(options.writeRateLimit)}.`);
+  }
   const allowedHosts = options.allowedHosts ?? [];
   if (!Array.isArray(allowedHosts) || allowedHosts.some((name) => typeof name !== 'string')) {
     throw new ConfigError('allowedHosts must be a list of host names.');
@@ -109,6 +120,7 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
     host,
     writeToken,
     allowedHosts: readAllowedHosts(allowedHosts.join(',')),
+    writeRateLimit,
     seedDemo: options.seedDemo ?? false,
     logger: options.logger ?? false,
     bodyLimitBytes,
@@ -161,7 +173,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     serverFactory: (handler) => timedServer(handler, checked.requestTimeoutMs, compute.timeLimitMs),
     // Errors Fastify meets before routing (a badly encoded URL) get the same coded body and headers.
     frameworkErrors: (error, request, reply) => {
-      void addSecurityHeaders(request, reply, undefined);
+      preRoutingHeaders(reply);
       handleError(error, request, reply);
     },
   });
@@ -180,7 +192,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     app.addHook('onClose', async () => store.close());
     app.setErrorHandler(handleError);
     app.setNotFoundHandler(handleNotFound);
-    app.addHook('onSend', addSecurityHeaders);
+    await securityHeaders(app);
 
     // Every body is read as bytes first, so a file sent by mistake (a SEG-2 record, a
     // workbook) is named for what it is and never decoded and quoted back (binary-body.ts).
@@ -226,7 +238,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     app.addHook('onRequest', hostCheck(checked.host, checked.allowedHosts));
     app.addHook('onRequest', originCheck);
 
-    const guard = writeGuard(checked.writeToken);
+    // The write routes' onRequest: the rate limit (guesses at the token count), then the token.
+    const guard = withLimit(await writeLimiter(app, checked.writeRateLimit), writeGuard(checked.writeToken));
     const isWriter = writerCheck(checked.writeToken);
     // Before the routes: it collects every route's schema as the route is added.
     await app.register(fastifySwagger, openApiOptions);

@@ -6,12 +6,15 @@
  *   ARCLINE_WRITE_TOKEN  bearer token for write routes; required when HOST is not loopback;
  *                        at least MIN_WRITE_TOKEN_LENGTH characters, no spaces
  *   ARCLINE_ALLOWED_HOSTS  comma-separated host names the service also answers to (Host header)
+ *   ARCLINE_WRITE_RATE_LIMIT  writes per minute per client address, default 60; 0 for no limit
  *   ARCLINE_SEED_DEMO    "0"/"false" stops the demo line being stored into an empty store
  *   ARCLINE_THREADS      compute worker threads, default one per core
  *   ARCLINE_QUEUE        computations that may wait for a thread before 503, default 4 per thread
  *   ARCLINE_TIME_LIMIT_MS  a computation running longer is stopped, default 10000
  *   ARCLINE_REQUEST_TIMEOUT_MS  a request (headers and body) must arrive within this, default 30000
  */
+
+import { DEFAULT_WRITES_PER_MINUTE } from './write-limit.js';
 
 /** A configuration mistake: main prints the message and exits 1. */
 export class ConfigError extends Error {
@@ -75,6 +78,7 @@ export function readAllowedHosts(raw: string | undefined): string[] {
 export interface ServiceConfig {
   host: string;
   allowedHosts: string[];
+  writeRateLimit: number;
   port: number;
   dataDir: string;
   writeToken: string | undefined;
@@ -126,6 +130,7 @@ export function readConfig(env: NodeJS.ProcessEnv): ServiceConfig {
   return {
     host,
     allowedHosts: readAllowedHosts(env.ARCLINE_ALLOWED_HOSTS),
+    writeRateLimit: readWhole('ARCLINE_WRITE_RATE_LIMIT', env.ARCLINE_WRITE_RATE_LIMIT, 0, 1_000_000) ?? DEFAULT_WRITES_PER_MINUTE,
     port: readPort(env.PORT),
     dataDir,
     writeToken,

@@ -65,6 +65,7 @@ export const ERROR_CATALOGUE = {
   revision_not_found: { status: 404, message: 'This survey has no such revision.' },
   gather_not_found: { status: 404, message: 'No shot gather with this shot id was uploaded into this line (up to this revision).' },
   share_not_found: { status: 404, message: 'This share link does not exist or has been revoked.' },
+  rate_limited: { status: 429, message: 'Too many writes from this address; try again in a minute. Nothing was stored.' },
   service_busy: {
     status: 503,
     message: 'The service is busy with other computations and its queue is full; try again in a few seconds.',

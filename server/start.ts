@@ -12,6 +12,7 @@ export async function startService(env: NodeJS.ProcessEnv, options: { logger?: b
     dataDir: config.dataDir,
     host: config.host,
     allowedHosts: config.allowedHosts,
+    writeRateLimit: config.writeRateLimit,
     writeToken: config.writeToken,
     seedDemo: config.seedDemo,
     compute: { threads: config.threads, maxQueued: config.maxQueued, timeLimitMs: config.timeLimitMs },

@@ -9,6 +9,7 @@
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { clientGone } from '../compute/client-gone.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
+import type { RequestHook } from '../write-limit.js';
 import { AppError } from '../errors.js';
 import { surveyFromRequest, surveyInput } from '../survey-input.js';
 import { Type } from '@sinclair/typebox';
@@ -35,7 +36,7 @@ import { sectionSheetReply } from '../section-sheet.js';
 
 export interface SurveyRouteOptions {
   store: SurveyStore;
-  guard: (request: import('fastify').FastifyRequest) => Promise<void>;
+  guard: RequestHook;
   /** Whether the request could write: only a writer sees a line's share link on a read. */
   isWriter: (request: import('fastify').FastifyRequest) => boolean;
 }

@@ -144,14 +144,15 @@ describe('refusing to start', () => {
 
 describe('readConfig', () => {
   it('gives the documented defaults', () => {
-    expect(readConfig({})).toEqual({ host: '127.0.0.1', allowedHosts: [], port: 8080, dataDir: './data', writeToken: undefined, seedDemo: true });
+    expect(readConfig({})).toEqual({ host: '127.0.0.1', allowedHosts: [], writeRateLimit: 60, port: 8080, dataDir: './data', writeToken: undefined, seedDemo: true });
   });
 
   it('reads every variable', () => {
-    const env = { HOST: '0.0.0.0', PORT: '9000', DATA_DIR: '/srv/arcline', ARCLINE_WRITE_TOKEN: TOKEN, ARCLINE_SEED_DEMO: '0', ARCLINE_ALLOWED_HOSTS: 'Arcline.Office.example, 10.0.0.12,[fd00::5]' };
+    const env = { HOST: '0.0.0.0', PORT: '9000', DATA_DIR: '/srv/arcline', ARCLINE_WRITE_TOKEN: TOKEN, ARCLINE_SEED_DEMO: '0', ARCLINE_ALLOWED_HOSTS: 'Arcline.Office.example, 10.0.0.12,[fd00::5]', ARCLINE_WRITE_RATE_LIMIT: '0' };
     expect(readConfig(env)).toEqual({
       host: '0.0.0.0',
       allowedHosts: ['arcline.office.example', '10.0.0.12', 'fd00::5'],
+      writeRateLimit: 0,
       port: 9000,
       dataDir: '/srv/arcline',
       writeToken: TOKEN,
