@@ -251,7 +251,7 @@ process.on('exit', () => current?.kill('SIGKILL'));
 
 async function startService(dataDir: string, port: number): Promise<ChildProcess> {
   const child = spawn(process.execPath, [join(root, 'dist/server/main.js')], {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_REQUEST_TIMEOUT_MS: '3000' },
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_REQUEST_TIMEOUT_MS: '3000', ARCLINE_WRITE_RATE_LIMIT: '0' }, // rate limit off: the fuzzed writes must reach the routes,
     stdio: ['ignore', 'ignore', 'pipe'],
   });
   child.stderr?.on('data', () => undefined);

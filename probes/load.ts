@@ -46,7 +46,7 @@ async function main(): Promise<void> {
   const dataDir = mkdtempSync(join(tmpdir(), 'arcline-load-'));
   const port = 30_000 + Math.floor(Math.random() * 20_000);
   const child = spawn(process.execPath, [join(root, 'dist/server/main.js')], {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_TIME_LIMIT_MS: '30000' },
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_TIME_LIMIT_MS: '30000', ARCLINE_WRITE_RATE_LIMIT: '0' },
     stdio: 'ignore',
   });
   const base = `http://127.0.0.1:${port}`;

@@ -6,12 +6,14 @@ import { createServer, type IncomingMessage, type Server, type ServerResponse } 
 import Fastify, { type FastifyInstance } from 'fastify';
 import fastifyStatic from '@fastify/static';
 import fastifySwagger from '@fastify/swagger';
-import { ConfigError } from './config.js';
+import { ConfigError, checkWriteToken, readAllowedHosts } from './config.js';
 import { AppError, handleError, handleNotFound } from './errors.js';
 import { binaryBody } from './binary-body.js';
-import { addSecurityHeaders } from './security-headers.js';
+import { preRoutingHeaders, securityHeaders } from './security-headers.js';
+import { withLimit, writeLimiter } from './write-limit.js';
 import { SurveyStore } from './store.js';
-import { isLoopbackHost, writeGuard } from './write-auth.js';
+import { isLoopbackHost, writeGuard, writerCheck } from './write-auth.js';
+import { hostCheck, originCheck } from './request-origin.js';
 import { seedDemoLine } from './seed.js';
 import { demoGathersRoute, findSamplesDir } from './demo-gathers-route.js';
 import { findWebRoot } from './web-root.js';
@@ -33,8 +35,16 @@ export interface AppOptions {
   dataDir: string;
   /** The address the service will listen on; decides whether a write token is mandatory. Default 127.0.0.1. */
   host?: string;
-  /** Bearer token for write routes. Required when host is not loopback; enforced whenever set. */
+  /** Bearer token for write routes. Required when host is not loopback; enforced whenever set; at least MIN_WRITE_TOKEN_LENGTH characters. */
   writeToken?: string;
+  /**
+   * Writes per minute per client address on the guarded write routes (server/write-limit.ts);
+   * 0 for no limit. Default 0 here (tests); the service started from the environment uses
+   * ARCLINE_WRITE_RATE_LIMIT, default DEFAULT_WRITES_PER_MINUTE.
+   */
+  writeRateLimit?: number;
+  /** Further host names the service answers to (the Host header), beside those of `host` (server/request-origin.ts). */
+  allowedHosts?: string[];
   /** Store the demo line when the store is empty. Default false. */
   seedDemo?: boolean;
   /** Fastify's pino logger. Default false. */
@@ -62,10 +72,17 @@ export const DEFAULT_REQUEST_TIMEOUT_MS = 30_000;
 
 export const DEFAULT_BODY_LIMIT_BYTES = 5 * 1024 * 1024;
 
+export interface RouteEntry {
+  method: string;
+  url: string;
+}
+
 declare module 'fastify' {
   interface FastifyInstance {
     store: SurveyStore;
     compute: ComputePool;
+    /** Every route as it was added (method and URL pattern): the route-walk test reads it. */
+    routeTable: readonly RouteEntry[];
   }
 }
 
@@ -84,9 +101,16 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
   if (!Number.isInteger(requestTimeoutMs) || requestTimeoutMs < 100) {
     throw new ConfigError(`requestTimeoutMs must be a whole number of at least 100; got ${String(options.requestTimeoutMs)}.`);
   }
-  const writeToken = options.writeToken === '' ? undefined : options.writeToken;
-  if (writeToken !== undefined && (typeof writeToken !== 'string' || /\s/.test(writeToken))) {
-    throw new ConfigError('The write token must be one word without spaces.');
+  const rawToken = options.writeToken === '' ? undefined : options.writeToken;
+  if (rawToken !== undefined && typeof rawToken !== 'string') throw new ConfigError('The write token must be a string.');
+  const writeToken = rawToken === undefined ? undefined : checkWriteToken(rawToken, 'The write token');
+  const writeRateLimit = options.writeRateLimit ?? 0;
+  if (!Number.isInteger(writeRateLimit) || writeRateLimit < 0) {
+    throw new ConfigError(`writeRateLimit must be a whole number of writes per minute (0 for no limit); got ${String(options.writeRateLimit)}.`);
+  }
+  const allowedHosts = options.allowedHosts ?? [];
+  if (!Array.isArray(allowedHosts) || allowedHosts.some((name) => typeof name !== 'string')) {
+    throw new ConfigError('allowedHosts must be a list of host names.');
   }
   if (!isLoopbackHost(host) && writeToken === undefined) {
     throw new ConfigError(
@@ -98,6 +122,8 @@ function checkOptions(options: AppOptions): Required<Omit<AppOptions, 'writeToke
     dataDir: options.dataDir,
     host,
     writeToken,
+    allowedHosts: readAllowedHosts(allowedHosts.join(',')),
+    writeRateLimit,
     seedDemo: options.seedDemo ?? false,
     logger: options.logger ?? false,
     bodyLimitBytes,
@@ -150,20 +176,26 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     serverFactory: (handler) => timedServer(handler, checked.requestTimeoutMs, compute.timeLimitMs),
     // Errors Fastify meets before routing (a badly encoded URL) get the same coded body and headers.
     frameworkErrors: (error, request, reply) => {
-      void addSecurityHeaders(request, reply, undefined);
+      preRoutingHeaders(reply);
       handleError(error, request, reply);
     },
   });
   try {
     app.decorate('store', store);
     app.decorate('compute', compute);
+    const routeTable: RouteEntry[] = [];
+    // O(1) per route added.
+    app.addHook('onRoute', (route) => {
+      for (const method of [route.method].flat()) routeTable.push({ method, url: route.url });
+    });
+    app.decorate('routeTable', routeTable);
     // Workers stop first, so requests still waiting on them answer at once (503) and the
     // server can close within a second even while a long line is being computed.
     app.addHook('preClose', async () => compute.close());
     app.addHook('onClose', async () => store.close());
     app.setErrorHandler(handleError);
     app.setNotFoundHandler(handleNotFound);
-    app.addHook('onSend', addSecurityHeaders);
+    await securityHeaders(app);
 
     // Every body is read as bytes first, so a file sent by mistake (a SEG-2 record, a
     // workbook) is named for what it is and never decoded and quoted back (binary-body.ts).
@@ -204,13 +236,20 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       }
     });
 
-    const guard = writeGuard(checked.writeToken);
+    // Before every route (hooks apply to routes added after them): a foreign Host is
+    // refused on every route but /healthz, a write from another site's page on every route.
+    app.addHook('onRequest', hostCheck(checked.host, checked.allowedHosts));
+    app.addHook('onRequest', originCheck);
+
+    // The write routes' onRequest: the rate limit (guesses at the token count), then the token.
+    const guard = withLimit(await writeLimiter(app, checked.writeRateLimit), writeGuard(checked.writeToken));
+    const isWriter = writerCheck(checked.writeToken);
     // Before the routes: it collects every route's schema as the route is added.
     await app.register(fastifySwagger, openApiOptions);
     await app.register(openApiRoutes);
     await app.register(healthRoutes);
     await app.register(interpretationRoutes);
-    await app.register(surveyRoutes, { store, guard });
+    await app.register(surveyRoutes, { store, guard, isWriter });
     await app.register(shareRoutes, { store });
     await app.register(syntheticRoutes);
     await app.register(previewRoutes);

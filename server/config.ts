@@ -3,13 +3,18 @@
  *   HOST                 address to listen on, default 127.0.0.1 (0.0.0.0 for the office network)
  *   PORT                 TCP port, default 8080 (0 picks a free one)
  *   DATA_DIR             folder of the SQLite store, default ./data
- *   ARCLINE_WRITE_TOKEN  bearer token for write routes; required when HOST is not loopback
+ *   ARCLINE_WRITE_TOKEN  bearer token for write routes; required when HOST is not loopback;
+ *                        at least MIN_WRITE_TOKEN_LENGTH characters, no spaces
+ *   ARCLINE_ALLOWED_HOSTS  comma-separated host names the service also answers to (Host header)
+ *   ARCLINE_WRITE_RATE_LIMIT  writes per minute per client address, default 60; 0 for no limit
  *   ARCLINE_SEED_DEMO    "0"/"false" stops the demo line being stored into an empty store
  *   ARCLINE_THREADS      compute worker threads, default one per core
  *   ARCLINE_QUEUE        computations that may wait for a thread before 503, default 4 per thread
  *   ARCLINE_TIME_LIMIT_MS  a computation running longer is stopped, default 10000
  *   ARCLINE_REQUEST_TIMEOUT_MS  a request (headers and body) must arrive within this, default 30000
  */
+
+import { DEFAULT_WRITES_PER_MINUTE } from './write-limit.js';
 
 /** A configuration mistake: main prints the message and exits 1. */
 export class ConfigError extends Error {
@@ -19,8 +24,61 @@ export class ConfigError extends Error {
   }
 }
 
+/**
+ * Shortest write token accepted, characters. 32 random characters carry at least 128 bits
+ * (hex: 4 bits each; base64: 6 bits each, 192 bits), out of reach of online guessing at any
+ * rate a network allows. 128 bits is common practice for secrets that guard access (the
+ * OWASP Session Management Cheat Sheet asks at least 64 bits of entropy for session ids;
+ * NIST SP 800-131A sets 112 bits as the least security strength for keys; both from
+ * memory). Length alone cannot show that a token is random; the message says how to make one.
+ */
+export const MIN_WRITE_TOKEN_LENGTH = 32;
+
+/** How to make a good token, quoted in every refusal. */
+export const MAKE_TOKEN_HINT =
+  'Make one with `openssl rand -base64 32` or `node -e "console.log(require(\'crypto\').randomBytes(32).toString(\'base64url\'))"`.';
+
+/** Checks a write token; `source` names where it came from (the variable or the option). */
+export function checkWriteToken(token: string, source: string): string {
+  if (token.trim() !== token || /\s/.test(token)) {
+    throw new ConfigError(`${source} must be one word: no spaces or line breaks. ${MAKE_TOKEN_HINT}`);
+  }
+  if (token.length < MIN_WRITE_TOKEN_LENGTH) {
+    throw new ConfigError(
+      `${source} is ${token.length} character${token.length === 1 ? '' : 's'} long; it must be at least ${MIN_WRITE_TOKEN_LENGTH} ` +
+        `random characters, so it cannot be guessed over the network. ${MAKE_TOKEN_HINT}`,
+    );
+  }
+  return token;
+}
+
+/**
+ * Host names from ARCLINE_ALLOWED_HOSTS: comma separated, each a bare name or address
+ * (no scheme, port or path; IPv6 in brackets or bare), compared without case.
+ */
+export function readAllowedHosts(raw: string | undefined): string[] {
+  if (raw === undefined || raw.trim() === '') return [];
+  const names: string[] = [];
+  // O(n) in the number of names.
+  for (const part of raw.split(',')) {
+    const name = part.trim().toLowerCase();
+    if (name === '') continue;
+    const bare = name.replace(/^\[(.*)\]$/, '$1');
+    const looksLikeIpv6 = bare.includes(':') && /^[0-9a-f:.]+$/.test(bare);
+    if (/[\s/@?#]/.test(name) || (!looksLikeIpv6 && name.includes(':'))) {
+      throw new ConfigError(
+        `ARCLINE_ALLOWED_HOSTS lists host names only, without scheme, port or path (e.g. "arcline.office.example,10.0.0.12"); got "${part.trim()}".`,
+      );
+    }
+    names.push(bare.replace(/\.$/, ''));
+  }
+  return names;
+}
+
 export interface ServiceConfig {
   host: string;
+  allowedHosts: string[];
+  writeRateLimit: number;
   port: number;
   dataDir: string;
   writeToken: string | undefined;
@@ -70,15 +128,11 @@ export function readConfig(env: NodeJS.ProcessEnv): ServiceConfig {
   if (/\s/.test(host)) throw new ConfigError(`HOST must be one address or host name; got "${env.HOST}".`);
   const dataDir = env.DATA_DIR?.trim() || CONFIG_DEFAULTS.dataDir;
   const token = env.ARCLINE_WRITE_TOKEN;
-  let writeToken: string | undefined;
-  if (token !== undefined && token !== '') {
-    if (token.trim() !== token || /\s/.test(token)) {
-      throw new ConfigError('ARCLINE_WRITE_TOKEN must not contain spaces or line breaks.');
-    }
-    writeToken = token;
-  }
+  const writeToken = token === undefined || token === '' ? undefined : checkWriteToken(token, 'ARCLINE_WRITE_TOKEN');
   return {
     host,
+    allowedHosts: readAllowedHosts(env.ARCLINE_ALLOWED_HOSTS),
+    writeRateLimit: readWhole('ARCLINE_WRITE_RATE_LIMIT', env.ARCLINE_WRITE_RATE_LIMIT, 0, 1_000_000) ?? DEFAULT_WRITES_PER_MINUTE,
     port: readPort(env.PORT),
     dataDir,
     writeToken,

@@ -53,11 +53,20 @@ export const ERROR_CATALOGUE = {
     message: 'This service needs a write token: send "Authorization: Bearer <token>".',
   },
   write_token_invalid: { status: 401, message: 'The write token is not the one this service was given.' },
+  cross_origin_write: {
+    status: 403,
+    message: 'This write came from a page of another site (its Origin or Referer names another host than this service); it was refused. Write from the Arcline page itself, or from a script that sends no Origin header.',
+  },
+  host_not_allowed: {
+    status: 421,
+    message: 'This service does not answer to that host name. Use the address it was started on, or add the name to ARCLINE_ALLOWED_HOSTS.',
+  },
   not_found: { status: 404, message: 'Nothing here.' },
   survey_not_found: { status: 404, message: 'No stored survey has this id.' },
   revision_not_found: { status: 404, message: 'This survey has no such revision.' },
   gather_not_found: { status: 404, message: 'No shot gather with this shot id was uploaded into this line (up to this revision).' },
   share_not_found: { status: 404, message: 'This share link does not exist or has been revoked.' },
+  rate_limited: { status: 429, message: 'Too many writes from this address; try again in a minute. Nothing was stored.' },
   service_busy: {
     status: 503,
     message: 'The service is busy with other computations and its queue is full; try again in a few seconds.',

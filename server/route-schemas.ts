@@ -128,7 +128,9 @@ const LinksSchema = Type.Object(
   { ...closed, title: 'Links' },
 );
 
-const shareUrl = Type.Union([Type.String(), Type.Null()], { description: 'Path of the read-only share page; null when revoked.' });
+const shareUrl = Type.Union([Type.String(), Type.Null()], {
+  description: 'Path of the read-only share page; null when revoked, and on a read by a request that could not write (no or wrong write token).',
+});
 
 export const SurveyCreatedSchema = Type.Object(
   {
@@ -168,10 +170,9 @@ export const SurveyListSchema = Type.Array(
       createdAt: Type.String(),
       updatedAt: Type.String(),
       latestRevision: Type.Integer(),
-      shareUrl,
       url: Type.String(),
     },
-    { ...closed, title: 'SurveyListItem' },
+    { ...closed, title: 'SurveyListItem', description: 'No share link: only a writer may see one (GET /api/v1/surveys/:id with the write token).' },
   ),
 );
 

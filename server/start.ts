@@ -11,6 +11,8 @@ export async function startService(env: NodeJS.ProcessEnv, options: { logger?: b
   const app = await buildApp({
     dataDir: config.dataDir,
     host: config.host,
+    allowedHosts: config.allowedHosts,
+    writeRateLimit: config.writeRateLimit,
     writeToken: config.writeToken,
     seedDemo: config.seedDemo,
     compute: { threads: config.threads, maxQueued: config.maxQueued, timeLimitMs: config.timeLimitMs },

@@ -34,18 +34,34 @@ export function tokensMatch(presented: string, expected: string): boolean {
   return timingSafeEqual(a, b);
 }
 
+/**
+ * Why a write by this request would be refused, or null when it would be accepted. The one
+ * rule for writes, and for seeing what only a writer may see (the share link of a stored
+ * line): with no token configured the service listens on loopback only (buildApp refuses
+ * anything else), so every request that reached it and passed the host check may write.
+ */
+export function writeRefusal(writeToken: string | undefined, request: FastifyRequest): AppError | null {
+  if (writeToken === undefined) return null;
+  const header = request.headers.authorization;
+  if (header === undefined || header.trim() === '') return new AppError('write_token_required');
+  const match = /^Bearer\s+(\S+)\s*$/i.exec(header);
+  if (match === null) {
+    return new AppError('write_token_required', {
+      message: 'The Authorization header must read "Bearer <token>".',
+    });
+  }
+  return tokensMatch(match[1], writeToken) ? null : new AppError('write_token_invalid');
+}
+
 /** onRequest hook for write routes; runs before the body is read, so strangers cannot make us parse 5 MB. */
 export function writeGuard(writeToken: string | undefined): (request: FastifyRequest) => Promise<void> {
   return async (request) => {
-    if (writeToken === undefined) return;
-    const header = request.headers.authorization;
-    if (header === undefined || header.trim() === '') throw new AppError('write_token_required');
-    const match = /^Bearer\s+(\S+)\s*$/i.exec(header);
-    if (match === null) {
-      throw new AppError('write_token_required', {
-        message: 'The Authorization header must read "Bearer <token>".',
-      });
-    }
-    if (!tokensMatch(match[1], writeToken)) throw new AppError('write_token_invalid');
+    const refusal = writeRefusal(writeToken, request);
+    if (refusal !== null) throw refusal;
   };
+}
+
+/** Whether this request could write (see writeRefusal): reads use it to hide share links from others. */
+export function writerCheck(writeToken: string | undefined): (request: FastifyRequest) => boolean {
+  return (request) => writeRefusal(writeToken, request) === null;
 }

@@ -45,7 +45,7 @@
  * @property {number} [revision]
  * @property {number} [latestRevision]
  * @property {RevisionEntry[]} [revisions]
- * @property {string} [shareUrl]
+ * @property {string | null} [shareUrl] null when the request could not write (no or wrong token)
  * @property {Survey} [survey]
  * @property {Interpretation} [interpretation]
  * @property {{ shotId: string, revision: number }[]} [gathers] the shot gathers uploaded into the line
@@ -123,6 +123,20 @@ export function surveyPost(bodyText, format, token = '') {
 
 /** @type {RequestSpec} */
 const GET = Object.freeze({ method: 'GET', headers: { Accept: 'application/json' } });
+
+/**
+ * A GET that carries the write token when one is set: the service shows a stored line's
+ * share link only to a request that could write (on loopback without a token, to every
+ * request), so the writer's page sees it and a reader's page does not.
+ * @param {string} [token]
+ * @returns {RequestSpec}
+ */
+export function writerGet(token = '') {
+  /** @type {Record<string, string>} */
+  const headers = { Accept: 'application/json' };
+  if (token) headers.Authorization = 'Bearer ' + token;
+  return { method: 'GET', headers };
+}
 
 /**
  * One call; the answer's JSON is taken as the contract type T the caller names (checked
@@ -438,13 +452,14 @@ export function revisionQuery(revision) {
 }
 
 /**
- * GET /api/v1/surveys/:id[?revision=N] — {survey, interpretation, revision, latestRevision, revisions, ...}.
+ * GET /api/v1/surveys/:id[?revision=N] — {survey, interpretation, revision, latestRevision, revisions, shareUrl, ...};
+ * sends the write token when one is set (shareUrl is null for a reader without it).
  * @param {string} id
  * @param {number} [revision]
  * @returns {Promise<Result<StoredLine>>}
  */
 export function fetchLine(id, revision) {
-  return request('api/v1/surveys/' + encodeURIComponent(id) + revisionQuery(revision), GET);
+  return request('api/v1/surveys/' + encodeURIComponent(id) + revisionQuery(revision), writerGet(readWriteToken()));
 }
 
 /**

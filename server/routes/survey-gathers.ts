@@ -17,9 +17,10 @@
  * `no-opposing-shots` problem alone does not refuse an upload (the line is stored with the
  * interpretation's own warnings, no-coverage and the like); every other problem does.
  */
-import type { FastifyInstance, FastifyRequest } from 'fastify';
+import type { FastifyInstance } from 'fastify';
 import { Type } from '@sinclair/typebox';
 import type { SurveyStore } from '../store.js';
+import type { RequestHook } from '../write-limit.js';
 import { AppError, problemsError } from '../errors.js';
 import { clientGone } from '../compute/client-gone.js';
 import { errorResponses, authorQuerySchema } from '../route-schemas.js';
@@ -37,7 +38,7 @@ import { DEFAULT_COLUMNS, MAX_COLUMNS, MAX_DECIMATED_VALUES } from '../../engine
 
 export interface SurveyGatherRouteOptions {
   store: SurveyStore;
-  guard: (request: FastifyRequest) => Promise<void>;
+  guard: RequestHook;
 }
 
 const tags = ['surveys', 'gathers'];

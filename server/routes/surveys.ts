@@ -2,10 +2,14 @@
  * Stored surveys (api-v1.md): store, list, read, correct (new revision), draw, tabulate,
  * and manage the share link. Writes carry the write guard; reads are open.
  * Every write validates the whole body before the store is touched.
+ * A share link is a read key to the line: the list never carries it, a read shows it only to
+ * a request that could write (isWriter; others get `shareUrl: null`), and the writes that
+ * make or keep one (store, revision, reissue) answer with it.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { clientGone } from '../compute/client-gone.js';
 import type { SurveyStore, SurveySummary, StoredRevision } from '../store.js';
+import type { RequestHook } from '../write-limit.js';
 import { AppError } from '../errors.js';
 import { surveyFromRequest, surveyInput } from '../survey-input.js';
 import { Type } from '@sinclair/typebox';
@@ -33,7 +37,9 @@ import { sectionSheetReply } from '../section-sheet.js';
 
 export interface SurveyRouteOptions {
   store: SurveyStore;
-  guard: (request: import('fastify').FastifyRequest) => Promise<void>;
+  guard: RequestHook;
+  /** Whether the request could write: only a writer sees a line's share link on a read. */
+  isWriter: (request: import('fastify').FastifyRequest) => boolean;
 }
 
 interface IdParams {
@@ -77,7 +83,6 @@ function listItem(summary: SurveySummary): Record<string, unknown> {
     createdAt: summary.createdAt,
     updatedAt: summary.updatedAt,
     latestRevision: summary.latestRevision,
-    shareUrl: shareUrlFor(summary.shareToken),
     url: `/api/v1/surveys/${summary.id}`,
   };
 }
@@ -93,7 +98,7 @@ function download(reply: FastifyReply, type: string, fileName: string): void {
 }
 
 export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOptions): Promise<void> {
-  const { store, guard } = options;
+  const { store, guard, isWriter } = options;
 
   const fetchRevision = (id: string, revision?: number): { summary: SurveySummary; stored: StoredRevision } =>
     requireRevision(store, id, revision);
@@ -139,7 +144,7 @@ export async function surveyRoutes(app: FastifyInstance, options: SurveyRouteOpt
         latestRevision: summary.latestRevision,
         revisions: store.listRevisions(summary.id),
         gathers: store.listGathers(summary.id).map((g) => ({ ...g, traces: `/api/v1/surveys/${summary.id}/gathers/${encodeURIComponent(g.shotId)}/traces` })),
-        shareUrl: shareUrlFor(summary.shareToken),
+        shareUrl: isWriter(request) ? shareUrlFor(summary.shareToken) : null,
         links: links(summary.id, stored.revision, summary.latestRevision),
         survey: stored.survey,
         interpretation: stored.interpretation,

@@ -11,7 +11,7 @@ import { openArcline, SAMPLES_DIR, servePageInChromium, type ServedPage } from '
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
 // Invented for this test only.
-const WRITE_TOKEN = 'e2e-token-4f9c2a71';
+const WRITE_TOKEN = 'e2e-token-4f9c2a71-b03d6e58a9c41f27';
 
 describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
   let launched: LaunchedBrowser;
@@ -60,14 +60,25 @@ describe.skipIf(!browserTestsRun)('Arcline page with a write token', () => {
     expect(await page.locator('#stored-list li').count()).toBe(1);
 
     // Same tab after a reload: the token is still there; a fresh context has none.
+    // The line opens again with its share link: the page reads it with the token (only a
+    // writer is shown a share link); a tab without the token opens the line without it.
+    const sharePath = new URL(await page.inputValue('#share-url')).pathname;
     await page.reload();
     await page.waitForSelector('body[data-ready="true"]');
     expect(await page.inputValue('#write-token')).toBe(WRITE_TOKEN);
+    await page.waitForSelector('#share-panel:not([hidden])');
+    expect(new URL(await page.inputValue('#share-url')).pathname).toBe(sharePath);
     const other = await launched.freshContext();
     const otherPage = await other.newPage();
+    const readerRead = otherPage.waitForResponse((r) => /\/api\/v1\/surveys\/[^/?]+$/.test(new URL(r.url()).pathname) && r.request().method() === 'GET');
     await otherPage.goto(baseUrl);
     await otherPage.waitForSelector('body[data-ready="true"]');
     expect(await otherPage.inputValue('#write-token')).toBe('');
+    const read = await readerRead;
+    expect(read.request().headers().authorization).toBeUndefined();
+    expect(((await read.json()) as { shareUrl: unknown }).shareUrl).toBeNull();
+    await expect.poll(() => otherPage.textContent('#line-title'), POLL).toBe(demo.name);
+    expect(await otherPage.isHidden('#share-panel')).toBe(true);
     await other.close();
 
     // Chromium logs the refused POST (401) as a console error; nothing else may appear.

@@ -43,7 +43,7 @@ export async function startServiceProcess(dataDir: string, env: Record<string, s
   const port = await freePort();
   const child = spawn(process.execPath, [resolve(ROOT, 'dist/server/main.js')], {
     cwd: ROOT,
-    env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_THREADS: '1', ...env },
+    env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), DATA_DIR: dataDir, ARCLINE_SEED_DEMO: '0', ARCLINE_THREADS: '1', ARCLINE_WRITE_RATE_LIMIT: '0', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
     ...(user ?? {}),
   });

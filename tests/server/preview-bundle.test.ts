@@ -103,7 +103,7 @@ describe('POST /api/v1/previews', () => {
   });
 
   it('stores nothing and needs no write token', async () => {
-    const guarded = await buildApp({ dataDir: ':memory:', writeToken: 'bundle-test-token' });
+    const guarded = await buildApp({ dataDir: ':memory:', writeToken: 'bundle-test-token-9e41c7a2b5d80f36' });
     try {
       await guarded.ready();
       expect((await postBundle(guarded, 'application/json', flatJsonText)).status).toBe(200);

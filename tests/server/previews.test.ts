@@ -179,7 +179,7 @@ describe('POST /api/v1/previews/*.svg with bad input', () => {
 
 describe('previews and the write token', () => {
   it('need no token where storing does', async () => {
-    const guarded = await buildApp({ dataDir: ':memory:', writeToken: 'preview-test-token' });
+    const guarded = await buildApp({ dataDir: ':memory:', writeToken: 'preview-test-token-5b7d02e9c4a1f863' });
     try {
       await guarded.ready();
       const store = await request(guarded.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(flatJsonText);

@@ -88,6 +88,48 @@ describe('csvCell', () => {
     expect(csvCell(Number.NaN)).toBe('');
     expect(csvCell(-0.0001)).toBe('0');
   });
+
+  // OWASP, "CSV Injection": a cell beginning with =, +, -, @, tab (0x09) or carriage return
+  // (0x0D) is read as a formula by spreadsheets; prefix it with a single quote.
+  it('prefixes every formula lead character of text with a single quote (OWASP CSV injection)', () => {
+    for (const lead of ['=', '+', '-', '@', '\t', '\r']) {
+      const text = `${lead}1+1`;
+      const cell = csvCell(text);
+      const unquoted = cell.startsWith('"') ? cell.slice(1, -1).replace(/""/g, '"') : cell;
+      expect(unquoted, JSON.stringify(text)).toBe(`'${text}`);
+    }
+    // Text that only looks like a negative number is text: neutralised too.
+    expect(csvCell('-1.5')).toBe("'-1.5");
+    // Ordinary text is left alone.
+    expect(csvCell('Line 3')).toBe('Line 3');
+  });
+
+  it('neutralises text columns of a whole table but keeps negative numbers as numbers', () => {
+    const { survey } = validateSurvey(JSON.parse(readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8')));
+    const interpretation = interpret(survey!);
+    // A station below the datum (negative elevation and refractor elevation), and a text field
+    // a later engine might add (a shot id, a note) starting with each lead character.
+    const leads = ['=cmd|/C calc!A0', '+SUM(1)', '-2+3', '@A1', '\tTAB', '\rCR'];
+    const stations = interpretation.stations.map((station, i) => ({
+      ...station,
+      elevation: -1.5 - i,
+      note: leads[i % leads.length],
+    })) as unknown as Station[];
+    const csv = stationsCsv({ ...interpretation, stations });
+    const lines = csv.slice(0, -2).split('\r\n');
+    const header = lines[0].split(',');
+    const noteAt = header.indexOf('note');
+    const elevationAt = header.indexOf('elevation_m');
+    expect(noteAt).toBeGreaterThan(0);
+    // Row by row; a quoted cell may hold a CR, so rows are read by splitting on CRLF only.
+    lines.slice(1).forEach((line, i) => {
+      const cells = line.split(',');
+      expect(Number(cells[elevationAt]), `row ${i}`).toBe(-1.5 - i);
+      const note = cells[noteAt].replace(/^"|"$/g, '');
+      expect(note.startsWith("'"), `row ${i}: ${JSON.stringify(note)}`).toBe(true);
+      expect(note.slice(1)).toBe(leads[i % leads.length]);
+    });
+  });
 });
 
 describe('downloadName', () => {

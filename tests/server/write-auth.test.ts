@@ -12,7 +12,8 @@ import { startService } from '../../server/start.js';
 import { isLoopbackHost, tokensMatch } from '../../server/write-auth.js';
 
 const demoJsonText = readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8');
-const TOKEN = 'office-token-4f9c2a7e1b';
+// Invented for these tests; as long as the service asks (32 characters at least).
+const TOKEN = 'office-token-4f9c2a7e1b-d83a6c05e17f';
 
 describe('write token on a shared host', () => {
   let app: FastifyInstance;
@@ -126,6 +127,7 @@ describe('refusing to start', () => {
     await expect(buildApp({ dataDir: '' })).rejects.toThrow(/dataDir/);
     await expect(buildApp({ dataDir: ':memory:', bodyLimitBytes: -5 })).rejects.toThrow(/bodyLimitBytes/);
     await expect(buildApp({ dataDir: ':memory:', writeToken: 'two words' })).rejects.toThrow(/write token/);
+    await expect(buildApp({ dataDir: ':memory:', writeToken: 'x' })).rejects.toThrow(/at least 32/);
   });
 
   it('startService refuses HOST=0.0.0.0 without ARCLINE_WRITE_TOKEN and listens on nothing', async () => {
@@ -142,12 +144,15 @@ describe('refusing to start', () => {
 
 describe('readConfig', () => {
   it('gives the documented defaults', () => {
-    expect(readConfig({})).toEqual({ host: '127.0.0.1', port: 8080, dataDir: './data', writeToken: undefined, seedDemo: true });
+    expect(readConfig({})).toEqual({ host: '127.0.0.1', allowedHosts: [], writeRateLimit: 60, port: 8080, dataDir: './data', writeToken: undefined, seedDemo: true });
   });
 
   it('reads every variable', () => {
-    expect(readConfig({ HOST: '0.0.0.0', PORT: '9000', DATA_DIR: '/srv/arcline', ARCLINE_WRITE_TOKEN: TOKEN, ARCLINE_SEED_DEMO: '0' })).toEqual({
+    const env = { HOST: '0.0.0.0', PORT: '9000', DATA_DIR: '/srv/arcline', ARCLINE_WRITE_TOKEN: TOKEN, ARCLINE_SEED_DEMO: '0', ARCLINE_ALLOWED_HOSTS: 'Arcline.Office.example, 10.0.0.12,[fd00::5]', ARCLINE_WRITE_RATE_LIMIT: '0' };
+    expect(readConfig(env)).toEqual({
       host: '0.0.0.0',
+      allowedHosts: ['arcline.office.example', '10.0.0.12', 'fd00::5'],
+      writeRateLimit: 0,
       port: 9000,
       dataDir: '/srv/arcline',
       writeToken: TOKEN,

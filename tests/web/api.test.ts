@@ -1,7 +1,7 @@
 // The page's request building and answer reading (web/api.js): everything but fetch itself.
 import { describe, expect, it } from 'vitest';
 import {
-  contentTypeOf, failureFromBody, lineFileUrls, readMethodsAnswer, sectionSheetUrl, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost,
+  contentTypeOf, failureFromBody, lineFileUrls, readMethodsAnswer, sectionSheetUrl, withSheetQuery, readPreviewBundle, revisionQuery, statusWords, surveyPost, writerGet,
 } from '../../web/api.js';
 
 describe('request building', () => {
@@ -15,6 +15,11 @@ describe('request building', () => {
     });
     expect(surveyPost('{}', 'json', 'secret').headers.Authorization).toBe('Bearer secret');
     expect('Authorization' in surveyPost('{}', 'json', '').headers).toBe(false);
+  });
+
+  it('reads a stored line with the write token when one is set (only a writer is shown the share link)', () => {
+    expect(writerGet('secret')).toEqual({ method: 'GET', headers: { Accept: 'application/json', Authorization: 'Bearer secret' } });
+    expect(writerGet('')).toEqual({ method: 'GET', headers: { Accept: 'application/json' } });
   });
 
   it('names a revision only when it is a whole number from 1', () => {
