@@ -18,6 +18,7 @@ const OPEN_WRITES = new Set([
   'POST /api/v1/previews',
   'POST /api/v1/previews/section.svg',
   'POST /api/v1/previews/traveltimes.svg',
+  'POST /api/v1/previews/methods',
   'POST /api/v1/synthetic',
   'POST /api/v1/gathers/picks',
 ]);
