@@ -21,6 +21,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { seededUniform } from '../engine/forward/seeded-random.js';
 
 const root = resolve(new URL('../..', import.meta.url).pathname);
 const args = new Map<string, string>();
@@ -31,17 +32,7 @@ const SECONDS = Number(args.get('seconds') ?? 300);
 /** No answer within this long to a complete request is a hang (the compute time limit is 5 s by default). */
 const HANG_MS = 15_000;
 
-function mulberry32(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-const rng = mulberry32(SEED);
+const rng = seededUniform(SEED);
 const pick = <T>(items: readonly T[]): T => items[Math.floor(rng() * items.length)];
 
 interface FuzzRequest {

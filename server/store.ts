@@ -4,11 +4,11 @@
  * and never overwrites one. Each survey has at most one live share token; issuing a new one
  * revokes the old. Every write runs in one transaction.
  */
-import { mkdirSync } from 'node:fs';
+import { accessSync, constants as fsConstants, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import Database from 'better-sqlite3';
-import { StoreUnavailableError, storeFailureOf } from './store-failures.js';
+import { StoreUnavailableError, storeFailureOf, type StoreFailure } from './store-failures.js';
 import type { Survey } from '../engine/survey/survey.js';
 import type { Interpretation } from '../engine/output/interpretation.js';
 
@@ -146,6 +146,22 @@ function toSummary(row: SurveyRow): SurveySummary {
   };
 }
 
+/**
+ * What an opening failure means. SQLite says only "unable to open" (SQLITE_CANTOPEN) when a
+ * WAL store's folder is read-only (it cannot make the -wal and -shm files), so the folder
+ * itself is asked: one that cannot be written makes the failure a read-only one.
+ */
+function openFailure(dataDir: string, error: unknown): StoreFailure {
+  const failure = storeFailureOf(error) ?? 'unavailable';
+  if (failure !== 'unavailable') return failure;
+  try {
+    accessSync(dataDir, fsConstants.W_OK);
+    return failure;
+  } catch {
+    return 'read-only';
+  }
+}
+
 export class SurveyStore {
   private readonly db: Database.Database;
   private readonly now: () => Date;
@@ -162,7 +178,7 @@ export class SurveyStore {
       mkdirSync(dataDir, { recursive: true });
       this.db = new Database(join(dataDir, STORE_FILE_NAME));
     } catch (error) {
-      throw new StoreUnavailableError(dataDir, storeFailureOf(error) ?? 'unavailable', error);
+      throw new StoreUnavailableError(dataDir, openFailure(dataDir, error), error);
     }
     try {
       this.db.pragma('journal_mode = WAL');
@@ -172,7 +188,7 @@ export class SurveyStore {
       this.db.exec('BEGIN IMMEDIATE; COMMIT;');
     } catch (error) {
       this.db.close();
-      throw new StoreUnavailableError(dataDir, storeFailureOf(error) ?? 'unavailable', error);
+      throw new StoreUnavailableError(dataDir, openFailure(dataDir, error), error);
     }
   }
 
