@@ -92,6 +92,7 @@ describe('every write route refuses a missing or wrong token', () => {
       }
     }
     expect(refused).toBe(guarded.length * WRONG_AUTHORIZATIONS.length);
+    console.log(`route walk: ${refused} wrong-token writes to ${guarded.length} guarded routes, all refused`);
     expect(server.app.store.countRows()).toEqual(before);
   });
 
