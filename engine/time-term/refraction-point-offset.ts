@@ -53,13 +53,15 @@ export function atRefractionPoints(geophoneXsM: readonly number[], shotXsM: read
   const lo = sorted[0];
   const hi = sorted[sorted.length - 1];
   /**
-   * The geophone nearest x (beyond the spread's ends, a refraction point's own term); of several at that position the one
-   * nearest in the list to geophone j (a rolling line lists each spread's geophones
-   * together). O(log N + repeats).
+   * The geophone nearest x (beyond the spread's ends, a refraction point's own term); of several
+   * at that position (a rolling line) one the same shot was recorded on, else the one nearest
+   * in the list to geophone j (a rolling line lists each spread's geophones together).
+   * O(log N + repeats).
    */
   const xsG = [...geophoneXsM];
   const beyond = new Map<number, number>();
-  const nearest = (x: number, j: number): number => {
+  const recorded = new Set(observations.map((o) => o.shot * geophoneXsM.length + o.geophone));
+  const nearest = (x: number, j: number, shot: number): number => {
     if (x < lo - SAME_POSITION_M || x > hi + SAME_POSITION_M) {
       const key = Math.round(x / SAME_POSITION_M);
       if (!beyond.has(key)) beyond.set(key, xsG.push(x) - 1);
@@ -75,9 +77,10 @@ export function atRefractionPoints(geophoneXsM: readonly number[], shotXsM: read
     }
     const k = target - sorted[a] <= sorted[b] - target ? a : b;
     let best = order[k];
+    const rank = (g: number): number => (recorded.has(shot * geophoneXsM.length + g) ? 0 : 1) * geophoneXsM.length + Math.abs(g - j);
     for (const step of [-1, 1]) {
       for (let m = k; m >= 0 && m < sorted.length && sorted[m] === sorted[k]; m += step) {
-        if (Math.abs(order[m] - j) < Math.abs(best - j)) best = order[m];
+        if (rank(order[m]) < rank(best)) best = order[m];
       }
     }
     return best;
@@ -97,7 +100,7 @@ export function atRefractionPoints(geophoneXsM: readonly number[], shotXsM: read
     const legs = legsOfShot[o.shot];
     return {
       shot: legs.length === 1 ? legs[0] : rightward ? legs[0] : legs[1],
-      geophone: nearest(rightward ? xg - shiftM : xg + shiftM, o.geophone),
+      geophone: nearest(rightward ? xg - shiftM : xg + shiftM, o.geophone, o.shot),
       timeMs: o.timeMs,
       spanM: [Math.min(xg, xsReal), Math.max(xg, xsReal)] as const,
     };
