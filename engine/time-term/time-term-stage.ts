@@ -11,7 +11,9 @@
  * changes (found from the minus times, which do not depend on the delay times); where a
  * segment's picks do not fix it, one slowness for the line (our choice: a constant slowness
  * is the time-term method's usual form, Willmore & Bancroft 1960).
- * Cost O(shots · geophones) to gather the rows, then the solve's (time-terms.ts).
+ * The terms are taken at the refraction points (refraction-point-offset.ts): a first solve
+ * at the stations gives the offset, a second the terms.
+ * Cost O(shots · geophones) to gather the rows, then two solves' (time-terms.ts).
  */
 import type { Survey } from '../survey/survey.js';
 import type { ShotAnalysis } from '../output/interpretation.js';
