@@ -122,7 +122,7 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number, fallbackNote?: W
   const methodNotes = [...(fallbackNote ? [fallbackNote] : [])];
   let timeTerm: TimeTermRecord | null = null;
   if (options.method === 'time-term') {
-    const solved = timeTermStage({ survey, shots, velocityChangeXsM: section.changes.map((c) => c.x), pickSigmaMs: sigmaMs });
+    const solved = timeTermStage({ survey, shots, velocityChangeXsM: section.changes.map((c) => c.x), pickSigmaMs: sigmaMs, v1MPerS: v1, v2MPerS: lineV2.velocity });
     if (solved.ok) {
       timeTerm = solved;
       plus = withTimeTerms(plusMinusTimes, solved);

@@ -31,6 +31,12 @@ export interface TimeTermObservation {
   shot: number;
   geophone: number;
   timeMs: number;
+  /**
+   * Where the ray runs from and to along the line, m, when its time terms are taken at other
+   * positions than its shot's and geophone's (the refraction points, refraction-point-offset.ts);
+   * default the geophone's and the shot's positions. Gives the slowness lengths.
+   */
+  spanM?: readonly [number, number];
 }
 
 export interface TimeTermInput {
@@ -90,7 +96,8 @@ export function invertTimeTerms(input: TimeTermInput): TimeTermSolution | TimeTe
   const { geophoneXsM: gx, shotXsM: sx } = input;
   const breaks = [...(input.slownessBreaksM ?? [])];
   const segmentCount = breaks.length + 1;
-  const observations = input.observations.filter((o) => Math.abs(gx[o.geophone] - sx[o.shot]) > SAME_POSITION_M && Number.isFinite(o.timeMs));
+  const span = (o: TimeTermObservation): readonly [number, number] => o.spanM ?? [Math.min(gx[o.geophone], sx[o.shot]), Math.max(gx[o.geophone], sx[o.shot])];
+  const observations = input.observations.filter((o) => span(o)[1] - span(o)[0] > SAME_POSITION_M && Number.isFinite(o.timeMs));
   if (observations.length === 0) return { ok: false, reason: 'no head-wave picks to invert' };
 
   // Columns: geophone terms (those a pick or a tie reaches), own shot terms, slownesses.
@@ -134,8 +141,7 @@ export function invertTimeTerms(input: TimeTermInput): TimeTermSolution | TimeTe
     const gc = geophoneCol[o.geophone];
     if (gc === shotCol[o.shot]) entries[0].value += 1;
     else entries.push({ col: gc, value: 1 });
-    const lo = Math.min(gx[o.geophone], sx[o.shot]);
-    const hi = Math.max(gx[o.geophone], sx[o.shot]);
+    const [lo, hi] = span(o);
     for (let k = 0; k < segmentCount; k++) {
       const from = k === 0 ? -Infinity : breaks[k - 1];
       const to = k === segmentCount - 1 ? Infinity : breaks[k];
