@@ -123,8 +123,16 @@ export const revisionWriteQuerySchema = Type.Object({
   author: authorQuerySchema,
 });
 
-const LinksSchema = Type.Object(
-  { self: Type.String(), section: Type.String(), traveltimes: Type.String(), stations: Type.String(), interpretation: Type.String() },
+/** The paths of one revision's views (surveys.ts `links`), in every answer that stores or reads a revision. */
+export const LinksSchema = Type.Object(
+  {
+    self: Type.String(),
+    section: Type.String(),
+    traveltimes: Type.String(),
+    methods: Type.String({ description: 'The first refractor by every method on one section (methods.svg).' }),
+    stations: Type.String(),
+    interpretation: Type.String(),
+  },
   { ...closed, title: 'Links' },
 );
 
@@ -260,6 +268,9 @@ export const sectionPngQuerySchema = Type.Object({
 export const travelTimesPdfQuerySchema = Type.Object({ revision: exportRevision, paper });
 // The time–distance plot is one sheet; `sheet` is taken (1, or a clear 400 beyond) so a link built for the section works.
 export const travelTimesPngQuerySchema = Type.Object({ revision: exportRevision, dpi, sheet: pngSheet });
+// The method comparison is one sheet too, with the same choices as the time–distance plot.
+export const methodsPdfQuerySchema = travelTimesPdfQuerySchema;
+export const methodsPngQuerySchema = travelTimesPngQuerySchema;
 
 /** A binary file answer (PDF, PNG), for the OpenAPI document. */
 export function binaryFileResponse(mediaType: string, description: string): { description: string; content: Record<string, { schema: TSchema }> } {

@@ -1,7 +1,8 @@
 /**
  * The read-only page behind a share link: line name, the cautions (first, where nobody
- * misses them), the depth section and the time–distance plot as inline SVG, warnings,
- * the station table and a link to its CSV. Server-rendered, no script at all; every piece
+ * misses them), the depth section and the time–distance plot as inline SVG, the methods
+ * compared behind a disclosure (an image loaded when opened), warnings, the station table
+ * and a link to its CSV. Server-rendered, no script at all; every piece
  * of user text goes through escapeHtml. The page's Content-Security-Policy (SHARE_PAGE_CSP)
  * forbids scripts, so even a hostile string that slipped through could not run.
  */
@@ -13,6 +14,7 @@ import { cellText, columnHeading, stationColumns, type StationColumn } from '../
 import { metres, refractorDepthRanges, velocity } from '../web/describe.js';
 import { hiddenLayerNote, otherWarnings } from '../web/hidden-layer-note.js';
 import { surveyDateText } from '../engine/render/describe.js';
+import { PAGE } from '../engine/render/page.js';
 
 export const SHARE_PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src 'self' data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
@@ -112,7 +114,10 @@ export interface SharePageInput {
   travelTimesSvg: string;
   cautions: readonly string[];
   stationsCsvUrl: string;
-  /** Where the drawings' PDF and PNG files of this shared line live ("…/share/TOKEN/"); absent: no links. */
+  /**
+   * Where this shared line's files live ("…/share/TOKEN/"): the drawings' PDF and PNG files
+   * and methods.svg. Absent: no download links and no "Methods compared" figure.
+   */
   drawingFilesUrl?: string;
 }
 
@@ -135,6 +140,10 @@ h2{font-size:1.1rem}
 figure{margin:1rem 0}
 figure svg{max-width:100%;height:auto;border:1px solid #ddd}
 figcaption{font-weight:600;margin-bottom:.3rem}
+.methods{border:1px solid #ccc;padding:.4rem .8rem;margin:1rem 0}
+.methods summary{font-weight:600;cursor:pointer}
+.methods .why{color:#444;font-size:.85rem;margin:.3rem 0}
+.methods img{display:block;width:100%;height:auto;border:1px solid #ddd}
 table{border-collapse:collapse;font-variant-numeric:tabular-nums;font-size:.9rem}
 th,td{border:1px solid #ccc;padding:.2rem .5rem;text-align:right}
 td{white-space:nowrap}
@@ -151,6 +160,8 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
   figure{break-inside:avoid;page-break-inside:avoid}
   .sheets-note a{color:inherit;text-decoration:none}
   figure svg{width:100%;max-height:170mm;border:none}
+  .methods{border:none;padding:0}
+  .methods img{max-height:170mm;width:auto;max-width:100%;border:none}
   .table-wrap{overflow:visible}
   table{width:100%;font-size:8pt}
   th,td{padding:1px 4px}
@@ -169,6 +180,24 @@ function allowanceSection(interpretation: Interpretation): string {
 <p>${escapeHtml(note.detail)}</p>
 <p class="why">${escapeHtml(note.reasoning)}</p>
 </section>`;
+}
+
+/**
+ * The refractor by every method, behind a disclosure: the page has no script, so the figure
+ * is an <img> of …/methods.svg (img-src 'self' in SHARE_PAGE_CSP) that the browser fetches
+ * lazily, only once the reader opens it, since drawing it interprets the line twice more.
+ * The image's size is the drawing's page, so the layout does not jump when it arrives.
+ */
+function methodsDisclosure(filesUrl: string): string {
+  const url = escapeHtml(filesUrl);
+  return `<details class="methods" id="methods-compared">
+<summary>Methods compared — the first refractor by plus-minus, GRM and time terms (drawn when opened)</summary>
+<p class="why">A cross-check: the three methods read the same picks with the same velocities and differ only in their delay times. Where two differ by more than their combined 1σ, the section is less certain than any one of them says.</p>
+<figure>
+<img src="${url}methods.svg" loading="lazy" width="${PAGE.widthMm * 4}" height="${PAGE.heightMm * 4}" alt="The first refractor of this line by plus-minus (solid), GRM (dashed) and time terms (dotted) on one section, the difference of each from plus-minus below it, the stretches where they differ by more than their combined 1σ, and the cautions.">
+<figcaption>Methods compared · <a href="${url}methods.svg" download>SVG</a> · <a href="${url}methods.pdf" download>PDF</a> · <a href="${url}methods.png" download>PNG</a></figcaption>
+</figure>
+</details>`;
 }
 
 /** Layer velocities and the depth range to every refractor, as on the page. */
@@ -211,6 +240,7 @@ ${sectionFigures(input.sectionSheets)}
 <figcaption>Time–distance plot</figcaption>
 ${inlineSvg(input.travelTimesSvg)}
 </figure>
+${input.drawingFilesUrl === undefined ? '' : methodsDisclosure(input.drawingFilesUrl)}
 ${allowanceSection(interpretation)}
 <section aria-label="Warnings">
 <h2>Warnings</h2>

@@ -243,7 +243,8 @@ function differenceTable(parent: Container, comparison: MethodComparison, topMm:
   const group = parent.group().attr('data-role', 'differences-table');
   const left = PAGE.marginMm;
   let y = topMm + TEXT_MM.tick;
-  addText(group, 'Where the methods differ by more than their combined 1σ (√(σ₁² + σ₂²) of the two depths)', left, y, { sizeMm: TEXT_MM.label, weight: 'bold', role: 'table-title' });
+  // σa, σb rather than subscript digits: the export fonts (Liberation Sans) have no ₁ ₂, and the PDF and PNG would drop them.
+  addText(group, 'Where the methods differ by more than their combined 1σ (√(σa² + σb²) of the two depths)', left, y, { sizeMm: TEXT_MM.label, weight: 'bold', role: 'table-title' });
   y += ROW_MM;
   if (comparison.differences.length === 0) {
     addText(group, 'Nowhere: at every station where two methods give a depth, they agree within their combined 1σ.', left, y, { sizeMm: TEXT_MM.tick, role: 'table-none' });

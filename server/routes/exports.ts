@@ -1,6 +1,6 @@
 /**
- * Exports of a stored line's drawings (api-v1.md): the section and the time–distance plot
- * as vector PDF (one page per sheet, for reports) and PNG (one sheet, for e-mail). The
+ * Exports of a stored line's drawings (api-v1.md): the section, the time–distance plot and
+ * the method comparison as vector PDF (one page per sheet, for reports) and PNG (one sheet, for e-mail). The
  * files are made in the compute pool (task `exportFile`), with the same queue and time
  * limit as every drawing; the route only reads the stored revision and answers.
  */
@@ -18,6 +18,8 @@ import {
   sectionPngQuerySchema,
   travelTimesPdfQuerySchema,
   travelTimesPngQuerySchema,
+  methodsPdfQuerySchema,
+  methodsPngQuerySchema,
 } from '../route-schemas.js';
 import { describeExportFonts, findExportFonts, type FontFiles } from '../export/export-fonts.js';
 import { EXPORT_DEFAULTS, EXPORT_LIMITS, type ExportFormat, type ExportOptions } from '../export/export-options.js';
@@ -50,6 +52,8 @@ const ROUTES: { figure: ExportFigure; format: ExportFormat; querystring: object;
   { figure: 'section', format: 'png', querystring: sectionPngQuerySchema, summary: 'One sheet of the depth section as PNG.' },
   { figure: 'traveltimes', format: 'pdf', querystring: travelTimesPdfQuerySchema, summary: 'The time–distance plot as vector PDF.' },
   { figure: 'traveltimes', format: 'png', querystring: travelTimesPngQuerySchema, summary: 'The time–distance plot as PNG.' },
+  { figure: 'methods', format: 'pdf', querystring: methodsPdfQuerySchema, summary: 'The first refractor by every method on one section (methods.svg) as vector PDF.' },
+  { figure: 'methods', format: 'png', querystring: methodsPngQuerySchema, summary: 'The first refractor by every method on one section (methods.svg) as PNG.' },
 ];
 
 function exportOptions(query: ExportQuery): ExportOptions {

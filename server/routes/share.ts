@@ -1,7 +1,7 @@
 /**
  * Share links: GET only. /share/:token is a read-only HTML page of the latest revision;
- * /share/:token/{section.svg,traveltimes.svg,stations.csv} are its pieces (the PDF and PNG
- * files of its drawings are served by routes/exports.ts). No write
+ * /share/:token/{section.svg,traveltimes.svg,methods.svg,stations.csv} are its pieces (the
+ * PDF and PNG files of its drawings are served by routes/exports.ts). No write
  * route exists under /share, so POST/PUT/DELETE there meet the 404 handler.
  * Responses are not cached, so a revoked link stops working at once.
  */
@@ -76,6 +76,19 @@ export async function shareRoutes(app: FastifyInstance, options: { store: Survey
     reply.type('image/svg+xml; charset=utf-8');
     return app.compute.run('drawing', { figure: 'traveltimes', survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
   });
+
+  // The page's "Methods compared" figure loads this only when opened: it interprets the line twice more.
+  app.get<{ Params: TokenParams }>(
+    '/share/:token/methods.svg',
+    shared('The shared line\'s first refractor by plus-minus, GRM and time terms on one section, with where they differ by more than their combined 1σ.', 'image/svg+xml'),
+    async (request, reply) => {
+      const { stored } = requireShared(store, request.params.token);
+      privateResponse(reply);
+      const { methodsSvg } = await app.compute.run('methods', { survey: stored.survey, interpretation: stored.interpretation }, clientGone(reply));
+      reply.type('image/svg+xml; charset=utf-8');
+      return methodsSvg;
+    },
+  );
 
   app.get<{ Params: TokenParams }>('/share/:token/stations.csv', shared('The shared stations table.', 'text/csv'), async (request, reply) => {
     const { stored } = requireShared(store, request.params.token);

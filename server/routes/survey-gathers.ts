@@ -23,7 +23,7 @@ import type { SurveyStore } from '../store.js';
 import type { RequestHook } from '../write-limit.js';
 import { AppError, problemsError } from '../errors.js';
 import { clientGone } from '../compute/client-gone.js';
-import { errorResponses, authorQuerySchema } from '../route-schemas.js';
+import { errorResponses, authorQuerySchema, LinksSchema } from '../route-schemas.js';
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
 import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties, seg2Error } from './gathers.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
@@ -94,7 +94,7 @@ const GatherStoredSchema = Type.Object(
     shareUrl: Type.Union([Type.String(), Type.Null()]),
     url: Type.String(),
     traces: Type.String({ description: 'Path of the decimated traces of this gather.' }),
-    links: Type.Object({ self: Type.String(), section: Type.String(), traveltimes: Type.String(), stations: Type.String(), interpretation: Type.String() }),
+    links: LinksSchema,
     picks: GatherPicksSchema,
     interpretation: InterpretationSchema,
   },

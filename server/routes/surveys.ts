@@ -71,6 +71,7 @@ export function links(id: string, revision: number, latest: number): Record<stri
     self: `${base}${query}`,
     section: `${base}/section.svg${query}`,
     traveltimes: `${base}/traveltimes.svg${query}`,
+    methods: `${base}/methods.svg${query}`,
     stations: `${base}/stations.csv${query}`,
     interpretation: `${base}/interpretation.json${query}`,
   };

@@ -1,5 +1,5 @@
 // Exports of a stored line (api-v1.md): section.pdf, section.png, traveltimes.pdf,
-// traveltimes.png. The files are read back with general-purpose readers
+// traveltimes.png; and ours, methods.pdf and methods.png. The files are read back with general-purpose readers
 // (tests/helpers/read-export.ts: pdf.js for PDF, the PNG chunk layout for PNG).
 // Paper sizes: ISO 216 (A4 297 × 210 mm, A3 420 × 297 mm), in PDF points of 1/72 in
 // (ISO 32000-1 §8.3.2.3, the default user-space unit).
@@ -15,6 +15,7 @@ import { sectionSheets } from '../../server/export/section-pages.js';
 import { sheetsToPdf } from '../../server/export/pdf-document.js';
 import { sheetToPng } from '../../server/export/png-image.js';
 import { renderTravelTimes } from '../../engine/render/index.js';
+import { CAUTIONS } from '../../engine/qc/cautions.js';
 import { byRole, parseSvg } from '../helpers/render-fixture.js';
 import { PNG_SIGNATURE, readPdf, readPng, type PdfPage } from '../helpers/read-export.js';
 
@@ -68,6 +69,8 @@ describe('each export route answers with its file type', () => {
     ['section.png', 'image/png', /-r1-section\.png"$/],
     ['traveltimes.pdf', 'application/pdf', /-r1-traveltimes\.pdf"$/],
     ['traveltimes.png', 'image/png', /-r1-traveltimes\.png"$/],
+    ['methods.pdf', 'application/pdf', /-r1-methods\.pdf"$/],
+    ['methods.png', 'image/png', /-r1-methods\.png"$/],
   ];
   for (const [file, type, name] of cases) {
     it(`${file}: ${type}, an attachment named after the line and revision`, async () => {
@@ -181,9 +184,34 @@ describe('traveltimes.pdf', () => {
   });
 });
 
+describe('methods.pdf', () => {
+  it('is one page of the chosen paper holding the comparison\'s title, its three methods and every caution', async () => {
+    for (const [query, size] of [['', A4_PT], ['?paper=A3', A3_PT]] as const) {
+      const res = await getFile(`/api/v1/surveys/${id}/methods.pdf${query}`);
+      expect(res.status).toBe(200);
+      expect(res.headers['arcline-sheet-count']).toBe('1');
+      const pdf = await readPdf(res.body);
+      expect(pdf.title).toBe(`Methods compared — ${demoName}`);
+      expect(pdf.pages).toHaveLength(1);
+      expect(pdf.pages[0].widthPt).toBeCloseTo(size.width, 2);
+      expect(pdf.pages[0].heightPt).toBeCloseTo(size.height, 2);
+      // The same texts as methods.svg, each once; the cautions' wrapped lines read back as their full text.
+      const svg = (await request(app.server).get(`/api/v1/surveys/${id}/methods.svg`).buffer(true).parse((r, done) => {
+        let text = '';
+        r.on('data', (c: Buffer) => (text += c.toString('utf8')));
+        r.on('end', () => done(null, text));
+      })).body as string;
+      const texts = pageTexts(pdf.pages[0]);
+      expect([...texts].sort()).toEqual(svgTexts(svg).sort());
+      const words = texts.join(' ').replace(/\s+/g, ' ');
+      for (const caution of CAUTIONS) expect(words).toContain(caution);
+    }
+  });
+});
+
 describe('PNG exports', () => {
   it('are the drawing at the requested dpi: width = 277 mm × dpi / 25.4 px (A4 less its margins), and say so in pHYs', async () => {
-    for (const [file, dpi] of [['section.png', 96], ['section.png', undefined], ['traveltimes.png', 200]] as const) {
+    for (const [file, dpi] of [['section.png', 96], ['section.png', undefined], ['traveltimes.png', 200], ['methods.png', 100]] as const) {
       const res = await getFile(`/api/v1/surveys/${id}/${file}${dpi === undefined ? '' : `?dpi=${dpi}`}`);
       expect(res.status).toBe(200);
       const png = readPng(res.body);
@@ -391,6 +419,7 @@ describe('exports of a shared line (/share/:token/…)', () => {
     const page = await request(app.server).get(path);
     expect(page.text).toContain(`${path}/section.pdf`);
     expect(page.text).toContain(`${path}/traveltimes.png`);
+    expect(page.text).toContain(`${path}/methods.pdf`);
     const pdf = await getFile(`${path}/section.pdf?paper=A3`);
     expect(pdf.status).toBe(200);
     expect(pdf.headers['cache-control']).toBe('no-store');
@@ -400,7 +429,12 @@ describe('exports of a shared line (/share/:token/…)', () => {
     const png = await getFile(`${path}/traveltimes.png?dpi=72`);
     expect(png.status).toBe(200);
     expect(readPng(png.body).width).toBeGreaterThan(0);
+    const methodsPng = await getFile(`${path}/methods.png?dpi=72`);
+    expect(methodsPng.status).toBe(200);
+    expect(methodsPng.headers['cache-control']).toBe('no-store');
+    // 277 mm at 72 dpi (A4 less its margins, as every single-sheet drawing).
+    expect(readPng(methodsPng.body).width).toBe(Math.round((277 * 72) / MM_PER_INCH));
     expect((await request(app.server).delete(`/api/v1/surveys/${posted.body.id}/share`)).status).toBeLessThan(300);
-    expect((await request(app.server).get(`${path}/section.pdf`)).status).toBe(404);
+    for (const file of ['section.pdf', 'methods.pdf', 'methods.png']) expect((await request(app.server).get(`${path}/${file}`)).status, file).toBe(404);
   });
 });

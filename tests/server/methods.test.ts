@@ -45,6 +45,21 @@ describe('method comparison routes', () => {
     expect(json.body.methodsSvg).toMatch(/<svg[\s>]/);
   });
 
+  it('lists methods.svg among a stored revision\'s links, and the link answers that revision\'s comparison', async () => {
+    const stored = await request(server.app.server).post('/api/v1/surveys').set('Content-Type', 'application/json').send(JSON.stringify(demo));
+    expect(stored.body.links.methods).toBe(`/api/v1/surveys/${stored.body.id}/methods.svg`);
+    const revised = await request(server.app.server).post(`/api/v1/surveys/${stored.body.id}/revisions`).set('Content-Type', 'application/json').send(JSON.stringify(demo));
+    expect(revised.status).toBe(201);
+    // An older revision's links name it; the latest's do not need to.
+    const first = await request(server.app.server).get(`/api/v1/surveys/${stored.body.id}?revision=1`);
+    expect(first.body.links.methods).toBe(`/api/v1/surveys/${stored.body.id}/methods.svg?revision=1`);
+    const svg = await request(server.app.server).get(first.body.links.methods).buffer(true).parse(asText);
+    expect(svg.status).toBe(200);
+    expect(svg.body as string).toContain('data-role="method-refractor"');
+    const latest = await request(server.app.server).get(`/api/v1/surveys/${stored.body.id}`);
+    expect(latest.body.links.methods).toBe(`/api/v1/surveys/${stored.body.id}/methods.svg`);
+  });
+
   it('compares a line that is not stored (POST /api/v1/previews/methods), and refuses a bad one with the contract 400', async () => {
     const res = await request(server.app.server).post('/api/v1/previews/methods').set('Content-Type', 'application/json').send(JSON.stringify(demo));
     expect(res.status).toBe(200);

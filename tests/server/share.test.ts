@@ -12,6 +12,13 @@ const demoJsonText = readFileSync(new URL('../../samples/demo-line.json', import
 
 let app: FastifyInstance;
 
+/** supertest keeps an SVG body as text only when told to. */
+const asText = (r: request.Response, cb: (err: Error | null, body: unknown) => void) => {
+  let text = '';
+  r.on('data', (c: Buffer) => (text += c.toString('utf8')));
+  r.on('end', () => cb(null, text));
+};
+
 beforeAll(async () => {
   app = await buildApp({ dataDir: ':memory:' });
   await app.ready();
@@ -86,10 +93,44 @@ describe('GET /share/:token', () => {
     }
   });
 
+  it('serves the methods compared under the token: every method, the cautions word for word, not cached', async () => {
+    const { shareUrl } = await store('Methods line');
+    const res = await request(app.server).get(`${shareUrl}/methods.svg`).buffer(true).parse(asText);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/^image\/svg\+xml/);
+    expect(res.headers['cache-control']).toBe('no-store');
+    expect(res.headers['x-robots-tag']).toBe('noindex, nofollow');
+    const svg = res.body as string;
+    for (const m of ['plus-minus', 'grm', 'time-term']) expect(svg).toContain(`data-role="method-refractor" data-method="${m}"`);
+    // DESIGN.md: every drawing handed to an engineer carries the cautions; their wrapped lines read back as the full text.
+    const words = svg.replace(/<[^>]+>/g, ' ').replace(/\s+/g, ' ');
+    for (const caution of CAUTIONS) expect(words).toContain(caution);
+    expect(svg).not.toMatch(/<script/i);
+    // The same drawing as the stored line's own route (the share is a key to it, not another figure).
+    const { id } = (await request(app.server).get(`/api/v1/surveys`)).body.find((s: { name: string }) => s.name === 'Methods line');
+    const direct = await request(app.server).get(`/api/v1/surveys/${id}/methods.svg`).buffer(true).parse(asText);
+    expect(direct.body).toBe(svg);
+  });
+
+  it('offers the methods compared behind a disclosure: an image of …/methods.svg loaded only when opened, no script', async () => {
+    const { shareUrl } = await store('Disclosure line');
+    const page = await request(app.server).get(shareUrl);
+    const details = /<details class="methods"[^>]*>([\s\S]*?)<\/details>/.exec(page.text)?.[1] ?? '';
+    expect(details).toContain('<summary>Methods compared');
+    const img = /<img [^>]*>/.exec(details)?.[0] ?? '';
+    expect(img).toContain(`src="${shareUrl}/methods.svg"`);
+    expect(img).toContain('loading="lazy"');
+    expect(img).toMatch(/alt="[^"]{40,}"/);
+    for (const file of ['methods.pdf', 'methods.png']) expect(details).toContain(`${shareUrl}/${file}`);
+    // The policy lets the image in: same origin (img-src 'self').
+    expect(page.headers['content-security-policy']).toMatch(/img-src 'self'/);
+    expect(page.text).not.toMatch(/<script/i);
+  });
+
   it('allows no write under /share: POST, PUT, PATCH and DELETE answer 404', async () => {
     const { shareUrl } = await store('Read-only line');
     const before = app.store.countRows();
-    for (const path of [shareUrl, `${shareUrl}/stations.csv`, '/share']) {
+    for (const path of [shareUrl, `${shareUrl}/stations.csv`, `${shareUrl}/methods.svg`, '/share']) {
       for (const method of ['post', 'put', 'patch', 'delete'] as const) {
         const res = await request(app.server)[method](path).send({ name: 'changed' });
         expect([404, 405], `${method} ${path}`).toContain(res.status);
@@ -103,7 +144,7 @@ describe('GET /share/:token', () => {
 
   it('answers 404 for unknown and malformed tokens', async () => {
     const unknown = 'A'.repeat(43);
-    for (const path of [`/share/${unknown}`, `/share/${unknown}/stations.csv`, '/share/short', '/share/%3Cscript%3E']) {
+    for (const path of [`/share/${unknown}`, `/share/${unknown}/stations.csv`, `/share/${unknown}/methods.svg`, '/share/short', '/share/%3Cscript%3E', '/share/short/methods.svg']) {
       const res = await request(app.server).get(path);
       expect(res.status, path).toBe(404);
       expect(res.body.error.code).toBe('share_not_found');
@@ -149,6 +190,22 @@ describe('managing the share link', () => {
     const again = await request(app.server).post(`/api/v1/surveys/${id}/share`);
     expect(again.status).toBe(201);
     expect((await request(app.server).get(again.body.shareUrl)).status).toBe(200);
+    // The old link stays dead after a new one is issued.
+    expect((await request(app.server).get(`${shareUrl}/methods.svg`)).status).toBe(404);
+  });
+
+  it('a revoked link stops the methods compared at once: 404 share_not_found, though the same link answered just before', async () => {
+    const { id, shareUrl } = await store('Revoked methods line');
+    expect((await request(app.server).get(`${shareUrl}/methods.svg`)).status).toBe(200);
+    expect((await request(app.server).delete(`/api/v1/surveys/${id}/share`)).status).toBe(204);
+    const res = await request(app.server).get(`${shareUrl}/methods.svg`);
+    expect(res.status).toBe(404);
+    expect(res.body.error.code).toBe('share_not_found');
+    expect(res.text).not.toMatch(/<svg/);
+    // Reissued: the new link serves it, the old one still does not.
+    const again = await request(app.server).post(`/api/v1/surveys/${id}/share`);
+    expect((await request(app.server).get(`${again.body.shareUrl}/methods.svg`)).status).toBe(200);
+    expect((await request(app.server).get(`${shareUrl}/methods.svg`)).status).toBe(404);
   });
 
   it('answers 404 when managing the link of an unknown survey', async () => {
