@@ -12,32 +12,10 @@ import { availableParallelism, cpus, loadavg } from 'node:os';
 import autocannon from 'autocannon';
 import { buildApp } from '../server/app.js';
 import { demoLine } from '../engine/samples/demo-lines.js';
-import type { Survey } from '../engine/survey/survey.js';
+import { maximumBenchLine } from './lines.js';
 
 const SECONDS = 5;
 const CONNECTIONS = 10;
-
-/** A flat two-layer line at the survey limits: 1,024 geophones at 2 m, 64 shots spread evenly. */
-function maximumLine(): Survey {
-  const geophones = Array.from({ length: 1024 }, (_, i) => ({ x: 2 * i, elevation: 100 }));
-  const last = geophones[geophones.length - 1].x;
-  const v1 = 600;
-  const v2 = 2400;
-  const depth = 6;
-  const ic = Math.asin(v1 / v2);
-  const shots = Array.from({ length: 64 }, (_, k) => {
-    const x = -1 + ((last + 2) * k) / 63;
-    // Closed-form first arrivals over a flat refractor (Kearey, Brooks & Hill 2002, ch. 5).
-    const times = geophones.map((g) => {
-      const offset = Math.abs(g.x - x);
-      const direct = (offset / v1) * 1000;
-      const head = (offset / v2 + (2 * depth * Math.cos(ic)) / v1) * 1000;
-      return Math.round(Math.min(direct, head) * 100) / 100;
-    });
-    return { id: `S${k}`, x, elevation: 100, times };
-  });
-  return { name: 'benchmark: maximum line', geophones, shots, options: { residuals: false } };
-}
 
 async function main(): Promise<void> {
   const app = await buildApp({ dataDir: ':memory:', bodyLimitBytes: 8 * 1024 * 1024 });
@@ -61,7 +39,7 @@ async function main(): Promise<void> {
   const on = await post('/api/v1/interpretations', bodyOn);
   const idle = await autocannon({ url: base + '/healthz', connections: 1, duration: 3 });
 
-  const heavy = JSON.stringify(maximumLine());
+  const heavy = JSON.stringify(maximumBenchLine());
   const started = performance.now();
   const heavyAnswer = fetch(base + '/api/v1/interpretations', { method: 'POST', headers, body: heavy }).then(async (r) => ({
     status: r.status,

@@ -62,3 +62,25 @@ export function rollingBenchLine(geophones: number, shots: number, active: numbe
     }),
   };
 }
+
+/** A flat two-layer line at the survey limits: 1,024 geophones at 2 m, 64 shots spread evenly. */
+export function maximumBenchLine(): Survey {
+  const geophones = Array.from({ length: 1024 }, (_, i) => ({ x: 2 * i, elevation: 100 }));
+  const last = geophones[geophones.length - 1].x;
+  const v1 = 600;
+  const v2 = 2400;
+  const depth = 6;
+  const ic = Math.asin(v1 / v2);
+  const shots = Array.from({ length: 64 }, (_, k) => {
+    const x = -1 + ((last + 2) * k) / 63;
+    // Closed-form first arrivals over a flat refractor (Kearey, Brooks & Hill 2002, ch. 5).
+    const times = geophones.map((g) => {
+      const offset = Math.abs(g.x - x);
+      const direct = (offset / v1) * 1000;
+      const head = (offset / v2 + (2 * depth * Math.cos(ic)) / v1) * 1000;
+      return Math.round(Math.min(direct, head) * 100) / 100;
+    });
+    return { id: `S${k}`, x, elevation: 100, times };
+  });
+  return { name: 'benchmark: maximum line', geophones, shots, options: { residuals: false } };
+}

@@ -15,25 +15,10 @@ import { availableParallelism, loadavg } from 'node:os';
 import { join, resolve } from 'node:path';
 import { tmpdir } from 'node:os';
 import autocannon, { type Result } from 'autocannon';
+import { maximumBenchLine } from '../bench/lines.js';
 
 const root = resolve(new URL('../..', import.meta.url).pathname);
 const LOAD_SECONDS = 8;
-
-function maximumLine(): unknown {
-  const geophones = Array.from({ length: 1024 }, (_, i) => ({ x: 2 * i, elevation: 100 }));
-  const last = geophones[geophones.length - 1].x;
-  const ic = Math.asin(600 / 2400);
-  const shots = Array.from({ length: 64 }, (_, k) => {
-    const x = -1 + ((last + 2) * k) / 63;
-    // Closed-form first arrivals over a flat refractor (Kearey, Brooks & Hill 2002, ch. 5).
-    const times = geophones.map((g) => {
-      const offset = Math.abs(g.x - x);
-      return Math.round(Math.min((offset / 600) * 1000, (offset / 2400 + (2 * 6 * Math.cos(ic)) / 600) * 1000) * 100) / 100;
-    });
-    return { id: `S${k}`, x, elevation: 100, times };
-  });
-  return { name: 'load: maximum line', geophones, shots, options: { residuals: false } };
-}
 
 function statusLine(r: Result): { text: string; errors: number } {
   const stats = r.statusCodeStats ?? {};
@@ -56,7 +41,7 @@ async function main(): Promise<void> {
   }
   const demo = readFileSync(join(root, 'samples/demo-line.json'), 'utf8');
   const stored = (await (await fetch(`${base}/api/v1/surveys`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: demo })).json()) as { id: string };
-  const big = JSON.stringify(maximumLine());
+  const big = JSON.stringify(maximumBenchLine());
   console.log(`Load on loopback, ${availableParallelism()} cores, load average ${loadavg()[0].toFixed(1)}; ${LOAD_SECONDS} s per step; a 1,024 × 64 line interpreted over and over in the background`);
   console.log('| connections per stream | stream | requests | p50 ms | p99 ms | answers | errors |');
   console.log('|---|---|---|---|---|---|---|');

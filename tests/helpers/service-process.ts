@@ -5,7 +5,10 @@
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:net';
-import { resolve } from 'node:path';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
 
@@ -68,4 +71,28 @@ export async function startServiceProcess(dataDir: string, env: Record<string, s
     await new Promise((r) => setTimeout(r, 50));
   }
   return { child, base, output: () => output, exited };
+}
+
+/**
+ * What a test file of service processes sets up: the build (once), the flat sample line,
+ * and data folders that are removed after the file's tests.
+ */
+export function serviceProcessFixture(): { flatLine: () => Record<string, unknown>; dataDir: (prefix: string) => Promise<string> } {
+  let line: Record<string, unknown> | null = null;
+  const folders: string[] = [];
+  beforeAll(async () => {
+    ensureBuilt();
+    line = JSON.parse(await readFile(resolve(ROOT, 'samples/flat-line.json'), 'utf8')) as Record<string, unknown>;
+  }, 300_000);
+  afterAll(async () => {
+    for (const f of folders) await rm(f, { recursive: true, force: true });
+  });
+  return {
+    flatLine: () => line!,
+    dataDir: async (prefix) => {
+      const dir = await mkdtemp(join(tmpdir(), prefix));
+      folders.push(dir);
+      return dir;
+    },
+  };
 }

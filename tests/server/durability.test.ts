@@ -7,12 +7,10 @@
  * interpretation). Concurrent writers to one line lose no revision. DURABILITY_KILLS
  * raises the number of kills (20 by default).
  */
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ensureBuilt, startServiceProcess, ROOT } from '../helpers/service-process.js';
+import { describe, expect, it } from 'vitest';
+import { serviceProcessFixture, startServiceProcess } from '../helpers/service-process.js';
 import { mulberry32 } from '../helpers/random.js';
 import { STORE_FILE_NAME } from '../../server/store.js';
 
@@ -25,17 +23,7 @@ interface Acknowledged {
   name: string;
 }
 
-let flatLine: Record<string, unknown>;
-const folders: string[] = [];
-
-beforeAll(async () => {
-  ensureBuilt();
-  flatLine = JSON.parse(await readFile(join(ROOT, 'samples/flat-line.json'), 'utf8')) as Record<string, unknown>;
-}, 300_000);
-
-afterAll(async () => {
-  for (const f of folders) await rm(f, { recursive: true, force: true });
-});
+const fixture = serviceProcessFixture();
 
 async function post(url: string, body: unknown): Promise<Response | null> {
   try {
@@ -76,8 +64,7 @@ function expectStoreWhole(dataDir: string): void {
 
 describe('the store survives the service being killed', () => {
   it(`keeps every acknowledged write over ${KILLS} kills during a stream of stores and revisions`, async () => {
-    const dataDir = await mkdtemp(join(tmpdir(), 'arcline-kill-'));
-    folders.push(dataDir);
+    const dataDir = await fixture.dataDir('arcline-kill-');
     const rng = mulberry32(14);
     const ledger: Acknowledged[] = [];
     const lines: string[] = [];
@@ -92,7 +79,7 @@ describe('the store survives the service being killed', () => {
           const asRevision = lines.length > 0 && rng() < 0.6;
           const id = asRevision ? lines[Math.floor(rng() * lines.length)] : null;
           attempted++;
-          const res = await post(id ? `${service.base}/api/v1/surveys/${id}/revisions` : `${service.base}/api/v1/surveys`, { ...flatLine, name });
+          const res = await post(id ? `${service.base}/api/v1/surveys/${id}/revisions` : `${service.base}/api/v1/surveys`, { ...fixture.flatLine(), name });
           if (res === null) return;
           if (res.status !== 201) {
             await res.body?.cancel();
@@ -126,18 +113,17 @@ describe('the store survives the service being killed', () => {
   }, 600_000);
 
   it('loses no revision when several writers store revisions of one line at once', async () => {
-    const dataDir = await mkdtemp(join(tmpdir(), 'arcline-concurrent-'));
-    folders.push(dataDir);
+    const dataDir = await fixture.dataDir('arcline-concurrent-');
     const service = await startServiceProcess(dataDir);
     try {
-      const first = (await (await post(`${service.base}/api/v1/surveys`, { ...flatLine, name: 'one line' }))!.json()) as { id: string };
+      const first = (await (await post(`${service.base}/api/v1/surveys`, { ...fixture.flatLine(), name: 'one line' }))!.json()) as { id: string };
       const each = 8;
       const results = await Promise.all(
         Array.from({ length: 4 }, (_, w) =>
           (async () => {
             const revisions: number[] = [];
             for (let n = 0; n < each; n++) {
-              const res = (await post(`${service.base}/api/v1/surveys/${first.id}/revisions`, { ...flatLine, name: `writer ${w} revision ${n}` }))!;
+              const res = (await post(`${service.base}/api/v1/surveys/${first.id}/revisions`, { ...fixture.flatLine(), name: `writer ${w} revision ${n}` }))!;
               expect(res.status).toBe(201);
               revisions.push(((await res.json()) as { revision: number }).revision);
             }

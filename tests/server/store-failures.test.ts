@@ -9,31 +9,21 @@
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { chmod, mkdtemp, readFile, rm } from 'node:fs/promises';
+import { chmod } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ensureBuilt, startServiceProcess, ROOT } from '../helpers/service-process.js';
+import { describe, expect, it } from 'vitest';
+import { ROOT, serviceProcessFixture, startServiceProcess } from '../helpers/service-process.js';
 import { STORE_FILE_NAME } from '../../server/store.js';
 
-let flatLine: Record<string, unknown>;
-const folders: string[] = [];
-
-beforeAll(async () => {
-  ensureBuilt();
-  flatLine = JSON.parse(await readFile(join(ROOT, 'samples/flat-line.json'), 'utf8')) as Record<string, unknown>;
-}, 300_000);
-
-afterAll(async () => {
-  for (const f of folders) await rm(f, { recursive: true, force: true });
-});
+const fixture = serviceProcessFixture();
 
 async function storeUntilRefused(base: string): Promise<{ stored: { id: string; name: string }[]; refusal: Response }> {
   const stored: { id: string; name: string }[] = [];
   for (let n = 0; n < 2000; n++) {
     const name = `line ${n}`;
-    const res = await fetch(`${base}/api/v1/surveys`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ ...flatLine, name }) });
+    const res = await fetch(`${base}/api/v1/surveys`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ ...fixture.flatLine(), name }) });
     if (res.status !== 201) return { stored, refusal: res };
     stored.push({ id: ((await res.json()) as { id: string }).id, name });
   }
@@ -88,14 +78,12 @@ const MOUNT_ALLOWED = canMountTmpfs();
 
 describe('a full store', () => {
   it('answers 507 store_full past the size cap, and keeps what it had', async () => {
-    const dataDir = await mkdtemp(join(tmpdir(), 'arcline-cap-'));
-    folders.push(dataDir);
+    const dataDir = await fixture.dataDir('arcline-cap-');
     await expectFullThenIntact(dataDir, { ARCLINE_STORE_MAX_MB: '1' });
   }, 300_000);
 
   it.runIf(MOUNT_ALLOWED)('answers 507 store_full on a full 1 MB disk, and keeps what it had', async () => {
-    const dataDir = await mkdtemp(join(tmpdir(), 'arcline-tmpfs-'));
-    folders.push(dataDir);
+    const dataDir = await fixture.dataDir('arcline-tmpfs-');
     execFileSync('mount', ['-t', 'tmpfs', '-o', 'size=1m', 'tmpfs', dataDir]);
     try {
       await expectFullThenIntact(dataDir, {});
@@ -121,13 +109,12 @@ const READ_ONLY_WAY = readOnlyWay();
 
 describe('a read-only data folder', () => {
   it.runIf(READ_ONLY_WAY !== null)(`stops the service at start with a message naming the folder and what to do (${READ_ONLY_WAY})`, async () => {
-    const dataDir = await mkdtemp(join(tmpdir(), 'arcline-ro-'));
-    folders.push(dataDir);
+    const dataDir = await fixture.dataDir('arcline-ro-');
     if (READ_ONLY_WAY === 'remount') execFileSync('mount', ['-t', 'tmpfs', '-o', 'size=4m', 'tmpfs', dataDir]);
     try {
       // A store with a line in it, made while the folder was writable.
       const first = await startServiceProcess(dataDir);
-      await fetch(`${first.base}/api/v1/surveys`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(flatLine) });
+      await fetch(`${first.base}/api/v1/surveys`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(fixture.flatLine()) });
       first.child.kill('SIGTERM');
       await first.exited;
       if (READ_ONLY_WAY === 'modes') {
