@@ -19,4 +19,4 @@ survey.options = { ...survey.options, residuals };
 interpret(survey);
 const t0 = performance.now();
 for (let r = 0; r < repeats; r++) interpret(survey);
-console.log(`${fromFile ?? `${geophones} geophones, ${shots} shots`}, residuals ${residuals ? 'on' : 'off'}: ${((performance.now() - t0) / repeats).toFixed(1)} ms per interpretation`);
+console.log(`${fromFile ?? `${geophones} geophones, ${shots} shots`}, residuals ${residuals ? 'on' : 'off'}: ${((performance.now() - t0) / repeats).toFixed(2)} ms per interpretation`);

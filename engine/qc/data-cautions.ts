@@ -86,7 +86,8 @@ interface HiddenLayerFinding {
  * near offsets close. The warning is worded at the median depth; the range under each
  * station is the allowance at ALLOWANCE_SAMPLES depths spanning the section, interpolated
  * linearly in depth (the allowance grows almost in proportion to depth: the crossover
- * distances do). Cost: O(ALLOWANCE_SAMPLES · 250 · S·log G) after sorting the spreads.
+ * distances do). Cost: O(S·G log G) to sort the spreads, O(B·S) for their limit table (B distinct
+ * offsets), then O(ALLOWANCE_SAMPLES · 58 · log B).
  */
 function hiddenLayerCaution(survey: Survey, interp: Interpretation): HiddenLayerFinding | null {
   const v1 = interp.layers[0]?.velocity;

@@ -217,8 +217,8 @@ export interface HiddenLayerAllowance {
  * when no layer could hide. The observed delay time t = z·cos θ13/V1 is kept fixed, so a
  * hidden layer of thickness h2 leaves h1 = (t − h2·cos θ23/V2)·V1/cos θ13 for the top
  * layer; h2 is hidden when it is hidden on every spread (each spread's bound from
- * maxHiddenLayerThickness); the largest such h2 is found by a scan of 200 steps and 50
- * bisections.
+ * maxHiddenLayerThickness); the largest such h2 is found on a ladder of 200 steps (by
+ * bisection over the steps, hidden() being monotone) and 50 bisections.
  */
 export function hiddenLayerAllowance(input: HiddenLayerWarningInput): HiddenLayerAllowance | null {
   return hiddenLayerAllowances(input, [input.depthM])[0];
@@ -227,7 +227,8 @@ export function hiddenLayerAllowance(input: HiddenLayerWarningInput): HiddenLaye
 /**
  * hiddenLayerAllowance at several two-layer depths on the same spreads and velocities
  * (input.depthM is ignored): the input is checked and each spread sorted once. Cost
- * O(S·n log n) for S spreads of n offsets, then O(250 · S · log n) per depth.
+ * O(S·n log n) for S spreads of n offsets and O(B·S) for the limit table (B distinct offsets),
+ * then O(58 · log B) per depth.
  */
 export function hiddenLayerAllowances(input: HiddenLayerWarningInput, depthsM: readonly number[]): (HiddenLayerAllowance | null)[] {
   const v1 = input.v1MPerS;
@@ -264,18 +265,22 @@ export function hiddenLayerAllowances(input: HiddenLayerWarningInput, depthsM: r
       const bound = Math.max(0, (v2 * (limit * (1 / v2 - 1 / v3) - (2 * h1 * (c13 - c12)) / v1)) / (2 * c23));
       return h2 <= bound;
     };
-    // Scan upward for the first visible thickness, then bisect the boundary.
+    // The first visible thickness of the 200-step ladder h2_k = h2AtZeroTop·k/200, then
+    // bisect the boundary. hidden() is monotone in h2 (true up to one thickness, false
+    // beyond): as h2 grows, h1 and with it x12 shrink, so the nearest limit offset can only
+    // fall, and between its jumps h2 − bound grows with slope cos θ12/cos θ13 > 0. So the
+    // first visible rung is found by bisection over k, O(log 200) tests, the same rung a
+    // scan up the ladder finds.
     const n = 200;
-    let lo = 0;
-    let hi: number | null = null;
-    for (let k = 1; k <= n; k++) {
-      const h2 = (h2AtZeroTop * k) / n;
-      if (hidden(h2)) lo = h2;
-      else {
-        hi = h2;
-        break;
-      }
+    const rung = (k: number): number => (h2AtZeroTop * k) / n;
+    let firstVisible = n + 1;
+    for (let a = 1, b = n + 1; a < b; ) {
+      const mid = (a + b) >> 1;
+      if (hidden(rung(mid))) a = mid + 1;
+      else b = firstVisible = mid;
     }
+    let lo = firstVisible > 1 ? rung(firstVisible - 1) : 0;
+    const hi: number | null = firstVisible <= n ? rung(firstVisible) : null;
     if (hi !== null) {
       let upper: number = hi;
       for (let it = 0; it < 50; it++) {

@@ -128,20 +128,6 @@ export function findSteps(input: StepSearchInput): FoundStep[] {
   const { xM, referenceV1MPerS: v1, referenceV2MPerS: v2, pickSigmaMs } = input;
   if (!(v2 > v1) || xM.length < 6) return [];
   const referred = referredDelayTimesMs(input);
-  const present = referred.filter((d) => d !== null).length;
-  const spacing = medianSpacing(xM, 1);
-  const delaySteps: DelayTimeStep[] = (
-    present >= 6 ? findDelayTimeSteps(xM, referred, { pickSigmaMs, v1MPerS: v1, v2MPerS: v2, depthM: input.normalDepthM }) : []
-  ).map((d) => {
-    // Depths on each side, beyond the ramp (vertical below ground: the step is in them).
-    const reach = d.rampWidthM / 2 + 8 * spacing;
-    const left = sideDepthM(xM, input.normalDepthM, d.x - reach, d.x - d.rampWidthM / 2);
-    const right = sideDepthM(xM, input.normalDepthM, d.x + d.rampWidthM / 2, d.x + reach);
-    if (left === null || right === null) return d;
-    const down = d.delayJumpMs > 0;
-    return { ...d, x: stepFromRampCentreM(d.x, Math.min(left, right), Math.max(left, right), v1, v2, down) };
-  });
-
   // Remove the part of each geophone's delay that comes from lateral velocity changes, so a
   // branch only jumps where the refractor does: t − δ + δ_ref (zero change on a uniform line).
   const correction = input.delayTimeMs.map((d, i) => (d === null || referred[i] === null ? null : (referred[i] as number) - d));
@@ -158,6 +144,23 @@ export function findSteps(input: StepSearchInput): FoundStep[] {
       ...findBranchSteps(xM, times, { pickSigmaMs, v1MPerS: v1, v2MPerS: v2, depthM: input.normalDepthM, shotXM: b.shotXM, shot: b.shot }),
     );
   }
+  // Only a step some shot's branch shows is reported (below): with no branch detection the
+  // delay-time scan cannot change the answer, and on most lines it is the dearer scan.
+  if (branchSteps.length === 0) return [];
+  const present = referred.filter((d) => d !== null).length;
+  const spacing = medianSpacing(xM, 1);
+  const delaySteps: DelayTimeStep[] = (
+    present >= 6 ? findDelayTimeSteps(xM, referred, { pickSigmaMs, v1MPerS: v1, v2MPerS: v2, depthM: input.normalDepthM }) : []
+  ).map((d) => {
+    // Depths on each side, beyond the ramp (vertical below ground: the step is in them).
+    const reach = d.rampWidthM / 2 + 8 * spacing;
+    const left = sideDepthM(xM, input.normalDepthM, d.x - reach, d.x - d.rampWidthM / 2);
+    const right = sideDepthM(xM, input.normalDepthM, d.x + d.rampWidthM / 2, d.x + reach);
+    if (left === null || right === null) return d;
+    const down = d.delayJumpMs > 0;
+    return { ...d, x: stepFromRampCentreM(d.x, Math.min(left, right), Math.max(left, right), v1, v2, down) };
+  });
+
   const deepest = Math.max(0, ...input.normalDepthM.filter((z): z is number => z !== null));
   const merged = combineStepEvidence(delaySteps, branchSteps, { matchDistanceM: Math.max(3 * spacing, deepest) });
   // A step moves every refracted arrival beyond it (common practice: a vertical jump in a

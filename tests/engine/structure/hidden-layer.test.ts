@@ -5,6 +5,7 @@
  * x/V_n + intercept).
  */
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { hiddenLayerAllowance, hiddenLayerWarning, isLayerHidden, maxHiddenLayerThickness } from '../../../engine/structure/hidden-layer.js';
 
 const V1 = 500;
@@ -112,5 +113,45 @@ describe('hiddenLayerAllowance over every shot side of a line', () => {
 
   it('refuses a call without any spread, naming the field', () => {
     expect(() => hiddenLayerAllowance({ ...input })).toThrow(/spreadsM/);
+  });
+
+  it('on random lines, every thickness below the allowance hides on every side and every one above shows on some side (counted first arrivals, Kearey, Brooks & Hill 2002, ch. 5)', () => {
+    // The allowance is found by bisection over a ladder of thicknesses, which is right only
+    // if "hidden" holds up to one thickness and fails beyond it. This checks that against
+    // first arrivals counted from the three branch times, rung by rung, on random lines.
+    const spread = fc.record({ first: fc.double({ min: 0.5, max: 60, noNaN: true }), spacing: fc.double({ min: 0.5, max: 5, noNaN: true }), count: fc.integer({ min: 12, max: 48 }) });
+    const line = fc.record({
+      v1: fc.double({ min: 300, max: 1000, noNaN: true }),
+      ratio: fc.double({ min: 2.5, max: 8, noNaN: true }),
+      depth: fc.double({ min: 2, max: 20, noNaN: true }),
+      sides: fc.array(spread, { minLength: 1, maxLength: 6 }),
+    });
+    fc.assert(
+      fc.property(line, ({ v1, ratio, depth, sides }) => {
+        const v3 = v1 * ratio;
+        const v2 = Math.sqrt(v1 * v3);
+        const spreadsM = sides.map((s) => Array.from({ length: s.count }, (_, i) => s.first + i * s.spacing));
+        const c = (a: number, b: number): number => Math.sqrt(1 - (a / b) ** 2);
+        const delayS = (depth * c(v1, v3)) / v1;
+        const topOf = (h2: number): number => ((delayS - (h2 * c(v2, v3)) / v2) * v1) / c(v1, v3);
+        const layer2Picks = (h2: number, offsets: number[]): number => {
+          const h1 = Math.max(0, topOf(h2));
+          const ti2 = (2 * h1 * c(v1, v2)) / v1;
+          const ti3 = (2 * h1 * c(v1, v3)) / v1 + (2 * h2 * c(v2, v3)) / v2;
+          return offsets.filter((x) => x / v2 + ti2 < x / v1 && x / v2 + ti2 < x / v3 + ti3).length;
+        };
+        const hiddenEverywhere = (h2: number): boolean => spreadsM.every((offsets) => layer2Picks(h2, offsets) < 3);
+        const thickest = (delayS * v2) / c(v2, v3);
+        const a = hiddenLayerAllowance({ v1MPerS: v1, refractorVelocityMPerS: v3, hiddenVelocityMPerS: v2, depthM: depth, spreadsM });
+        const limit = a === null ? 0 : a.thicknessM;
+        for (let k = 1; k <= 40; k++) {
+          const below = limit * (1 - 1e-6) * (k / 40);
+          if (below > 0) expect(hiddenEverywhere(below)).toBe(true);
+          const above = limit * (1 + 1e-6) + ((thickest - limit) * k) / 40;
+          if (above < thickest) expect(hiddenEverywhere(above)).toBe(false);
+        }
+      }),
+      { seed: 20261205, numRuns: 300 },
+    );
   });
 });
