@@ -14,7 +14,7 @@ import { withLimit, writeLimiter } from './write-limit.js';
 import { SurveyStore } from './store.js';
 import { isLoopbackHost, writeGuard, writerCheck } from './write-auth.js';
 import { hostCheck, originCheck } from './request-origin.js';
-import { seedDemoLine } from './seed.js';
+import { seedDemoLines } from './seed.js';
 import { demoGathersRoute, findSamplesDir } from './demo-gathers-route.js';
 import { findWebRoot } from './web-root.js';
 import { displayRulesRoute } from './display-rules-route.js';
@@ -45,7 +45,7 @@ export interface AppOptions {
   writeRateLimit?: number;
   /** Further host names the service answers to (the Host header), beside those of `host` (server/request-origin.ts). */
   allowedHosts?: string[];
-  /** Store the demo line when the store is empty. Default false. */
+  /** Store the two demo lines (picks, and seismograph files: server/seed.ts) when the store is empty. Default false. */
   seedDemo?: boolean;
   /** Fastify's pino logger. Default false. */
   logger?: boolean;
@@ -268,8 +268,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     }
 
     if (checked.seedDemo) {
-      const id = await seedDemoLine(store, compute);
-      if (id !== null) app.log.info({ id }, 'stored the demo line in the empty store');
+      const seeded = await seedDemoLines(store, compute);
+      if (seeded !== null) app.log.info(seeded, 'stored the demo lines (picks, and seismograph files) in the empty store');
     }
     return app;
   } catch (error) {

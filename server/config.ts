@@ -7,7 +7,7 @@
  *                        at least MIN_WRITE_TOKEN_LENGTH characters, no spaces
  *   ARCLINE_ALLOWED_HOSTS  comma-separated host names the service also answers to (Host header)
  *   ARCLINE_WRITE_RATE_LIMIT  writes per minute per client address, default 60; 0 for no limit
- *   ARCLINE_SEED_DEMO    "0"/"false" stops the demo line being stored into an empty store
+ *   ARCLINE_SEED_DEMO    "0"/"false" stops the two demo lines being stored into an empty store
  *   ARCLINE_THREADS      compute worker threads, default one per core
  *   ARCLINE_QUEUE        computations that may wait for a thread before 503, default 4 per thread
  *   ARCLINE_TIME_LIMIT_MS  a computation running longer is stopped, default 10000

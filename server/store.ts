@@ -237,6 +237,15 @@ export class SurveyStore {
     return this.countRows().surveys === 0;
   }
 
+  /**
+   * Runs `write` in one transaction: every store write inside it (each a nested savepoint)
+   * is kept together or, when `write` throws, none is (the demo seed: both lines or nothing).
+   * `write` must be synchronous, as every SQLite transaction here is.
+   */
+  inOneTransaction<T>(write: () => T): T {
+    return this.db.transaction(write)();
+  }
+
   /** Stores a new survey as revision 1 with a fresh share token (and its gather, in the same transaction). */
   createSurvey(survey: Survey, interpretation: Interpretation, extras: RevisionExtras = {}): { summary: SurveySummary; revision: StoredRevision } {
     const id = newSurveyId();

@@ -381,15 +381,24 @@ export function fetchGatherTraces(id, shotId, window) {
  * with the write token when one is set. XMLHttpRequest rather than fetch: its upload events
  * say how much of the body has gone, which fetch does not. `onSent(loaded, total)` is called
  * as the body goes out, `onPicking()` once all of it is sent (the service then reads, picks
- * and interprets).
+ * and interprets). `signal` (an AbortController's) stops the request: the answer is then the
+ * failure `aborted` (status 0). The service stores nothing for a request it had not finished
+ * when the connection closed; one it had finished is stored all the same (the page checks).
  * @param {string} path relative, from uploadPath (drop-files.js)
  * @param {Blob} file
  * @param {{ onSent: (loaded: number, total: number) => void, onPicking: () => void }} progress
+ * @param {AbortSignal} [signal]
  * @returns {Promise<Result<GatherStored>>}
  */
-export function uploadGatherFile(path, file, progress) {
+export function uploadGatherFile(path, file, progress, signal) {
   return new Promise((resolve) => {
+    const stopped = () => resolve({ ok: false, failure: failure(0, 'aborted', 'The upload was stopped before the service answered.') });
+    if (signal?.aborted) {
+      stopped();
+      return;
+    }
     const xhr = new XMLHttpRequest();
+    signal?.addEventListener('abort', () => xhr.abort(), { once: true });
     xhr.open('POST', path);
     xhr.setRequestHeader('Content-Type', 'application/octet-stream');
     xhr.setRequestHeader('Accept', 'application/json');
@@ -398,7 +407,7 @@ export function uploadGatherFile(path, file, progress) {
     xhr.upload.addEventListener('progress', (event) => progress.onSent(event.loaded, event.lengthComputable ? event.total : file.size));
     xhr.upload.addEventListener('load', () => progress.onPicking());
     xhr.addEventListener('error', () => resolve({ ok: false, failure: unreachable() }));
-    xhr.addEventListener('abort', () => resolve({ ok: false, failure: failure(0, 'aborted', 'The upload was stopped before the service answered.') }));
+    xhr.addEventListener('abort', stopped);
     xhr.addEventListener('load', () => {
       /** @type {unknown} */
       let body = null;

@@ -133,3 +133,63 @@ export function percentSent(loaded, total) {
   if (!(total > 0)) return 0;
   return Math.max(0, Math.min(100, Math.floor((100 * loaded) / total)));
 }
+
+/**
+ * The progress line of a drop under way: files done of the total, and the file now going.
+ * @param {number} done files finished (stored or refused)
+ * @param {number} total SEG-2 files in the drop
+ * @param {string} current name of the file being sent, '' when none
+ */
+export function progressText(done, total, current) {
+  const head = done + ' of ' + total + (total === 1 ? ' file' : ' files') + ' done';
+  return current === '' ? head + '.' : head + '. Now: ' + current + '.';
+}
+
+/**
+ * Whether a cancelled upload that made a new line was stored all the same (the service had
+ * finished it before the cancel reached it): the id of a line listed now, not before, of
+ * that name; null when there is none. O(lines).
+ * @param {string[]} idsBefore the stored lines' ids before the upload
+ * @param {{ id: string, name?: string }[]} listedNow
+ * @param {string} name the new line's name ('' when unnamed)
+ * @returns {string | null}
+ */
+export function landedNewLine(idsBefore, listedNow, name) {
+  const before = new Set(idsBefore);
+  const match = listedNow.find((line) => !before.has(line.id) && (name === '' || line.name === name));
+  return match === undefined ? null : match.id;
+}
+
+/**
+ * Whether a cancelled upload into a stored line was stored all the same: the line has a
+ * revision after `revisionBefore` that brought a file of this shot id. O(gathers).
+ * @param {number} revisionBefore the line's latest revision before the upload
+ * @param {{ latestRevision?: number, gathers?: { shotId: string, revision: number }[] }} lineNow
+ * @param {string} shotId
+ */
+export function landedInLine(revisionBefore, lineNow, shotId) {
+  if (!((lineNow.latestRevision ?? 0) > revisionBefore)) return false;
+  return (lineNow.gathers ?? []).some((g) => g.shotId === shotId && g.revision > revisionBefore);
+}
+
+/**
+ * What the panel says once a drop is cancelled: what is stored (it stays stored), what
+ * became of the file that was going, and how many were not sent.
+ * @param {{ stored: number, lineName: string, current: string, currentStored: boolean | null, notSent: number }} c
+ *   stored: files stored before the cancel; current: the file that was going ('' when none);
+ *   currentStored: whether the service had stored it all the same (null: it could not be checked)
+ */
+export function cancelledText(c) {
+  const files = (/** @type {number} */ n) => n + (n === 1 ? ' file' : ' files');
+  const line = c.lineName === '' ? 'the line' : 'the line “' + c.lineName + '”';
+  const kept = c.stored + (c.currentStored === true ? 1 : 0);
+  const parts = ['Cancelled.'];
+  if (c.current !== '') {
+    if (c.currentStored === true) parts.push(c.current + ' had already been stored when the cancel reached the service.');
+    else if (c.currentStored === false) parts.push(c.current + ' was not stored.');
+    else parts.push('Whether ' + c.current + ' was stored could not be checked (the service did not answer): look at the line\'s revisions.');
+  }
+  parts.push(kept === 0 ? 'Nothing was stored.' : files(kept) + (kept === 1 ? ' is stored and stays' : ' are stored and stay') + ' stored in ' + line + '.');
+  if (c.notSent > 0) parts.push(files(c.notSent) + (c.notSent === 1 ? ' was' : ' were') + ' not sent.');
+  return parts.join(' ');
+}

@@ -11,29 +11,25 @@
  * layouts are merged: server/gather-survey.ts). Reading, picking, interpreting and
  * decimating run in the compute pool. A file that cannot be read answers 400 `invalid_seg2`
  * naming the byte offset; nothing is stored by a refused request (the revision and its
- * gather are written in one transaction, after every check).
- *
- * A line built shot by shot has, at first, no forward and reverse pair: the survey check's
- * `no-opposing-shots` problem alone does not refuse an upload (the line is stored with the
- * interpretation's own warnings, no-coverage and the like); every other problem does.
+ * gather are written in one transaction, after every check). The steps before the store
+ * (pick, make the line, check, interpret) are server/gather-upload.ts, which the demo seed
+ * (server/seed.ts) runs too.
  */
 import type { FastifyInstance } from 'fastify';
 import { Type } from '@sinclair/typebox';
 import type { SurveyStore } from '../store.js';
 import type { RequestHook } from '../write-limit.js';
-import { AppError, problemsError } from '../errors.js';
+import { AppError } from '../errors.js';
 import { clientGone } from '../compute/client-gone.js';
 import { errorResponses, authorQuerySchema, LinksSchema } from '../route-schemas.js';
 import { InterpretationSchema } from '../../engine/schemas/interpretation.js';
-import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties, seg2Error } from './gathers.js';
+import { GATHER_BODY_LIMIT_BYTES, GatherPicksSchema, gatherOverrideProperties } from './gathers.js';
 import { requireRevision, requireSurvey, shareUrlFor } from '../lookup.js';
 import { links } from './surveys.js';
-import { LAYOUT_CHANGE_CONFIRM, layoutChangeMessage } from '../revision-layout.js';
-import { defaultShotId, lineFromShot, lineWithShot, shotFromPicks } from '../gather-survey.js';
-import { validateSurvey } from '../../engine/survey/validate.js';
-import { SURVEY_LIMITS, type Survey } from '../../engine/survey/survey.js';
+import { LAYOUT_CHANGE_CONFIRM } from '../revision-layout.js';
+import { lineWithGather, newLineFromGather, pickGather } from '../gather-upload.js';
+import { SURVEY_LIMITS } from '../../engine/survey/survey.js';
 import type { GatherOverrides } from '../../engine/seg2/gather.js';
-import type { GatherPicksResponse } from '../../engine/picking/gather-picks.js';
 import { DEFAULT_COLUMNS, MAX_COLUMNS, MAX_DECIMATED_VALUES } from '../../engine/seg2/decimate.js';
 
 export interface SurveyGatherRouteOptions {
@@ -42,9 +38,6 @@ export interface SurveyGatherRouteOptions {
 }
 
 const tags = ['surveys', 'gathers'];
-
-/** Problems a line being built shot by shot may have and still be stored. */
-const ALLOWED_WHILE_BUILDING = new Set(['no-opposing-shots']);
 
 const shotIdQuery = Type.Optional(
   Type.String({ minLength: 1, maxLength: SURVEY_LIMITS.maxShotIdLength, description: 'The shot id in the line; default "x=<shot x>". A shot of the same id is replaced.' }),
@@ -152,23 +145,9 @@ function fileBytes(body: unknown): Uint8Array {
   return new Uint8Array(body.buffer, body.byteOffset, body.byteLength);
 }
 
-/** The survey check, letting a line under construction through (see the file comment). */
-function checked(survey: Survey): Survey {
-  const result = validateSurvey(survey);
-  if (result.survey !== null) return result.survey;
-  if (result.problems.every((p) => ALLOWED_WHILE_BUILDING.has(p.code))) return survey;
-  throw problemsError('invalid_survey', result.problems.filter((p) => !ALLOWED_WHILE_BUILDING.has(p.code)));
-}
-
 export async function surveyGatherRoutes(app: FastifyInstance, options: SurveyGatherRouteOptions): Promise<void> {
   const { store, guard } = options;
   app.addContentTypeParser('application/octet-stream', { parseAs: 'buffer', bodyLimit: GATHER_BODY_LIMIT_BYTES }, (_request, body, done) => done(null, body));
-
-  const pick = async (bytes: Uint8Array, overrides: GatherOverrides, signal: ReturnType<typeof clientGone>): Promise<GatherPicksResponse> => {
-    const result = await app.compute.run('gatherPicks', { bytes, overrides }, signal);
-    if (!result.ok) throw seg2Error(result.error);
-    return result.picks;
-  };
 
   app.post<{ Querystring: CreateQuery }>(
     '/api/v1/surveys/gathers',
@@ -185,11 +164,9 @@ export async function surveyGatherRoutes(app: FastifyInstance, options: SurveyGa
     async (request, reply) => {
       const bytes = fileBytes(request.body);
       const overrides = overridesOf(request.query);
-      const picks = await pick(bytes, overrides, clientGone(reply));
-      const shotId = request.query.shotId ?? defaultShotId(picks.shot.x);
-      const { shot, dropped } = shotFromPicks(picks, shotId);
-      const survey = checked(lineFromShot(picks, shot, request.query.name));
-      const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
+      const gone = clientGone(reply);
+      const picks = await pickGather(app.compute, bytes, overrides, gone);
+      const { shotId, dropped, survey, interpretation } = await newLineFromGather(app.compute, picks, { shotId: request.query.shotId, name: request.query.name }, gone);
       const author = request.query.author ?? null;
       const { summary, revision } = store.createSurvey(survey, interpretation, { author, gather: { shotId, seg2: bytes, overrides } });
       reply.status(201).header('Location', `/api/v1/surveys/${summary.id}`);
@@ -229,14 +206,11 @@ export async function surveyGatherRoutes(app: FastifyInstance, options: SurveyGa
       requireSurvey(store, id);
       const bytes = fileBytes(request.body);
       const overrides = overridesOf(request.query);
-      const picks = await pick(bytes, overrides, clientGone(reply));
-      const shotId = request.query.shotId ?? defaultShotId(picks.shot.x);
-      const { shot, dropped } = shotFromPicks(picks, shotId);
+      const gone = clientGone(reply);
+      const picks = await pickGather(app.compute, bytes, overrides, gone);
       const { summary, stored } = requireRevision(store, id);
-      const extended = lineWithShot(stored, picks.geophones, shot, request.query.layoutChange === LAYOUT_CHANGE_CONFIRM);
-      if (!extended.ok) throw new AppError('layout_changed', { message: layoutChangeMessage(extended.change), path: '/geophones', layoutChange: extended.change });
-      const survey = checked(extended.survey);
-      const interpretation = await app.compute.run('interpret', { survey }, clientGone(reply));
+      const extended = await lineWithGather(app.compute, stored, picks, { shotId: request.query.shotId, confirmLayout: request.query.layoutChange === LAYOUT_CHANGE_CONFIRM }, gone);
+      const { shotId, dropped, survey, interpretation } = extended;
       const author = request.query.author ?? null;
       // Stored only if no other revision landed meanwhile: this one is built on `stored`.
       const written = store.addRevision(id, survey, interpretation, { author, gather: { shotId, seg2: bytes, overrides } }, stored.revision);

@@ -149,6 +149,25 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     await context.close();
   });
 
+  it('a new store offers Demo A from seismograph files in the stored lines, its gathers and picks reviewed at once', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
+    // Seeded by server/seed.ts beside the demo pick line (which opens first).
+    const { context, page, trouble } = await openArcline(served.launched, served.baseUrl);
+    const listed = (await (await page.request.get(new URL('api/v1/surveys', served.baseUrl).href)).json()) as { id: string; name: string }[];
+    const seeded = listed.find((l) => l.name === 'Demo A from seismograph files')!;
+    expect(seeded).toBeDefined();
+    await page.click(`#stored-list button[data-line-id="${seeded.id}"]`);
+    await expect.poll(() => page.textContent('#line-title'), POLL).toBe('Demo A from seismograph files');
+    await page.locator('#gather-review').waitFor({ state: 'visible' });
+    expect((await page.$$eval('#gather-select option', (o) => o.map((x) => (x as HTMLOptionElement).value))).sort()).toEqual(['E-end', 'E-off', 'W-end', 'W-off', 'mid']);
+    await page.waitForSelector('#gather-canvas[data-shot]');
+    expect(await page.textContent('#pick-check')).toBe("Check first: none. 24 picks are the picker's own, each with confidence 0.5 or more.");
+    await page.locator('#gather-review').screenshot({ path: join(SCREENSHOTS, 'seeded-gathers-review.png') });
+    expect(trouble.pageErrors).toEqual([]);
+    expect(trouble.cspViolations).toEqual([]);
+    expect(trouble.consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it('the file button works from the keyboard, and the demo gathers load the same way', { timeout: BROWSER_TEST_TIMEOUT_MS }, async () => {
     const { context, page, trouble } = await openArcline(served.launched, served.baseUrl);
     // The native input takes the focus (its label is the visible button) and opens the chooser from the keyboard.

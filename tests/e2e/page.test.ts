@@ -183,8 +183,8 @@ describe.skipIf(!browserTestsRun)('Arcline page in Chromium', () => {
     expect(await page.getAttribute('#section-image', 'alt')).toMatch(/not stored/i);
     // Control for the revocation check after Store: while shown, the preview URLs load.
     expect(await imagesThatLoad(page, previewSrcs)).toBe(2);
-    // Nothing was stored by interpreting and previewing: the stored list still holds only the demo line.
-    expect(await page.locator('#stored-list button[data-line-id]').count()).toBe(1);
+    // Nothing was stored by interpreting and previewing: the stored list still holds only the two seeded demo lines.
+    expect(await page.locator('#stored-list button[data-line-id]').count()).toBe(2);
     await page.screenshot({ path: join(SCREENSHOTS, 'flat-line-interpreted.png'), fullPage: true });
 
     const stored = page.waitForResponse((r) => r.url().endsWith('/api/v1/surveys') && r.request().method() === 'POST');

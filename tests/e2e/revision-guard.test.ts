@@ -1,5 +1,5 @@
 /**
- * The revision guard from the page in real Chromium (store seeded with the demo line): with
+ * The revision guard from the page in real Chromium (store seeded with the demo lines): with
  * the demo line open, another line (Demo B, another geophone layout) interpreted and offered
  * "Store as revision" is refused by the service (api-v1.md: 409 unless the request says the
  * change is meant; nothing stored) and the page asks, showing the service's own description
@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page, Request } from 'playwright-core';
 import type { Survey } from '../../engine/survey/survey.js';
 import { openArcline, SAMPLES_DIR, serveDemoLine, type ServedPage } from './served-page.js';
+import { DEMO_GATHERS_LINE_NAME } from '../../server/seed.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser, type PageTrouble } from './browser.js';
 import { LAYOUT_CHANGE_CONFIRMATION } from '../../web/api.js';
 
@@ -62,8 +63,9 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
   beforeAll(async () => {
     ({ served, demo, flat } = await serveDemoLine(SCREENSHOTS));
     ({ baseUrl, launched } = served);
-    const seeded = (await (await fetch(new URL('api/v1/surveys', baseUrl))).json()) as { id: string }[];
-    expect(seeded).toHaveLength(1);
+    // The two seeded lines (server/seed.ts): the demo pick line, newest, first; then the line of its seismograph files.
+    const seeded = (await (await fetch(new URL('api/v1/surveys', baseUrl))).json()) as { id: string; name: string }[];
+    expect(seeded.map((l) => l.name)).toEqual([demo.name, DEMO_GATHERS_LINE_NAME]);
     demoId = seeded[0].id;
   }, BROWSER_TEST_TIMEOUT_MS);
 
@@ -116,7 +118,7 @@ describe.skipIf(!browserTestsRun)('Storing another geophone layout as a revision
     await expect.poll(() => page.textContent('#line-badge'), POLL).toBe('Stored');
     expect(await page.textContent('#line-title')).toBe(flat.name);
     const lines = await listed(page, baseUrl);
-    expect(lines.map((l) => l.name).sort()).toEqual([demo.name, flat.name].sort());
+    expect(lines.map((l) => l.name).sort()).toEqual([demo.name, DEMO_GATHERS_LINE_NAME, flat.name].sort());
     // Demo A is untouched: one revision, its own layout; the only revision request was the refused one.
     expect(await revisionsOf(page, baseUrl, demoLine.id)).toBe(1);
     expect(posts.filter((r) => r.url().includes('/revisions')).map((r) => new URL(r.url()).search)).toEqual(['', '']);

@@ -8,6 +8,7 @@ import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Survey } from '../../engine/survey/survey.js';
 import { loadedWidth, openArcline, serveDemoLine, type ServedPage } from './served-page.js';
+import { DEMO_GATHERS_LINE_NAME } from '../../server/seed.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun, type LaunchedBrowser } from './browser.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
@@ -43,8 +44,9 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
     expect(await page.textContent('#revision-text')).toBe('revision 1 of 1');
     expect(await page.isVisible('#revision-select')).toBe(false);
     expect(await page.isVisible('#revise-button')).toBe(false);
-    const listed = (await (await page.request.get(new URL('api/v1/surveys', baseUrl).href)).json()) as { id: string }[];
-    expect(listed).toHaveLength(1);
+    // The two seeded lines (server/seed.ts): the demo pick line, newest, opens first; then the line of its seismograph files.
+    const listed = (await (await page.request.get(new URL('api/v1/surveys', baseUrl).href)).json()) as { id: string; name: string }[];
+    expect(listed.map((l) => l.name)).toEqual([demo.name, DEMO_GATHERS_LINE_NAME]);
     const id = listed[0]!.id;
 
     // The corrected line: one pick moved by 1.5 ms and a new name (test data, invented).
@@ -79,7 +81,7 @@ describe.skipIf(!browserTestsRun)('Revisions of a stored line from the page', ()
     expect(await page.locator('#revision-select option').count()).toBe(2);
     expect(await page.getAttribute('#section-image', 'src')).toBe(`api/v1/surveys/${id}/section.svg?revision=2`);
     expect(await loadedWidth(page, '#section-image')).toBeGreaterThan(0);
-    expect(await page.locator('#stored-list li').count()).toBe(1);
+    expect(await page.locator('#stored-list li').count()).toBe(2);
 
     // The API keeps both: revision 2 holds the corrected pick, revision 1 the original.
     const latest = (await (await page.request.get(new URL(`api/v1/surveys/${id}`, baseUrl).href)).json()) as StoredLineBody;

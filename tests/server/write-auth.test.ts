@@ -9,6 +9,7 @@ import type { FastifyInstance } from 'fastify';
 import { buildApp } from '../../server/app.js';
 import { ConfigError, readConfig } from '../../server/config.js';
 import { startService } from '../../server/start.js';
+import { DEMO_GATHERS_LINE_NAME } from '../../server/seed.js';
 import { isLoopbackHost, tokensMatch } from '../../server/write-auth.js';
 
 const demoJsonText = readFileSync(new URL('../../samples/demo-line.json', import.meta.url), 'utf8');
@@ -188,28 +189,30 @@ describe('isLoopbackHost and tokensMatch', () => {
 });
 
 describe('startService', () => {
-  it('listens on a real socket, seeds the demo line into an empty store once, and keeps it across restarts', async () => {
+  it('listens on a real socket, seeds the two demo lines into an empty store once, and keeps them across restarts', async () => {
     const dataDir = mkdtempSync(join(tmpdir(), 'arcline-start-'));
     try {
       const first = await startService({ HOST: '127.0.0.1', PORT: '0', DATA_DIR: dataDir }, { logger: false });
-      let id: string;
+      let ids: string[];
       try {
         expect(first.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/$/);
         const health = await fetch(new URL('healthz', first.url));
         expect(health.status).toBe(200);
+        // The demo pick line (newest) and the line of its seismograph files (server/seed.ts).
         const list = (await (await fetch(new URL('api/v1/surveys', first.url))).json()) as { id: string; name: string }[];
-        expect(list).toHaveLength(1);
-        expect(list[0].name).toBe(JSON.parse(demoJsonText).name);
-        id = list[0].id;
-        const detail = await fetch(new URL(`api/v1/surveys/${id}`, first.url));
-        expect(detail.status).toBe(200);
+        expect(list.map((s) => s.name)).toEqual([JSON.parse(demoJsonText).name, DEMO_GATHERS_LINE_NAME]);
+        ids = list.map((s) => s.id);
+        for (const id of ids) {
+          const detail = await fetch(new URL(`api/v1/surveys/${id}`, first.url));
+          expect(detail.status).toBe(200);
+        }
       } finally {
         await first.app.close();
       }
       const second = await startService({ HOST: '127.0.0.1', PORT: '0', DATA_DIR: dataDir }, { logger: false });
       try {
         const list = (await (await fetch(new URL('api/v1/surveys', second.url))).json()) as { id: string }[];
-        expect(list.map((s) => s.id)).toEqual([id]);
+        expect(list.map((s) => s.id)).toEqual(ids);
       } finally {
         await second.app.close();
       }

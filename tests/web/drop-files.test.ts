@@ -1,9 +1,13 @@
 // The seismograph-file drop's pure helpers (web/drop-files.js): which files are taken, the
 // shot id and line name each drop gets, the upload routes (server/routes/survey-gathers.ts,
-// README "Shot gathers into stored lines"), and the words of a stored file. The expected
+// README "Shot gathers into stored lines"), the words of a stored file, and of a drop's progress
+// and cancel (what is stored stays stored; a cancelled upload the service had finished counts). The expected
 // values follow from the rules stated in the module, worked by hand here.
 import { describe, expect, it } from 'vitest';
-import { DEMO_GATHER_FILES, MAX_SHOT_ID_LENGTH, isSeg2Name, missingPositions, lineNameFor, percentSent, sharedPrefix, shotIdsFor, storedFileText, uploadPath } from '../../web/drop-files.js';
+import {
+  DEMO_GATHER_FILES, MAX_SHOT_ID_LENGTH, cancelledText, isSeg2Name, landedInLine, landedNewLine, missingPositions, lineNameFor, percentSent, progressText, sharedPrefix,
+  shotIdsFor, storedFileText, uploadPath,
+} from '../../web/drop-files.js';
 import { demoGathers } from '../../engine/samples/demo-gathers.js';
 import { SURVEY_LIMITS } from '../../engine/survey/survey.js';
 
@@ -77,5 +81,41 @@ describe('what a stored file says', () => {
 describe('the demo files the page fetches', () => {
   it('are the files the demo writer makes (engine/samples/demo-gathers.ts)', () => {
     expect(DEMO_GATHER_FILES.slice().sort()).toEqual(demoGathers().map((g) => g.fileName).sort());
+  });
+});
+
+describe('progress and cancel', () => {
+  it('says how many files are done of how many, and which file is going', () => {
+    expect(progressText(2, 5, 'demo-line-mid.sg2')).toBe('2 of 5 files done. Now: demo-line-mid.sg2.');
+    expect(progressText(0, 1, '')).toBe('0 of 1 file done.');
+  });
+
+  it('finds the line a cancelled new-line upload made all the same: listed now, not before, of that name', () => {
+    const before = ['a', 'b'];
+    expect(landedNewLine(before, [{ id: 'a', name: 'line3' }, { id: 'b', name: 'x' }], 'line3')).toBeNull();
+    expect(landedNewLine(before, [{ id: 'c', name: 'line3' }, { id: 'a', name: 'line3' }, { id: 'b' }], 'line3')).toBe('c');
+    // A colleague's new line of another name is not ours.
+    expect(landedNewLine(before, [{ id: 'd', name: 'other' }, { id: 'a' }, { id: 'b' }], 'line3')).toBeNull();
+  });
+
+  it('finds a cancelled upload into a line stored all the same: a later revision brought a file of that shot id', () => {
+    expect(landedInLine(2, { latestRevision: 2, gathers: [{ shotId: 'mid', revision: 2 }] }, 'mid')).toBe(false);
+    expect(landedInLine(2, { latestRevision: 3, gathers: [{ shotId: 'mid', revision: 3 }] }, 'mid')).toBe(true);
+    // A revision by someone else (corrected picks, another shot) is not this file.
+    expect(landedInLine(2, { latestRevision: 3, gathers: [{ shotId: 'mid', revision: 1 }, { shotId: 'E-end', revision: 3 }] }, 'mid')).toBe(false);
+    expect(landedInLine(2, {}, 'mid')).toBe(false);
+  });
+
+  it('says what is stored (and stays stored), what became of the file going, and what was not sent', () => {
+    expect(cancelledText({ stored: 2, lineName: 'demo-line', current: 'demo-line-mid.sg2', currentStored: false, notSent: 2 })).toBe(
+      'Cancelled. demo-line-mid.sg2 was not stored. 2 files are stored and stay stored in the line “demo-line”. 2 files were not sent.',
+    );
+    expect(cancelledText({ stored: 0, lineName: 'demo-line', current: 'demo-line-W-off.sg2', currentStored: false, notSent: 4 })).toBe(
+      'Cancelled. demo-line-W-off.sg2 was not stored. Nothing was stored. 4 files were not sent.',
+    );
+    expect(cancelledText({ stored: 1, lineName: '', current: 'b.sg2', currentStored: true, notSent: 1 })).toBe(
+      'Cancelled. b.sg2 had already been stored when the cancel reached the service. 2 files are stored and stay stored in the line. 1 file was not sent.',
+    );
+    expect(cancelledText({ stored: 1, lineName: 'L', current: 'b.sg2', currentStored: null, notSent: 0 })).toMatch(/^Cancelled\. Whether b\.sg2 was stored could not be checked .* 1 file is stored and stays stored/);
   });
 });
