@@ -40,9 +40,9 @@
  * Cost: one stripping run (the two refractors' plus-minus, O(P·n) for P pairs over n
  * geophones) and one scan (O(n·F·log m) to screen, O(m) per trial fitted: on noise the
  * bound admits most trials) per replicate, at most R = 199. Measured for the full 199
- * (five shots, 2 shared cores under load): 0.6 s at 48, 0.6–1.0 s at 96, 0.6 s at 240
- * geophones, 1.5 s at 240 with nine shots, against 15–70 ms for the interpretation itself;
- * a line without a step stops after 2–35 replicates (docs/developers/three-layer.md).
+ * (five shots): 0.29 s at 48, 0.29–0.42 s at 96, 0.44–0.53 s at 240 geophones, 0.95 s at
+ * 240 with nine shots, against 9–41 ms for the interpretation itself; a line without a
+ * step stops after 2–35 replicates (docs/developers/three-layer.md).
  * Deterministic: the noise seed is a hash of the line's geometry and picks.
  * Units: m, ms, m/s. Pure.
  */
