@@ -120,8 +120,11 @@ function delayOfDepthMs(depthM: number, v1: number, vBelow: number): number {
  * Both refractors of a three-layer line (see the file comment). Depth to the first
  * refractor: from its own delay times (branch-1 picks, branch-1 reciprocal times); where
  * those are missing, the two-layer section's depth. Depth to the second: stripping.
+ * stage 'thicknesses' stops after stripping (normalThicknessM set; no depths, no arcs, no
+ * structure, mapped false): what the rock-step test re-runs on simulated picks
+ * (rock-steps.ts), without the O(n²) arcs.
  */
-export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLayerRecord, options: ResolvedOptions): SecondRefractorMap {
+export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLayerRecord, options: ResolvedOptions, stage: 'full' | 'thicknesses' = 'full'): SecondRefractorMap {
   const n = survey.geophones.length;
   const xs = survey.geophones.map((g) => g.x);
   const first = refractorDelays(survey, shots, 1, options);
@@ -219,6 +222,7 @@ export function mapSecondRefractor(survey: Survey, shots: ShotAnalysis[], twoLay
     if (stripped === null) noAnswer.push(xs[i]);
     else normalM[i][1] = stripped.thicknessesM[1];
   }
+  if (stage === 'thicknesses') return result(false);
   placeByArcs(survey, normalM, depthM);
   if (noFirst.length > 0) {
     warnings.push({

@@ -169,6 +169,32 @@ export interface Step {
   branchJumps?: BranchJump[];
 }
 
+/** A step in the second refractor (features.lowerRefractor.steps). */
+export interface RockStepOutput {
+  x: number;
+  /** Change of the middle layer's thickness across the step, m; positive where the rock is deeper on the +x side. */
+  throw: number;
+  /** Jump of the rock's stripped delay h2·cos θ23/V2, ms. */
+  delayJumpMs: number;
+  /** 'rock-delay-time': the stripped delay of the middle layer. */
+  seenIn: string[];
+  /** Scan statistic (RSS_kink − RSS_step)/σ² and the Monte Carlo threshold it beat. */
+  statistic: number;
+  threshold: number;
+}
+
+/** The Monte Carlo test behind features.lowerRefractor.steps. */
+export interface RockStepTestOutput {
+  /** The line's largest scan statistic. */
+  statistic: number;
+  /** The threshold from the replicates; null when the test stopped early (no step possible). */
+  threshold: number | null;
+  /** Replicates run (199, fewer when stopped early). */
+  replicates: number;
+  /** Monte Carlo p-value of the largest statistic. */
+  pValue: number;
+}
+
 export interface BranchJump {
   shot: string;
   /** Where along the line the shot's branch jumps, m. */
@@ -258,8 +284,12 @@ export interface Interpretation {
     dip: Dip | null;
     /** One straight line per piece between steps and velocity changes. */
     localDips: LocalDip[];
-    /** Three-layer lines: the dip of the second refractor, tested as that of the first (structure/lower-refractor.ts; steps in it are not sought yet). */
-    lowerRefractor?: { dip: Dip | null; localDips: LocalDip[] };
+    /**
+     * Three-layer lines: the dip of the second refractor, tested as that of the first
+     * (structure/lower-refractor.ts), and steps in it (depth/rock-steps.ts) with the test
+     * behind them; steps and stepTest are absent where the line has too few rock depths.
+     */
+    lowerRefractor?: { dip: Dip | null; localDips: LocalDip[]; steps?: RockStepOutput[]; stepTest?: RockStepTestOutput };
   };
   qc: {
     reciprocal: ReciprocalCheck[];

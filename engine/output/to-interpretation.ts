@@ -156,6 +156,24 @@ export function toInterpretation(r: LineRecord): Interpretation {
           lowerRefractor: {
             dip: map.structure.dip ? { degrees: roundDeg(map.structure.dip.degrees), source: 'refractor-elevations' as const, rmsM: roundM(map.structure.dip.rmsM) } : null,
             localDips: map.structure.local.map(roundLocalDip),
+            ...(map.structure.stepTest
+              ? {
+                  steps: map.structure.stepTest.steps.map((st) => ({
+                    x: roundM(st.x),
+                    throw: roundM(st.throwM),
+                    delayJumpMs: roundMs(st.delayJumpMs),
+                    seenIn: ['rock-delay-time'],
+                    statistic: roundStat(st.statistic),
+                    threshold: roundStat(st.threshold),
+                  })),
+                  stepTest: {
+                    statistic: roundStat(map.structure.stepTest.observedMax),
+                    threshold: map.structure.stepTest.threshold === null ? null : roundStat(map.structure.stepTest.threshold),
+                    replicates: map.structure.stepTest.replicates,
+                    pValue: Math.round(map.structure.stepTest.pValue * 1000) / 1000,
+                  },
+                }
+              : {}),
           },
         }
       : {}),
@@ -206,6 +224,11 @@ export function toInterpretation(r: LineRecord): Interpretation {
     ...(r.grm ? { grm: grmOutput(r.grm) } : {}),
     ...(r.timeTerm ? { timeTerm: timeTermOutput(r.timeTerm, r.shots.map((s) => s.x), coveredX) } : {}),
   };
+}
+
+/** A test statistic to 0.01 (it is compared with a threshold of the same rounding). */
+function roundStat(v: number): number {
+  return Math.round(v * 100) / 100;
 }
 
 function roundLocalDip(d: LocalDip): Interpretation['features']['localDips'][number] {

@@ -30,11 +30,12 @@ import { firstRefractorPairs } from '../plus-minus/first-refractor-pairs.js';
 import { refractorPlusTimes, widestPairMinusTimes } from '../plus-minus/refractor-plus-times.js';
 import { firstRefractorSection } from '../depth/first-refractor-section.js';
 import { secondRefractor } from '../depth/second-refractor.js';
+import { rockSteps } from '../depth/rock-steps.js';
 import { sectionDips } from '../structure/line-dip.js';
 import { branchWarnings, methodWarnings } from '../qc/input-warnings.js';
 import { negativeDelayWarnings, plusTimeWarnings } from '../qc/plus-time-warnings.js';
 import { coverageWarnings } from '../qc/coverage-warnings.js';
-import { structureWarnings } from '../qc/structure-warnings.js';
+import { rockStepWarnings, structureWarnings } from '../qc/structure-warnings.js';
 import { withDataCautions } from '../qc/data-cautions.js';
 import { withResiduals } from '../qc/residuals.js';
 import { chooseLayerCount, needsLayerChoice } from '../qc/layer-choice.js';
@@ -134,12 +135,17 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number, fallbackNote?: W
   const v2 = layerVelocity(section.segments, xs.filter((_, i) => plus.delayTimeMs[i] !== null)) ?? lineV2.velocity;
 
   const verticalDepthM = section.depths.verticalDepthM;
-  const threeLayer = secondRefractor(
-    survey,
-    shots,
-    { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM },
-    options,
-  );
+  const twoLayerRecord = { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM };
+  const threeLayer = secondRefractor(survey, shots, twoLayerRecord, options);
+  // Steps in the rock: a jump scan on the stripped middle-layer delay, its threshold from a
+  // Monte Carlo test of the line's own error process (depth/rock-steps.ts; up to 199
+  // re-runs of the stripping, fewer when the test stops early).
+  const rockMap = threeLayer?.map;
+  if (threeLayer && rockMap?.mapped && rockMap.structure) {
+    const stepTest = rockSteps(survey, shots, twoLayerRecord, options, rockMap);
+    rockMap.structure = { ...rockMap.structure, stepTest };
+    threeLayer.warnings.push(...rockStepWarnings(stepTest));
+  }
   // Time terms map the first refractor only (two-layer lines): a line with a mapped second
   // refractor is interpreted by plus-minus instead, and says so (README, options.method).
   if (options.method === 'time-term' && threeLayer?.map?.mapped && threeLayer.map.velocitiesMPerS[2] !== null) {

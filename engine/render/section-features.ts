@@ -20,23 +20,28 @@ function labelBox(x: number, baselineY: number, text: string, sizeMm: number, an
   return { x0: x0 - 0.5, y0: baselineY - sizeMm * 0.8 - 0.3, x1: x0 + w + 0.5, y1: baselineY + sizeMm * 0.25 + (lines - 1) * sizeMm * 1.15 + 0.3 };
 }
 
-/** The text of a step label: the throw, and which side is deeper. */
-export function stepLabel(step: Step): { main: string; side: string } {
+/** The text of a step label: the throw, and which side is deeper ("rock step" for one in the second refractor). */
+export function stepLabel(step: Step, kind: 'refractor' | 'rock' = 'refractor'): { main: string; side: string } {
   return {
-    main: `step ${formatMetres(Math.abs(step.throw))}`,
+    main: `${kind === 'rock' ? 'rock step' : 'step'} ${formatMetres(Math.abs(step.throw))}`,
     side: step.throw > 0 ? 'deeper to +x' : step.throw < 0 ? 'deeper to −x' : 'no throw',
   };
 }
 
-export function stepMarkers(parent: Container, steps: readonly Step[], refractor: readonly ProfilePoint[][], frame: SectionFrame, placer: LabelPlacer): void {
+/**
+ * A tick across the refractor at each step and its label. kind 'rock': steps in the second
+ * refractor of a three-layer line (features.lowerRefractor.steps), drawn on that refractor
+ * the same way, role 'rock-step'.
+ */
+export function stepMarkers(parent: Container, steps: readonly Step[], refractor: readonly ProfilePoint[][], frame: SectionFrame, placer: LabelPlacer, kind: 'refractor' | 'rock' = 'refractor'): void {
   for (const step of steps) {
     if (!Number.isFinite(step.x)) continue;
     const x = frame.x(step.x);
     const onRefractor = elevationOnProfile(refractor, step.x);
     const y = onRefractor === null ? (frame.plot.y0 + frame.plot.y1) / 2 : frame.elevation(onRefractor);
-    const group = parent.group().attr({ 'data-role': 'step', 'data-x': step.x, 'data-throw': step.throw });
+    const group = parent.group().attr({ 'data-role': kind === 'rock' ? 'rock-step' : 'step', 'data-x': step.x, 'data-throw': step.throw });
     group.line(round3(x), round3(y - 4), round3(x), round3(y + 4)).attr({ stroke: SECTION_COLOURS.step, 'stroke-width': 0.8, 'stroke-linecap': 'round' });
-    const { main, side } = stepLabel(step);
+    const { main, side } = stepLabel(step, kind);
     const size = TEXT_MM.label;
     const candidates: { x: number; y: number; anchor: 'start' | 'end' }[] = [
       { x: x + 1.5, y: y + 7, anchor: 'start' },

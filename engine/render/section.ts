@@ -389,6 +389,7 @@ function drawSheet(job: SheetJob): string {
     .filter((h) => h.widthMm > 1);
   for (const h of visibleHatches) placer.reserve({ x0: h.cx - h.widthMm / 2, y0: plotY0, x1: h.cx + h.widthMm / 2, y1: plotY1 - 7 });
   stepMarkers(features, (interpretation.features?.steps ?? []).filter((s) => inWindow(s.x)), refractor, frame, placer);
+  if (content.hasSecond) stepMarkers(features, (interpretation.features?.lowerRefractor?.steps ?? []).filter((s) => inWindow(s.x)), refractor2, frame, placer, 'rock');
   velocityChangeMarkers(features, (interpretation.features?.velocityChanges ?? []).filter((c) => inWindow(c.x)), refractor, frame, placer);
   for (const h of visibleHatches) {
     const group = features.group().attr('data-role', 'no-coverage-label');

@@ -20,6 +20,7 @@ const PHRASES: Readonly<Record<string, string>> = {
   'v2-not-above-v1': 'refractor velocity not above the top-layer velocity',
   'impossible-velocity': 'an impossible velocity was set aside',
   'refractor-step': 'a step in the refractor',
+  'rock-step': 'a step in the rock (second refractor)',
   'refractor-velocity-change': 'the refractor velocity changes along the line',
   'lateral-top-layer-velocity': 'top-layer velocity varies along the line',
   'residuals-high': 'picks misfit the modelled first arrivals',

@@ -284,8 +284,37 @@ export const InterpretationSchema = Type.Object(
         localDips: Type.Array(LocalDipSchema),
         lowerRefractor: opt(
           Type.Object(
-            { dip: nullable(DipSchema), localDips: Type.Array(LocalDipSchema) },
-            { ...closed, description: 'Three-layer lines: the dip of the second refractor, tested as that of the first (steps in it are not sought yet).' },
+            {
+              dip: nullable(DipSchema),
+              localDips: Type.Array(LocalDipSchema),
+              steps: opt(
+                Type.Array(
+                  Type.Object(
+                    {
+                      x: num(),
+                      throw: num('Change of the middle layer thickness across the step, m; positive where the rock is deeper on the +x side.'),
+                      delayJumpMs: num('Jump of the stripped rock delay h2·cos θ23/V2, ms.'),
+                      seenIn: Type.Array(Type.String()),
+                      statistic: num('Scan statistic (RSS_kink − RSS_step)/σ².'),
+                      threshold: num('Monte Carlo threshold the statistic beat.'),
+                    },
+                    { ...closed, title: 'RockStep' },
+                  ),
+                ),
+              ),
+              stepTest: opt(
+                Type.Object(
+                  {
+                    statistic: num('Largest scan statistic on the line.'),
+                    threshold: nullable(num('Threshold from the replicates; null when the sequential test stopped early.')),
+                    replicates: int('Replicates run.'),
+                    pValue: num('Monte Carlo p-value of the largest statistic.'),
+                  },
+                  { ...closed, title: 'RockStepTest' },
+                ),
+              ),
+            },
+            { ...closed, description: 'Three-layer lines: the dip of the second refractor, tested as that of the first, and steps in it found by a jump scan on the stripped middle-layer delay with a Monte Carlo threshold (engine/depth/rock-steps.ts).' },
           ),
         ),
       },

@@ -47,6 +47,12 @@ export interface JumpScanOptions {
   sidePoints: number;
   minSidePoints: number;
   falseAlarmProbability: number;
+  /**
+   * A threshold calibrated elsewhere (e.g. by a Monte Carlo test of the profile's own
+   * error process, rock-steps.ts) in place of the Bonferroni bound; falseAlarmProbability
+   * is then not used.
+   */
+  threshold?: number;
 }
 
 /**
@@ -154,7 +160,7 @@ function fillRampColumns(x: readonly number[], c: number, w0: number, lo: number
 }
 
 /** Half-width of the window of a ramp of width W: W/2 and sidePoints spacings beyond. */
-function windowReach(width: number, opts: JumpScanOptions, spacing: number): number {
+function windowReach(width: number, opts: Pick<JumpScanOptions, 'sidePoints'>, spacing: number): number {
   return width / 2 + opts.sidePoints * spacing;
 }
 
@@ -189,7 +195,7 @@ function firstAbove(x: readonly number[], bound: number, from: number, to: numbe
  * beyond either end of the ramp (counted by bisection). A window that passes has at least
  * two such points on each side, hence distinct positions and a line that can be fitted.
  */
-function trialWindow(x: readonly number[], c: number, w0: number, k: number, opts: JumpScanOptions, spacing: number, from: number, to: number, s: Scratch): boolean {
+function trialWindow(x: readonly number[], c: number, w0: number, k: number, opts: Pick<JumpScanOptions, 'sidePoints' | 'minSidePoints'>, spacing: number, from: number, to: number, s: Scratch): boolean {
   const width = w0 * WIDTH_FACTORS[k];
   const reach = windowReach(width, opts, spacing);
   const lo = windowStart(x, c, reach, from, to);
@@ -355,7 +361,7 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   }
   if (!evaluated) return [];
   const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
-  const threshold = z * z;
+  const threshold = opts.threshold ?? z * z;
   // The screen's rounding is a few ulps of the largest running sum (Σv² over the profile):
   // a margin thousands of times that keeps every trial the exact fit could pass.
   const screen = threshold - (1e-12 * s.prefix[4][x.length]) / sigma2;
@@ -384,4 +390,52 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
   return kept
     .sort((a, b) => centres[a] - centres[b])
     .map((k) => ({ ...refineRamp(x, y, centres[k], opts.rampWidthAt(centres[k]), opts.sigma, opts.sidePoints, spacing, s), statistic: statistics[k], threshold }));
+}
+
+/**
+ * The largest statistic (RSS_kink − RSS_step)/σ² over every trial of scanForJumps (same
+ * trials, same fits; 0 when no trial has a positive one): the statistic a Monte Carlo
+ * test compares between simulated and observed profiles (rock-steps.ts). Branch and
+ * bound: trials are taken in decreasing order of their bound RSS_line/σ² (≥ the
+ * statistic, see scanForJumps) and the search stops once the bound falls to the best
+ * statistic found, so on a profile as smooth as its noise few trials are fitted. Cost
+ * O(n·F·log m) to screen, O(T log T) to sort T trials, O(m) per trial fitted.
+ */
+export function maxJumpStatistic(x: readonly number[], y: readonly number[], opts: Omit<JumpScanOptions, 'falseAlarmProbability' | 'threshold'>): number {
+  if (x.length < 2 * opts.minSidePoints) return 0;
+  const factorCount = WIDTH_FACTORS.length;
+  const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
+  const s = scratchFor(x.length);
+  const sigma2 = opts.sigma * opts.sigma;
+  fillPrefixSums(x, y, s);
+  const trials: { c: number; w0: number; k: number; bound: number }[] = [];
+  for (let i = 0; i < x.length; i++) {
+    for (let half = 0; half < 2; half++) {
+      if (half === 1 && i + 1 >= x.length) break;
+      const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
+      const w0 = Math.max(0, opts.rampWidthAt(c));
+      const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
+      const from = windowStart(x, c, widest);
+      const to = windowEnd(x, c, widest);
+      for (let k = 0; k < factorCount; k++) {
+        if (!trialWindow(x, c, w0, k, opts, spacing, from, to, s)) continue;
+        trials.push({ c, w0, k, bound: screenLineRss(s.lo, s.hi, s) / sigma2 });
+      }
+    }
+  }
+  trials.sort((a, b) => b.bound - a.bound);
+  // The screen's rounding margin, as in scanForJumps.
+  const margin = (1e-12 * s.prefix[4][x.length]) / sigma2;
+  let best = 0;
+  for (const t of trials) {
+    if (!(t.bound + margin > best)) break;
+    trialWindow(x, t.c, t.w0, t.k, opts, spacing, 0, x.length, s);
+    if (!fitWindowLineOnePass(x, y, s.lo, s.hi, t.c, s.line)) continue;
+    const stepRss = stepFit(x, y, t.c, t.w0, t.k, s);
+    if (!((s.line.rss - stepRss) / sigma2 > best)) continue;
+    const kinkRss = bestKinkRss(x, y, s.lo, s.hi, t.c, s.line);
+    if (!Number.isFinite(kinkRss)) continue;
+    best = Math.max(best, (kinkRss - stepRss) / sigma2);
+  }
+  return best;
 }

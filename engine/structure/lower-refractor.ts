@@ -6,15 +6,15 @@
  * σ·√3/2, converted to a thickness of the middle layer over the rock
  * (normalDepthFromDelayM with V2 and V3, as the first refractor uses V1 and V2).
  *
- * Steps in the rock surface are not reported yet: a rock step of Δh2 is a delay jump of
- * only Δh2·cos θ23/V2 (1.66 ms for 3 m under 1600 m/s), below the jump scan's detection
- * limit at common pick noise, and larger steps still upset the three-layer branch reading
- * (measurements in docs/developers/three-layer.md).
+ * Steps in the rock surface are sought by depth/rock-steps.ts (a jump scan on the middle
+ * layer's stripped delay with a Monte Carlo threshold); interpret puts its test here as
+ * stepTest. The local line below is one piece over the whole mapped stretch.
  * Units: m, m/s, degrees. Pure; unrounded.
  */
 import { normalDepthFromDelayM } from '../plus-minus/plus-minus.js';
 import type { LocalDip } from './planar-dip.js';
 import { refractorDips } from './structure-features.js';
+import type { RockStepTest } from '../depth/rock-steps.js';
 
 export interface LowerRefractorInput {
   xsM: number[];
@@ -31,6 +31,8 @@ export interface LowerRefractorStructure {
   dip: { degrees: number; rmsM: number } | null;
   /** The line through the rock elevations over the whole mapped stretch (one piece: no steps are sought). */
   local: LocalDip[];
+  /** The Monte Carlo rock-step test (depth/rock-steps.ts), set by interpret; null where the line is too short for it. */
+  stepTest?: RockStepTest | null;
 }
 
 /** Fewest rock depths for a dip (a line has two parameters, the test needs a degree of freedom). */

@@ -112,7 +112,7 @@ function checkOptions(opts: StepDetectorOptions, length: number): { ic: number; 
  * for w positions in the run (it was a scan of all n per call, O(n²) per profile since the
  * jump scan asks at every centre).
  */
-function localDepth(xM: readonly number[], depth: readonly (number | null)[], c: number, radius: number): number {
+export function localDepth(xM: readonly number[], depth: readonly (number | null)[], c: number, radius: number): number {
   let lo = 0;
   let hi = xM.length;
   while (lo < hi) {

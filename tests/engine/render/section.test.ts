@@ -202,6 +202,31 @@ describe('renderSection', () => {
     expect(textOf(byRole(parseSvg(renderSection(survey, unplanar)), 'dip-2')[0])).toBe('second refractor: no single planar dip');
   });
 
+  it('marks a step in the rock on the second refractor, at its x, as a rock step with its throw', () => {
+    const { survey, interpretation } = renderFixture({ secondRefractorBelowM: 8 });
+    const rockStep = { x: 27, throw: 4.6, delayJumpMs: 2.4, seenIn: ['rock-delay-time'], statistic: 50.6, threshold: 42.1 };
+    const withRockStep = {
+      ...interpretation,
+      features: { ...interpretation.features, lowerRefractor: { dip: null, localDips: [], steps: [rockStep] } },
+    };
+    const root = parseSvg(renderSection(survey, withRockStep));
+    const x = axisMap(root, 'x-tick');
+    const y = axisMap(root, 'y-tick');
+    const marks = byRole(root, 'rock-step');
+    expect(marks).toHaveLength(1);
+    expect(textOf(marks[0])).toContain('rock step 4.6 m');
+    expect(textOf(marks[0])).toContain('deeper to +x');
+    const bar = marks[0].querySelector('line')!;
+    expect(Math.abs(x.toData(Number(bar.getAttribute('x1'))) - 27)).toBeLessThan(0.01);
+    // The tick is centred on the second refractor (elevation − depths[1]), not the first: its
+    // ends are 4 mm either side of it.
+    const station = interpretation.stations.reduce((a, b) => (Math.abs(b.x - 27) < Math.abs(a.x - 27) ? b : a));
+    const mid = (Number(bar.getAttribute('y1')) + Number(bar.getAttribute('y2'))) / 2;
+    const rockElevation = station.elevation - (station.depths[1] as number);
+    expect(Math.abs(y.toData(mid) - rockElevation)).toBeLessThan(1);
+    expect(byRole(parseSvg(renderSection(survey, interpretation)), 'rock-step')).toHaveLength(0);
+  });
+
   it('says "no single planar dip" when the interpretation has none', () => {
     const { survey, interpretation } = renderFixture({ noDip: true });
     const root = parseSvg(renderSection(survey, interpretation));

@@ -7,7 +7,7 @@
  * with and without steps, kinks and noise, with fixed and varying ramp widths.
  */
 import { describe, expect, it } from 'vitest';
-import { scanForJumps } from '../../../engine/structure/jump-scan.js';
+import { maxJumpStatistic, scanForJumps } from '../../../engine/structure/jump-scan.js';
 import { scanForJumps as straightforwardScan } from '../../../bench/former/jump-scan.js';
 import { gaussian, mulberry32 } from '../../helpers/random.js';
 
@@ -51,5 +51,42 @@ describe('jump scan against the straightforward dense scan', () => {
     }
     // The profiles must exercise detection, not only its absence.
     expect(detections).toBeGreaterThan(20);
+  });
+});
+
+/**
+ * maxJumpStatistic (branch and bound over the trials, for the Monte Carlo rock-step test,
+ * engine/depth/rock-steps.ts) against the same dense scan: where the dense scan detects, its
+ * strongest detection's statistic is the maximum (non-maximum suppression keeps the
+ * strongest); where it detects nothing, the maximum lies at or below its Bonferroni
+ * threshold. A threshold just below the maximum then gives a detection with that
+ * statistic, and one just above gives none.
+ */
+describe('largest scan statistic against the straightforward dense scan', () => {
+  it('same maximum on 150 seeded random profiles; the threshold override cuts at it', () => {
+    const rng = mulberry32(9133);
+    let compared = 0;
+    for (let trial = 0; trial < 150; trial++) {
+      const { x, y, sigma, w0 } = randomProfile(rng);
+      const rampWidthAt = trial % 2 === 0 ? () => w0 : (c: number) => w0 * (1 + 0.5 * Math.sin(c / 17));
+      const opts = { sigma, rampWidthAt, sidePoints: 6, minSidePoints: 3, falseAlarmProbability: 0.01 };
+      const max = maxJumpStatistic(x, y, opts);
+      const slow = straightforwardScan(x, y, opts);
+      if (slow.length > 0) {
+        const strongest = Math.max(...slow.map((d) => d.statistic));
+        expect(Math.abs(max - strongest)).toBeLessThanOrEqual(1e-6 * Math.max(1, strongest));
+        compared++;
+      } else {
+        // No detection at the Bonferroni threshold, yet one just below the maximum (below):
+        // so the maximum lies under that threshold.
+        expect(scanForJumps(x, y, opts)).toEqual([]);
+      }
+      if (max > 1) {
+        const below = scanForJumps(x, y, { ...opts, threshold: max * (1 - 1e-6) });
+        expect(below.some((d) => Math.abs(d.statistic - max) <= 1e-6 * max)).toBe(true);
+        expect(scanForJumps(x, y, { ...opts, threshold: max * (1 + 1e-6) })).toEqual([]);
+      }
+    }
+    expect(compared).toBeGreaterThan(20);
   });
 });
