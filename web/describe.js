@@ -129,6 +129,26 @@ export function coverageWords(coverage, pairCount) {
 }
 
 /**
+ * The rock steps of a three-layer line in words (features.lowerRefractor), or null when the
+ * line was not tested for them (two layers, or too few rock depths).
+ * "none found" says how strong the largest jump was against the line's own noise (the
+ * Monte Carlo p-value), so a geophysicist can tell "no hint" from "nearly".
+ * @param {{ steps?: { x: number; throw: number }[]; stepTest?: { pValue: number } } | null | undefined} lowerRefractor
+ * @returns {string | null}
+ */
+export function rockStepWords(lowerRefractor) {
+  if (!lowerRefractor || !Array.isArray(lowerRefractor.steps)) return null;
+  const steps = lowerRefractor.steps;
+  if (steps.length > 0) {
+    return steps
+      .map((s) => 'at x = ' + metres(s.x) + ' m, the rock ' + metres(Math.abs(s.throw)) + ' m deeper toward ' + (s.throw >= 0 ? '+x' : '−x'))
+      .join('; ');
+  }
+  const p = lowerRefractor.stepTest?.pValue;
+  return typeof p === 'number' && Number.isFinite(p) ? 'none found (largest jump p = ' + fixed(p, 2) + ')' : 'none found';
+}
+
+/**
  * What describePath reads from a survey the page parsed itself (not validated, so every part
  * may be missing).
  * @typedef {{ shots?: ({ id?: unknown } | null | undefined)[] } | null} SurveyNames

@@ -1,7 +1,7 @@
 // Builds the parts of the page from an interpretation. Text goes in through textContent
 // only: names, messages and numbers come from files the page does not control.
 
-import { degrees, describePath, metres, milliseconds, refractorDepthRanges, velocity } from './describe.js';
+import { degrees, describePath, metres, milliseconds, refractorDepthRanges, rockStepWords, velocity } from './describe.js';
 import { cellText, stationColumns } from './station-columns.js';
 import { hiddenLayerNote, otherWarnings } from './hidden-layer-note.js';
 
@@ -106,6 +106,9 @@ export function renderSummary(list, interpretation) {
   term(list, 'Steps in the refractor', steps.length
     ? steps.map((s) => 'at x = ' + metres(s.x) + ' m, throw ' + metres(s.throw) + ' m').join('; ')
     : 'none found');
+
+  const rockSteps = rockStepWords(features.lowerRefractor);
+  if (rockSteps !== null) term(list, 'Steps in the rock (second refractor)', rockSteps);
 
   const changes = Array.isArray(features.velocityChanges) ? features.velocityChanges : [];
   if (changes.length) {

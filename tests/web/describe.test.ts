@@ -1,7 +1,7 @@
 // The page's pure word and number helpers (web/describe.js), run in node: no DOM needed.
 import { describe, expect, it } from 'vitest';
 import {
-  binaryKind, coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, velocity, when,
+  binaryKind, coverageWords, describePath, detectFormat, fileStem, fixed, formatLabel, metres, pickTableName, rockStepWords, velocity, when,
 } from '../../web/describe.js';
 
 describe('detectFormat', () => {
@@ -106,5 +106,19 @@ describe('binaryKind', () => {
     expect(binaryKind(text('\uFEFF# name: Line 1\r\nshot_x,x,time_ms\r\n0,2,1.5\t\r\n'))).toBeNull();
     expect(binaryKind(text('{"name": "Läufer-Hang", "geophones": []}'))).toBeNull();
     expect(binaryKind(bytes())).toBeNull();
+  });
+});
+
+describe('rockStepWords', () => {
+  it('names each rock step with its place, size and the side the rock deepens to, as the section labels it', () => {
+    expect(rockStepWords({ steps: [{ x: 73.69, throw: 4.61 }], stepTest: { pValue: 0.005 } })).toBe('at x = 73.7 m, the rock 4.6 m deeper toward +x');
+    expect(rockStepWords({ steps: [{ x: 20, throw: -3 }, { x: 50.04, throw: 2.26 }] })).toBe('at x = 20.0 m, the rock 3.0 m deeper toward −x; at x = 50.0 m, the rock 2.3 m deeper toward +x');
+  });
+
+  it('says none were found, with the test’s p-value when there is one, and nothing for lines not tested', () => {
+    expect(rockStepWords({ steps: [], stepTest: { pValue: 0.333 } })).toBe('none found (largest jump p = 0.33)');
+    expect(rockStepWords({ steps: [] })).toBe('none found');
+    expect(rockStepWords({})).toBeNull();
+    expect(rockStepWords(undefined)).toBeNull();
   });
 });
