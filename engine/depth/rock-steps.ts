@@ -87,6 +87,35 @@ export interface RockStepTest {
 /** Replicates R and level α: (R + 1)·α = 2, so the threshold is the second-largest replicate maximum. */
 export const ROCK_STEP_REPLICATES = 199;
 export const ROCK_STEP_ALPHA = 0.01;
+/** The fewest replicates that still make an exact test at α = 0.01: (R + 1)·α = 1, the threshold is the largest replicate maximum. */
+export const ROCK_STEP_MIN_REPLICATES = 99;
+
+/**
+ * Work the test may do, in picks × replicates. Each replicate re-runs the stripping, which
+ * costs about 2–6 µs per pick on the 2-core machine (measured: 2 ms per replicate at
+ * 72 geophones × 5 shots, 60 ms at 480 × 24, where the full 199 took the interpretation to
+ * 12.3 s, past the service's 10 s limit). 400,000 keeps the whole test within about 1–2 s,
+ * room left for the layer choice's second candidate. Our choice.
+ */
+export const ROCK_STEP_WORK_BUDGET = 400_000;
+
+/**
+ * Replicates the test runs on a line of `picks` picks: ROCK_STEP_REPLICATES when the budget
+ * allows, else ROCK_STEP_MIN_REPLICATES (less power, the same 1 % level), else 0: the line is
+ * too large to test (interpret.ts then says so in a `rock-steps-not-sought` note). O(1).
+ */
+export function rockStepReplicates(picks: number): number {
+  if (picks * ROCK_STEP_REPLICATES <= ROCK_STEP_WORK_BUDGET) return ROCK_STEP_REPLICATES;
+  if (picks * ROCK_STEP_MIN_REPLICATES <= ROCK_STEP_WORK_BUDGET) return ROCK_STEP_MIN_REPLICATES;
+  return 0;
+}
+
+/** Picks of the line (times given), the unit of the test's work. O(picks). */
+export function pickCount(survey: Survey): number {
+  let n = 0;
+  for (const s of survey.shots) for (const t of s.times) if (t !== null) n++;
+  return n;
+}
 /** Fewest stations with a rock thickness for a scan: two full sides of 8 points (steps.ts's default sidePoints). */
 export const MIN_ROCK_STATIONS = 16;
 

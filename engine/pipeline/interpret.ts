@@ -30,12 +30,12 @@ import { firstRefractorPairs } from '../plus-minus/first-refractor-pairs.js';
 import { refractorPlusTimes, widestPairMinusTimes } from '../plus-minus/refractor-plus-times.js';
 import { firstRefractorSection } from '../depth/first-refractor-section.js';
 import { secondRefractor } from '../depth/second-refractor.js';
-import { rockSteps } from '../depth/rock-steps.js';
+import { pickCount, rockStepReplicates, rockSteps } from '../depth/rock-steps.js';
 import { sectionDips } from '../structure/line-dip.js';
 import { branchWarnings, methodWarnings } from '../qc/input-warnings.js';
 import { negativeDelayWarnings, plusTimeWarnings } from '../qc/plus-time-warnings.js';
 import { coverageWarnings } from '../qc/coverage-warnings.js';
-import { rockStepWarnings, structureWarnings } from '../qc/structure-warnings.js';
+import { rockStepsNotSoughtWarning, rockStepWarnings, structureWarnings } from '../qc/structure-warnings.js';
 import { withDataCautions } from '../qc/data-cautions.js';
 import { withResiduals } from '../qc/residuals.js';
 import { chooseLayerCount, needsLayerChoice } from '../qc/layer-choice.js';
@@ -140,11 +140,19 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number, fallbackNote?: W
   // Steps in the rock: a jump scan on the stripped middle-layer delay, its threshold from a
   // Monte Carlo test of the line's own error process (depth/rock-steps.ts; up to 199
   // re-runs of the stripping, fewer when the test stops early).
+  // The work is bounded by the line's picks (rockStepReplicates): a line too large to test
+  // in the service's time gets a note instead.
   const rockMap = threeLayer?.map;
   if (threeLayer && rockMap?.mapped && rockMap.structure) {
-    const stepTest = rockSteps(survey, shots, twoLayerRecord, options, rockMap);
-    rockMap.structure = { ...rockMap.structure, stepTest };
-    threeLayer.warnings.push(...rockStepWarnings(stepTest));
+    const picks = pickCount(survey);
+    const replicates = rockStepReplicates(picks);
+    if (replicates > 0) {
+      const stepTest = rockSteps(survey, shots, twoLayerRecord, options, rockMap, replicates);
+      rockMap.structure = { ...rockMap.structure, stepTest };
+      threeLayer.warnings.push(...rockStepWarnings(stepTest));
+    } else {
+      threeLayer.warnings.push(rockStepsNotSoughtWarning(picks));
+    }
   }
   // Time terms map the first refractor only (two-layer lines): a line with a mapped second
   // refractor is interpreted by plus-minus instead, and says so (README, options.method).

@@ -4,8 +4,9 @@
  */
 import type { Warning } from '../output/interpretation.js';
 import type { FoundStep } from '../structure/structure-features.js';
-import type { RockStepTest } from '../depth/rock-steps.js';
+import { ROCK_STEP_MIN_REPLICATES, ROCK_STEP_WORK_BUDGET, type RockStepTest } from '../depth/rock-steps.js';
 import { roundM } from '../output/output-decimals.js';
+import { groupThousands } from '../output/display-precision.js';
 import { lengthText, positionText, velocityNumber } from './wording.js';
 
 export function structureWarnings(steps: FoundStep[], changes: { x: number; left: number; right: number }[], lateralV1: boolean): Warning[] {
@@ -46,4 +47,18 @@ export function rockStepWarnings(test: RockStepTest | null | undefined): Warning
     // Rounded as features.lowerRefractor.steps[].x is, so the note points at the step drawn.
     x: roundM(st.x),
   }));
+}
+
+/**
+ * The note for a three-layer line too large for the rock-step test (rockStepReplicates):
+ * steps in the rock were not sought, so "none found" would be wrong.
+ */
+export function rockStepsNotSoughtWarning(picks: number): Warning {
+  const most = Math.floor(ROCK_STEP_WORK_BUDGET / ROCK_STEP_MIN_REPLICATES);
+  return {
+    code: 'rock-steps-not-sought',
+    message:
+      `Steps in the rock (second refractor) were not sought on this line: the test that tells a rock step from the line's own noise re-runs the layer stripping at least ${ROCK_STEP_MIN_REPLICATES} times, ` +
+      `too much work for one interpretation at ${groupThousands(picks)} picks (up to ${groupThousands(most)} are tested). A step in the rock may show as a slope of the second refractor; interpret a shorter stretch of the line to test it.`,
+  };
 }

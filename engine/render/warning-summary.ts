@@ -21,6 +21,7 @@ const PHRASES: Readonly<Record<string, string>> = {
   'impossible-velocity': 'an impossible velocity was set aside',
   'refractor-step': 'a step in the refractor',
   'rock-step': 'a step in the rock (second refractor)',
+  'rock-steps-not-sought': 'steps in the rock not sought (line too large for the test)',
   'refractor-velocity-change': 'the refractor velocity changes along the line',
   'lateral-top-layer-velocity': 'top-layer velocity varies along the line',
   'residuals-high': 'picks misfit the modelled first arrivals',

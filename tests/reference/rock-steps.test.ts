@@ -15,6 +15,7 @@ import { interpret } from '../../engine/pipeline/interpret.js';
 import { syntheticSurvey } from '../../engine/forward/synthetic.js';
 import type { LayeredModel } from '../../engine/forward/model.js';
 import type { Interpretation } from '../../engine/output/interpretation.js';
+import { ROCK_STEP_WORK_BUDGET, rockStepReplicates } from '../../engine/depth/rock-steps.js';
 
 const FAR = 500;
 
@@ -141,5 +142,42 @@ describe('no rock step on rock dipping 12°', () => {
     const r = interpret({ ...survey, options: { layers: 3, pickUncertaintyMs: 0.3, residuals: false } });
     expect(r.features.lowerRefractor?.stepTest).toBeDefined();
     expect(rockStepsOf(r)).toEqual([]);
+  });
+});
+
+/**
+ * The test's work is bounded by the line's picks (rockStepReplicates): 199 replicates up to
+ * ROCK_STEP_WORK_BUDGET / 199 picks, 99 (the fewest for an exact 1 % test, Davison & Hinkley
+ * 1997 ch. 4: (R + 1)·α must be a whole number ≥ 1) up to the budget / 99, none beyond.
+ * Measured before the bound: a 480-geophone, 24-shot three-layer line with a rock step ran
+ * all 199 replicates at 60 ms each, 12.3 s, past the service's 10 s limit.
+ */
+describe('the rock-step test stays within its work budget', () => {
+  it('takes 199 replicates, then 99, then none as the picks grow', () => {
+    const at199 = Math.floor(ROCK_STEP_WORK_BUDGET / 199);
+    const at99 = Math.floor(ROCK_STEP_WORK_BUDGET / 99);
+    expect(rockStepReplicates(360)).toBe(199);
+    expect(rockStepReplicates(at199)).toBe(199);
+    expect(rockStepReplicates(at199 + 1)).toBe(99);
+    expect(rockStepReplicates(at99)).toBe(99);
+    expect(rockStepReplicates(at99 + 1)).toBe(0);
+    // α·(R + 1) whole for both counts: the thresholds are order statistics of the replicates.
+    expect(((199 + 1) * 0.01) % 1).toBe(0);
+    expect(((99 + 1) * 0.01) % 1).toBe(0);
+  });
+
+  it('a three-layer line past the budget (180 geophones × 24 shots, 4,320 picks) says steps in the rock were not sought, and runs no test', () => {
+    // Model: soil 400 m/s 2 m over weathered rock 1600 m/s over flat rock 3400 m/s at 6 m;
+    // 180 geophones at 2 m, 24 shots along and beyond the line; exact picks, three layers asked for.
+    const L = 179 * 2;
+    const shots = [-40, -1, ...Array.from({ length: 20 }, (_, k) => 2 * Math.round(((k + 1) * L) / 21 / 2) + 1), L + 1, L + 40];
+    const survey = syntheticSurvey(model([400, 1600, 3400], 2, [[-FAR, 6], [FAR, 6]]), { geophoneCount: 180, firstX: 0, spacing: 2, shots: shots.map((x) => ({ x })) });
+    const r = interpret({ ...survey, options: { layers: 3, pickUncertaintyMs: 0.3, residuals: false } });
+    expect(r.layers).toHaveLength(3);
+    expect(r.features.lowerRefractor, 'the rock is mapped').toBeDefined();
+    expect(r.features.lowerRefractor?.stepTest).toBeUndefined();
+    const notes = r.qc.warnings.filter((w) => w.code === 'rock-steps-not-sought');
+    expect(notes).toHaveLength(1);
+    expect(notes[0].message).toMatch(/4,320 picks/);
   });
 });
