@@ -254,6 +254,39 @@ function screenLineRss(lo: number, hi: number, s: Scratch): number {
 }
 
 /**
+ * Every trial of a scan, screened (the first pass of scanForJumps, shared with
+ * maxJumpStatistic): a trial is a centre (each x_i and each midpoint, in order) and a width
+ * factor with at least minSidePoints points beyond each end of the ramp; its centre, W0,
+ * factor and bound RSS_line/σ² go into s.centres, s.baseWidths, s.factorOf and s.bounds in
+ * scan order. Returns how many. O(n·F·log m) for n points, F widths, m points per window.
+ */
+function screenTrials(x: readonly number[], y: readonly number[], opts: Pick<JumpScanOptions, 'rampWidthAt' | 'sidePoints' | 'minSidePoints'>, spacing: number, sigma2: number, s: Scratch): number {
+  const factorCount = WIDTH_FACTORS.length;
+  fillPrefixSums(x, y, s);
+  let evaluated = 0;
+  for (let i = 0; i < x.length; i++) {
+    for (let half = 0; half < 2; half++) {
+      if (half === 1 && i + 1 >= x.length) break;
+      const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
+      const w0 = Math.max(0, opts.rampWidthAt(c));
+      // The widest ramp's window holds every narrower one's.
+      const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
+      const from = windowStart(x, c, widest);
+      const to = windowEnd(x, c, widest);
+      for (let k = 0; k < factorCount; k++) {
+        if (!trialWindow(x, c, w0, k, opts, spacing, from, to, s)) continue;
+        s.centres[evaluated] = c;
+        s.baseWidths[evaluated] = w0;
+        s.factorOf[evaluated] = k;
+        s.bounds[evaluated] = screenLineRss(s.lo, s.hi, s) / sigma2;
+        evaluated++;
+      }
+    }
+  }
+  return evaluated;
+}
+
+/**
  * The step fit of a trial whose window and line are set (s.lo, s.hi, s.line): its
  * ramp computed over the window (fillRampColumns) and added to the line. RSS_step, or NaN
  * when the ramp is (numerically) a line over the window. O(m).
@@ -331,34 +364,13 @@ function refineRamp(x: readonly number[], y: readonly number[], c0: number, w0: 
  */
 export function scanForJumps(x: readonly number[], y: readonly number[], opts: JumpScanOptions): JumpDetection[] {
   if (x.length < 2 * opts.minSidePoints) return [];
-  const factorCount = WIDTH_FACTORS.length;
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
   const s = scratchFor(x.length);
   const sigma2 = opts.sigma * opts.sigma;
   // Every trial (centre, width) with a line fit, in scan order: centre, W0, width factor,
   // RSS_line/σ² (the statistic's upper bound).
   const { centres, baseWidths, factorOf, bounds, statistics, halfWidths } = s;
-  fillPrefixSums(x, y, s);
-  let evaluated = 0;
-  for (let i = 0; i < x.length; i++) {
-    for (let half = 0; half < 2; half++) {
-      if (half === 1 && i + 1 >= x.length) break;
-      const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
-      const w0 = Math.max(0, opts.rampWidthAt(c));
-      // The widest ramp's window holds every narrower one's.
-      const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
-      const from = windowStart(x, c, widest);
-      const to = windowEnd(x, c, widest);
-      for (let k = 0; k < factorCount; k++) {
-        if (!trialWindow(x, c, w0, k, opts, spacing, from, to, s)) continue;
-        centres[evaluated] = c;
-        baseWidths[evaluated] = w0;
-        factorOf[evaluated] = k;
-        bounds[evaluated] = screenLineRss(s.lo, s.hi, s) / sigma2;
-        evaluated++;
-      }
-    }
-  }
+  const evaluated = screenTrials(x, y, opts, spacing, sigma2, s);
   if (!evaluated) return [];
   const z = normalQuantile(1 - opts.falseAlarmProbability / (2 * evaluated));
   const threshold = opts.threshold ?? z * z;
@@ -403,26 +415,12 @@ export function scanForJumps(x: readonly number[], y: readonly number[], opts: J
  */
 export function maxJumpStatistic(x: readonly number[], y: readonly number[], opts: Omit<JumpScanOptions, 'falseAlarmProbability' | 'threshold'>): number {
   if (x.length < 2 * opts.minSidePoints) return 0;
-  const factorCount = WIDTH_FACTORS.length;
   const spacing = (x[x.length - 1] - x[0]) / (x.length - 1);
   const s = scratchFor(x.length);
   const sigma2 = opts.sigma * opts.sigma;
-  fillPrefixSums(x, y, s);
+  const evaluated = screenTrials(x, y, opts, spacing, sigma2, s);
   const trials: { c: number; w0: number; k: number; bound: number }[] = [];
-  for (let i = 0; i < x.length; i++) {
-    for (let half = 0; half < 2; half++) {
-      if (half === 1 && i + 1 >= x.length) break;
-      const c = half === 0 ? x[i] : 0.5 * (x[i] + x[i + 1]);
-      const w0 = Math.max(0, opts.rampWidthAt(c));
-      const widest = windowReach(w0 * WIDTH_FACTORS[factorCount - 1], opts, spacing);
-      const from = windowStart(x, c, widest);
-      const to = windowEnd(x, c, widest);
-      for (let k = 0; k < factorCount; k++) {
-        if (!trialWindow(x, c, w0, k, opts, spacing, from, to, s)) continue;
-        trials.push({ c, w0, k, bound: screenLineRss(s.lo, s.hi, s) / sigma2 });
-      }
-    }
-  }
+  for (let r = 0; r < evaluated; r++) trials.push({ c: s.centres[r], w0: s.baseWidths[r], k: s.factorOf[r], bound: s.bounds[r] });
   trials.sort((a, b) => b.bound - a.bound);
   // The screen's rounding margin, as in scanForJumps.
   const margin = (1e-12 * s.prefix[4][x.length]) / sigma2;
