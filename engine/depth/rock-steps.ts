@@ -50,26 +50,16 @@ import type { Survey } from '../survey/survey.js';
 import type { ShotAnalysis } from '../output/interpretation.js';
 import type { ResolvedOptions } from '../survey/options.js';
 import { mapSecondRefractor, type SecondRefractorMap, type TwoLayerRecord } from './second-refractor.js';
-import { maxJumpStatistic, scanForJumps, type JumpScanOptions } from '../structure/jump-scan.js';
-import { robustNoiseSigma } from '../structure/noise-level.js';
-import { localDepth, medianSpacing, throwFromDelayJump } from '../structure/steps.js';
+import { maxJumpStatistic, scanForJumps } from '../structure/jump-scan.js';
+import { delayTimeScanOptions, localDepth, medianSpacing, throwFromDelayJump, type DelayTimeStep } from '../structure/steps.js';
 import { seededUniform, standardNormal } from '../forward/seeded-random.js';
 
-/** A step found in the rock. */
-export interface RockStep {
-  /** Centre of the ramp, m. */
-  x: number;
-  /** Change of the middle layer's thickness across the step, m (positive: rock deeper on +x). */
-  throwM: number;
-  /** Jump of the rock's stripped delay h2·cos θ23/V2, ms. */
-  delayJumpMs: number;
-  standardErrorMs: number;
-  /** Scan statistic (RSS_kink − RSS_step)/σ² and the Monte Carlo threshold it beat. */
-  statistic: number;
-  threshold: number;
-  /** Replicates the threshold rests on. */
-  replicates: number;
-}
+/**
+ * A step found in the rock: as a first-refractor delay-time step (centre of the ramp, throw =
+ * change of the middle layer's thickness, positive where the rock is deeper on +x, jump of
+ * the stripped delay h2·cos θ23/V2, the statistic and the Monte Carlo threshold it beat).
+ */
+export type RockStep = Omit<DelayTimeStep, 'rampWidthM'>;
 
 /** What the test did, for the report and the docs' measurements. */
 export interface RockStepTest {
@@ -141,8 +131,7 @@ function lineSeed(survey: Survey): number {
 }
 
 /** The rock's stripped delay, ms, at the stations that have a middle-layer thickness. */
-function rockDelayProfile(xs: readonly number[], thicknessM: readonly (number | null)[], v2: number, v3: number): { x: number[]; y: number[]; h: number[]; index: number[] } {
-  const cos23 = Math.sqrt(1 - (v2 / v3) ** 2);
+function rockDelayProfile(xs: readonly number[], thicknessM: readonly (number | null)[], v2: number, cos23: number): { x: number[]; y: number[]; h: number[]; index: number[] } {
   const out = { x: [] as number[], y: [] as number[], h: [] as number[], index: [] as number[] };
   thicknessM.forEach((h, i) => {
     if (h === null || !Number.isFinite(h)) return;
@@ -154,18 +143,6 @@ function rockDelayProfile(xs: readonly number[], thicknessM: readonly (number | 
   return out;
 }
 
-/** The scan's options for a rock profile: σ as findDelayTimeSteps takes it (pick σ/√2, or the profile's robust noise if larger), ramp 2·h2·tan θ23. */
-function scanOptions(x: number[], y: number[], h: number[], v2: number, v3: number, pickSigmaMs: number): Omit<JumpScanOptions, 'falseAlarmProbability'> {
-  const tan23 = Math.tan(Math.asin(v2 / v3));
-  const spacing = medianSpacing(x);
-  return {
-    sigma: Math.max(pickSigmaMs / Math.SQRT2, robustNoiseSigma(x, y) ?? 0),
-    rampWidthAt: (c) => Math.max(2 * localDepth(x, h, c, SIDE_POINTS * spacing) * tan23, spacing),
-    sidePoints: SIDE_POINTS,
-    minSidePoints: MIN_SIDE_POINTS,
-  };
-}
-
 /**
  * Steps in the rock of a mapped three-layer line (see the file comment); null where the
  * line has fewer than MIN_ROCK_STATIONS rock thicknesses or no three velocities.
@@ -174,10 +151,14 @@ export function rockSteps(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLa
   const [, v2, v3] = map.velocitiesMPerS;
   if (!map.mapped || v2 === null || v3 === null || !(v3 > v2)) return null;
   const xs = survey.geophones.map((g) => g.x);
-  const observed = rockDelayProfile(xs, map.normalThicknessM.map((t) => t[1]), v2, v3);
-  if (observed.x.length < MIN_ROCK_STATIONS) return null;
   const sigmaMs = options.pickUncertaintyMs;
-  const opts = scanOptions(observed.x, observed.y, observed.h, v2, v3, sigmaMs);
+  const cos23 = Math.sqrt(1 - (v2 / v3) ** 2);
+  const ic23 = Math.asin(v2 / v3);
+  // The scan as the first refractor's delay-time steps run it (steps.ts), V2 and V3 in the place of V1 and V2.
+  const scanOptions = (x: number[], y: number[], h: number[]) => delayTimeScanOptions(x, y, x, h, ic23, sigmaMs, SIDE_POINTS, MIN_SIDE_POINTS);
+  const observed = rockDelayProfile(xs, map.normalThicknessM.map((t) => t[1]), v2, cos23);
+  if (observed.x.length < MIN_ROCK_STATIONS) return null;
+  const opts = scanOptions(observed.x, observed.y, observed.h);
   const observedMax = maxJumpStatistic(observed.x, observed.y, opts);
   // Replicates at or above the observed maximum that make rejection impossible.
   const limit = Math.max(1, Math.round((replicates + 1) * alpha));
@@ -190,7 +171,6 @@ export function rockSteps(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLa
     const x: number[] = [];
     const e: number[] = [];
     const h: number[] = [];
-    const cos23 = Math.sqrt(1 - (v2 / v3) ** 2);
     observed.index.forEach((i, k) => {
       const t = replica.normalThicknessM[i][1];
       if (t === null || !Number.isFinite(t)) return;
@@ -198,7 +178,7 @@ export function rockSteps(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLa
       e.push((1000 * t * cos23) / v2 - observed.y[k]);
       h.push(observed.h[k]);
     });
-    const m = x.length >= MIN_ROCK_STATIONS ? maxJumpStatistic(x, e, scanOptions(x, e, h, v2, v3, sigmaMs)) : 0;
+    const m = x.length >= MIN_ROCK_STATIONS ? maxJumpStatistic(x, e, scanOptions(x, e, h)) : 0;
     maxima.push(m);
     if (m >= observedMax) reached++;
     if (reached >= limit) {
@@ -223,7 +203,6 @@ export function rockSteps(survey: Survey, shots: ShotAnalysis[], twoLayer: TwoLa
     standardErrorMs: f.standardError,
     statistic: f.statistic,
     threshold,
-    replicates,
   }));
   return { steps, observedMax, replicates, threshold, pValue };
 }

@@ -138,10 +138,9 @@ function interpretOnce(survey: Survey, grmForcedSteps?: number, fallbackNote?: W
   const twoLayerRecord = { v1MPerS: v1, v2MPerS: v2, v1At: topLayer.v1MPerS, v2At: section.v2At.map((v, i) => (plus.delayTimeMs[i] === null ? null : v)), depthM: verticalDepthM };
   const threeLayer = secondRefractor(survey, shots, twoLayerRecord, options);
   // Steps in the rock: a jump scan on the stripped middle-layer delay, its threshold from a
-  // Monte Carlo test of the line's own error process (depth/rock-steps.ts; up to 199
-  // re-runs of the stripping, fewer when the test stops early).
-  // The work is bounded by the line's picks (rockStepReplicates): a line too large to test
-  // in the service's time gets a note instead.
+  // Monte Carlo test of the line's own error process (depth/rock-steps.ts), with as many
+  // re-runs of the stripping as the line's picks allow (rockStepReplicates); a line too
+  // large to test in the service's time gets a note instead.
   const rockMap = threeLayer?.map;
   if (threeLayer && rockMap?.mapped && rockMap.structure) {
     const picks = pickCount(survey);

@@ -38,12 +38,13 @@ export function structureWarnings(steps: FoundStep[], changes: { x: number; left
 
 /** One note per step found in the rock of a three-layer line (depth/rock-steps.ts), with the test that found it. */
 export function rockStepWarnings(test: RockStepTest | null | undefined): Warning[] {
-  return (test?.steps ?? []).map((st) => ({
+  if (!test) return [];
+  return test.steps.map((st) => ({
     code: 'rock-step',
     message:
       `The rock (second refractor) steps ${st.throwM > 0 ? 'down' : 'up'} by about ${lengthText(Math.abs(st.throwM))} m toward +x near x = ${positionText(st.x)} m ` +
       `(a jump of ${Math.abs(st.delayJumpMs).toFixed(1)} ms in the middle layer's stripped delay; statistic ${st.statistic.toFixed(1)} against ${st.threshold.toFixed(1)}, ` +
-      `the threshold that ${st.replicates} simulated lines with picks as uncertain as stated give for 1 % false alarms). Rock depths within about the depth of the rock of it are smoothed by the method.`,
+      `the threshold that ${test.replicates} simulated lines with picks as uncertain as stated give for 1 % false alarms). Rock depths within about the depth of the rock of it are smoothed by the method.`,
     // Rounded as features.lowerRefractor.steps[].x is, so the note points at the step drawn.
     x: roundM(st.x),
   }));

@@ -29,7 +29,7 @@ export interface LowerRefractorInput {
 export interface LowerRefractorStructure {
   /** The χ²-accepted plane through the rock elevations, degrees (positive deepening to +x) and RMS, m; null where no plane fits. */
   dip: { degrees: number; rmsM: number } | null;
-  /** The line through the rock elevations over the whole mapped stretch (one piece: no steps are sought). */
+  /** The line through the rock elevations over the whole mapped stretch (one piece, not split at rock steps). */
   local: LocalDip[];
   /** The Monte Carlo rock-step test (depth/rock-steps.ts), set by interpret; null where the line is too short for it. */
   stepTest?: RockStepTest | null;

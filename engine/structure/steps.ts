@@ -24,7 +24,7 @@
  * Units: x, z in m; times in ms; velocities in m/s.
  */
 import type { Step } from '../output/interpretation.js';
-import { scanForJumps } from './jump-scan.js';
+import { scanForJumps, type JumpScanOptions } from './jump-scan.js';
 import { robustNoiseSigma } from './noise-level.js';
 import { checkPositions, checkPositive, checkValues, presentPoints, StructureInputError } from './structure-input.js';
 
@@ -144,6 +144,34 @@ export function throwFromDelayJump(delayJumpMs: number, v1MPerS: number, v2MPerS
 }
 
 /**
+ * The jump scan's options for a delay-time profile (present points x, y, ms) of a refractor
+ * with critical angle ic under the layer above it: σ the delay's pick noise σ_pick/√2
+ * (T+ = t_AG + t_BG − t_AB), raised to the profile's robust noise when that is larger; the
+ * ramp width 2·z·tan(ic), z the deepest of depthM (at positions depthXM) within sidePoints
+ * spacings (the deep side smears more), never narrower than one spacing. Shared by the
+ * first refractor's steps (findDelayTimeSteps) and the rock's (depth/rock-steps.ts).
+ */
+export function delayTimeScanOptions(
+  x: readonly number[],
+  y: readonly number[],
+  depthXM: readonly number[],
+  depthM: readonly (number | null)[],
+  ic: number,
+  pickSigmaMs: number,
+  sidePoints: number,
+  minSidePoints: number,
+): Omit<JumpScanOptions, 'falseAlarmProbability'> {
+  const spacing = medianSpacing(x);
+  const tanIc = Math.tan(ic);
+  return {
+    sigma: Math.max(pickSigmaMs / Math.SQRT2, robustNoiseSigma(x, y) ?? 0),
+    rampWidthAt: (c) => Math.max(2 * localDepth(depthXM, depthM, c, sidePoints * spacing) * tanIc, spacing),
+    sidePoints,
+    minSidePoints,
+  };
+}
+
+/**
  * Vertical jumps in the delay-time profile (delay time = T+/2, ms). The delay-time noise is
  * pickSigmaMs/√2 (T+ = t_AG + t_BG − t_AB; t_AB is common to all geophones and cannot
  * make a jump), raised to the robust data estimate when the profile is noisier.
@@ -154,17 +182,9 @@ export function findDelayTimeSteps(xM: number[], delayTimeMs: (number | null)[],
   checkValues(delayTimeMs, xM.length, 'delayTimeMs');
   const { ic, sidePoints, minSidePoints, alpha } = checkOptions(opts, xM.length);
   const { x, y } = presentPoints(xM, delayTimeMs);
-  const sigma = Math.max(opts.pickSigmaMs / Math.SQRT2, robustNoiseSigma(x, y) ?? 0);
   const depth = opts.depthM ?? delayTimeMs.map((d) => (d === null ? null : Math.max(0, (d / 1000) * opts.v1MPerS / Math.cos(ic))));
-  const spacing = medianSpacing(x);
-  const tanIc = Math.tan(ic);
-  const rampWidthAt = (c: number): number => {
-    // Ramp width 2·z·tan(ic) with z the deepest nearby (the deep side smears more), never
-    // narrower than one spacing.
-    const z = localDepth(xM, depth, c, sidePoints * spacing);
-    return Math.max(2 * z * tanIc, spacing);
-  };
-  const found = scanForJumps(x, y, { sigma, rampWidthAt, sidePoints, minSidePoints, falseAlarmProbability: alpha });
+  const scan = delayTimeScanOptions(x, y, xM, depth, ic, opts.pickSigmaMs, sidePoints, minSidePoints);
+  const found = scanForJumps(x, y, { ...scan, falseAlarmProbability: alpha });
   return found.map((f) => ({
     x: f.centreM,
     throwM: throwFromDelayJump(f.jump, opts.v1MPerS, opts.v2MPerS),

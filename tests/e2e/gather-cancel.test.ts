@@ -10,12 +10,11 @@
  * whose answer the cancel cut off, the page asks the service and says so.
  */
 import { join, resolve } from 'node:path';
-import { mkdir, readFile } from 'node:fs/promises';
+import { mkdir } from 'node:fs/promises';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page, Route } from 'playwright-core';
-import { openArcline, servePageInChromium, SAMPLES_DIR, type ServedPage } from './served-page.js';
+import { demoGatherFiles, dropFiles, openArcline, servePageInChromium, type DroppedFile, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun } from './browser.js';
-import { DEMO_GATHER_FILES } from '../../web/drop-files.js';
 
 const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/e2e');
 
@@ -62,25 +61,15 @@ async function holdUpload(page: Page, nth: number, mode: 'before' | 'after'): Pr
   return { held, release };
 }
 
-async function dropFiles(page: Page, files: { name: string; base64: string }[]): Promise<void> {
-  await page.evaluate((list) => {
-    const transfer = new DataTransfer();
-    for (const f of list) transfer.items.add(new File([Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0))], f.name, { type: 'application/octet-stream' }));
-    const zone = document.getElementById('drop-zone')!;
-    zone.dispatchEvent(new DragEvent('dragover', { dataTransfer: transfer, bubbles: true, cancelable: true }));
-    zone.dispatchEvent(new DragEvent('drop', { dataTransfer: transfer, bubbles: true, cancelable: true }));
-  }, files);
-}
-
 describe.skipIf(!browserTestsRun)('Cancelling a drop of seismograph files', () => {
   let served: ServedPage;
-  const files: { name: string; base64: string }[] = [];
+  const files: DroppedFile[] = [];
   const api = async <T>(path: string): Promise<T> => (await (await fetch(new URL(path, served.baseUrl))).json()) as T;
 
   beforeAll(async () => {
     await mkdir(SCREENSHOTS, { recursive: true });
     served = await servePageInChromium({ seedDemo: true });
-    for (const name of DEMO_GATHER_FILES) files.push({ name, base64: (await readFile(join(SAMPLES_DIR, name))).toString('base64') });
+    files.push(...(await demoGatherFiles()));
   }, BROWSER_TEST_TIMEOUT_MS);
 
   afterAll(async () => {

@@ -13,10 +13,9 @@ import { join, resolve } from 'node:path';
 import { readFile } from 'node:fs/promises';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { openArcline, servePageInChromium, SAMPLES_DIR, type ServedPage } from './served-page.js';
+import { demoGatherFiles, dropFiles, openArcline, servePageInChromium, SAMPLES_DIR, type DroppedFile, type ServedPage } from './served-page.js';
 import { BROWSER_TEST_TIMEOUT_MS, POLL, browserTestsRun } from './browser.js';
 import { plotLayout } from '../../web/gather-plot.js';
-import { DEMO_GATHER_FILES } from '../../web/drop-files.js';
 import { writeSeg2 } from '../../engine/seg2/write.js';
 import { syntheticGather } from '../../engine/forward/synthetic-gather.js';
 import { spec } from '../helpers/picker-lines.js';
@@ -46,11 +45,11 @@ function rows(page: Page): Promise<{ name: string; state: string; words: string;
 
 describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () => {
   let served: ServedPage;
-  const files: { name: string; base64: string }[] = [];
+  const files: DroppedFile[] = [];
 
   beforeAll(async () => {
     served = await servePageInChromium({ seedDemo: true });
-    for (const name of DEMO_GATHER_FILES) files.push({ name, base64: (await readFile(join(SAMPLES_DIR, name))).toString('base64') });
+    files.push(...(await demoGatherFiles()));
   }, BROWSER_TEST_TIMEOUT_MS);
 
   afterAll(async () => {
@@ -78,13 +77,7 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     const mid = (await readFile(join(SAMPLES_DIR, 'demo-line-mid.sg2'))).subarray(0, 3000).toString('base64');
     const dropped = [...files.slice(0, 3), { name: 'demo-line-cut.sg2', base64: mid }, ...files.slice(3)];
     const droppedAt = Date.now();
-    await page.evaluate((list) => {
-      const transfer = new DataTransfer();
-      for (const f of list) transfer.items.add(new File([Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0))], f.name, { type: 'application/octet-stream' }));
-      const zone = document.getElementById('drop-zone')!;
-      zone.dispatchEvent(new DragEvent('dragover', { dataTransfer: transfer, bubbles: true, cancelable: true }));
-      zone.dispatchEvent(new DragEvent('drop', { dataTransfer: transfer, bubbles: true, cancelable: true }));
-    }, dropped);
+    await dropFiles(page, dropped);
 
     await expect.poll(async () => (await rows(page)).map((r) => r.state).join(','), POLL).toBe('stored,stored,stored,failed,stored,stored');
     // Reported, never asserted (speed is measured, not tested).

@@ -10,6 +10,7 @@ import type { BrowserContext, Page } from 'playwright-core';
 import type { Survey } from '../../engine/survey/survey.js';
 import { buildApp, type AppOptions } from '../../server/app.js';
 import { launchChromium, watchPage, type LaunchedBrowser, type PageTrouble } from './browser.js';
+import { DEMO_GATHER_FILES } from '../../web/drop-files.js';
 
 export interface ServedPage {
   /** The page's address, ending in '/'. */
@@ -68,4 +69,26 @@ export async function loadedWidth(page: Page, selector: string): Promise<number>
     return !!img && !!img.getAttribute('src') && img.complete;
   }, selector);
   return page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
+}
+
+/** A file as a page test hands it to the browser (bytes in base64). */
+export interface DroppedFile {
+  name: string;
+  base64: string;
+}
+
+/** Demo A's five SEG-2 files from samples/, ready to drop. */
+export async function demoGatherFiles(): Promise<DroppedFile[]> {
+  return Promise.all(DEMO_GATHER_FILES.map(async (name) => ({ name, base64: (await readFile(join(SAMPLES_DIR, name))).toString('base64') })));
+}
+
+/** Drops files on the page's drop zone as a user's drag does (dragover, then drop with a DataTransfer). */
+export async function dropFiles(page: Page, files: DroppedFile[]): Promise<void> {
+  await page.evaluate((list) => {
+    const transfer = new DataTransfer();
+    for (const f of list) transfer.items.add(new File([Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0))], f.name, { type: 'application/octet-stream' }));
+    const zone = document.getElementById('drop-zone')!;
+    zone.dispatchEvent(new DragEvent('dragover', { dataTransfer: transfer, bubbles: true, cancelable: true }));
+    zone.dispatchEvent(new DragEvent('drop', { dataTransfer: transfer, bubbles: true, cancelable: true }));
+  }, files);
 }

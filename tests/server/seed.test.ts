@@ -12,6 +12,7 @@ import { DEMO_GATHERS_LINE_NAME, seedDemoLines } from '../../server/seed.js';
 import { demoGathers, DEMO_GATHER_RECORDING } from '../../engine/samples/demo-gathers.js';
 import { demoLine } from '../../engine/samples/demo-lines.js';
 import { DEMO_GATHER_LINE_NAME } from '../../web/drop-files.js';
+import { memoryApp } from '../helpers/memory-app.js';
 
 const gathers = demoGathers();
 const demo = demoLine();
@@ -114,16 +115,10 @@ describe('seeding a fresh store', () => {
 });
 
 describe('seeding stores both lines or nothing', () => {
-  let app: FastifyInstance;
-  beforeAll(async () => {
-    app = await buildApp({ dataDir: ':memory:', webRoot: null });
-    await app.ready();
-  });
-  afterAll(async () => {
-    await app.close();
-  });
+  const server = memoryApp();
 
   it('a write failing part-way (the third revision of the gathers line) leaves the store empty', async () => {
+    const { app } = server;
     let calls = 0;
     const original = app.store.addRevision.bind(app.store);
     const spy = vi.spyOn(app.store, 'addRevision').mockImplementation((...args) => {
@@ -141,6 +136,7 @@ describe('seeding stores both lines or nothing', () => {
   });
 
   it('a line stored while the seed computes wins: the seed stores nothing', async () => {
+    const { app } = server;
     const interpretation = await app.compute.run('interpret', { survey: demo });
     const seeding = seedDemoLines(app.store, app.compute);
     // The seed found the store empty and now computes; a colleague's line lands meanwhile.
