@@ -109,7 +109,8 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     // Confidence: the legend, and the check-first line (Demo A is SNR 20: no pick is low).
     await page.waitForSelector('#gather-canvas[data-shot]');
     expect(await page.textContent('.pick-legend')).toContain('Low confidence (under 0.5): check it first');
-    expect(await page.textContent('#pick-check')).toBe("Check first: none. 24 picks are the picker's own, each with confidence 0.5 or more.");
+    // The list is written after the traces are drawn: wait for it, as for the title above.
+    await expect.poll(() => page.textContent('#pick-check'), POLL).toBe("Check first: none. 24 picks are the picker's own, each with confidence 0.5 or more.");
 
     // One pick moved 4 ms later on shot "mid": the section of the edited picks differs from the stored one.
     await page.selectOption('#gather-select', 'mid');
@@ -153,7 +154,8 @@ describe.skipIf(!browserTestsRun)('Dropping seismograph files on the page', () =
     await page.locator('#gather-review').waitFor({ state: 'visible' });
     expect((await page.$$eval('#gather-select option', (o) => o.map((x) => (x as HTMLOptionElement).value))).sort()).toEqual(['E-end', 'E-off', 'W-end', 'W-off', 'mid']);
     await page.waitForSelector('#gather-canvas[data-shot]');
-    expect(await page.textContent('#pick-check')).toBe("Check first: none. 24 picks are the picker's own, each with confidence 0.5 or more.");
+    // The list is written after the traces are drawn: wait for it, as for the title above.
+    await expect.poll(() => page.textContent('#pick-check'), POLL).toBe("Check first: none. 24 picks are the picker's own, each with confidence 0.5 or more.");
     await page.locator('#gather-review').screenshot({ path: join(SCREENSHOTS, 'seeded-gathers-review.png') });
     expect(trouble.pageErrors).toEqual([]);
     expect(trouble.cspViolations).toEqual([]);
